@@ -1,0 +1,127 @@
+//! The checker: syntax trees + codebooks → a checked [`Program`] of figure plans.
+//!
+//! It resolves every name, applies the scale rules of the language reference (§4) and reads
+//! every option into typed values. It reports all problems of all files in one run (errors
+//! and warnings) and never stops at the first.
+//!
+//! Invariant: the checker reads no data file. Rules that depend on the data's values are
+//! applied when the numbers are computed, using the spans kept in the plan.
+
+mod codebook;
+pub mod codes;
+mod figure;
+mod filter;
+mod layers;
+pub mod plan;
+mod terms;
+
+use std::collections::BTreeMap;
+use std::path::{Path, PathBuf};
+
+use crate::diag::{Diagnostic, Span};
+use crate::syntax::ast::{Item, SpecFile};
+
+pub use figure::{DEFAULT_DPI, DEFAULT_SIZE_MM, DPI_LIMITS, SIZE_LIMITS_MM};
+pub use plan::*;
+
+/// One parsed spec file, with the files it includes (indices into the same list).
+#[derive(Debug, Clone)]
+pub struct SpecUnit {
+    pub path: PathBuf,
+    pub ast: SpecFile,
+    /// Files whose data blocks this file sees (its includes, transitively).
+    pub sees: Vec<usize>,
+    /// Whether this file's figures are to be built (included-only files contribute data).
+    pub build_figures: bool,
+}
+
+/// Checks every unit; returns the program (figures that passed) and every diagnostic.
+pub fn check(units: &[SpecUnit]) -> (Program, Vec<Diagnostic>) {
+    let mut diags = Vec::new();
+    let mut program = Program::default();
+    // Codebooks of every file, indexed by file.
+    let mut books_of_file: Vec<Vec<usize>> = Vec::with_capacity(units.len());
+    for unit in units {
+        let dir = unit.path.parent().unwrap_or(Path::new("."));
+        let mut mine = Vec::new();
+        for item in &unit.ast.items {
+            let Item::Block(block) = item else { continue };
+            if block.kind.name != "data" {
+                continue;
+            }
+            if let Some(book) = codebook::check_data_block(block, dir, &mut diags) {
+                mine.push(program.codebooks.len());
+                program.codebooks.push(book);
+            }
+        }
+        books_of_file.push(mine);
+    }
+    let mut figure_names: BTreeMap<String, Span> = BTreeMap::new();
+    for (idx, unit) in units.iter().enumerate() {
+        let visible = visible_books(idx, units, &books_of_file, &program.codebooks, &mut diags);
+        for item in &unit.ast.items {
+            let Item::Block(block) = item else { continue };
+            match block.kind.name.as_str() {
+                "data" => {}
+                "figure" if unit.build_figures => {
+                    if let Some(first) = figure_names.get(&block.name.name) {
+                        diags.push(
+                            Diagnostic::error(codes::DUPLICATE_NAME, format!("two figures are named `{}`", block.name.name))
+                                .with_label(block.name.span, "named again here")
+                                .with_label(*first, "first named here")
+                                .with_help("figure names become file names; give each figure its own name"),
+                        );
+                        continue;
+                    }
+                    figure_names.insert(block.name.name.clone(), block.name.span);
+                    let books: Vec<(usize, &Codebook)> = visible.iter().map(|&i| (i, &program.codebooks[i])).collect();
+                    if let Some(plan) = figure::check_figure(block, &unit.path, &books, &mut diags) {
+                        program.figures.push(plan);
+                    }
+                }
+                "figure" => {}
+                other => diags.push(
+                    Diagnostic::error(codes::UNKNOWN_BLOCK, format!("`{other}` is not a kind of block"))
+                        .with_label(block.kind.span, "unknown block")
+                        .with_help("a spec holds `data NAME \"file.csv\" { ... }` and `figure NAME { ... }` blocks"),
+                ),
+            }
+        }
+    }
+    (program, diags)
+}
+
+/// Codebooks visible from a file: its own and those of the files it sees; names must be unique.
+fn visible_books(
+    idx: usize,
+    units: &[SpecUnit],
+    books_of_file: &[Vec<usize>],
+    books: &[Codebook],
+    diags: &mut Vec<Diagnostic>,
+) -> Vec<usize> {
+    let mut out: Vec<usize> = books_of_file[idx].clone();
+    for &other in &units[idx].sees {
+        if other != idx {
+            out.extend(books_of_file[other].iter().copied());
+        }
+    }
+    let mut seen: BTreeMap<&str, usize> = BTreeMap::new();
+    out.retain(|&b| match seen.get(books[b].name.as_str()) {
+        Some(&first) => {
+            if books_of_file[idx].contains(&b) {
+                diags.push(
+                    Diagnostic::error(codes::DUPLICATE_NAME, format!("two data blocks are named `{}`", books[b].name))
+                        .with_label(books[b].span, "named again here")
+                        .with_label(books[first].span, "first declared here")
+                        .with_help("give each data block its own name"),
+                );
+            }
+            false
+        }
+        None => {
+            seen.insert(books[b].name.as_str(), b);
+            true
+        }
+    });
+    out
+}

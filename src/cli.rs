@@ -1,0 +1,124 @@
+//! The command line: argument parsing, one function per command, exit codes in one place.
+//!
+//! Exit status: 0 success; 1 a spec or data error (or a warning with `--deny-warnings`);
+//! 2 a bad command line or an I/O failure.
+
+use std::ffi::OsString;
+use std::io::{IsTerminal, Write as _};
+use std::path::PathBuf;
+
+use clap::{Args, Parser, Subcommand, ValueEnum};
+
+use crate::build::{self, BuildOptions, BuildReport};
+use crate::report::{self, MessageFormat};
+
+#[derive(Parser, Debug)]
+#[command(name = "figura", version, about = "Compile checked statistical figures from .figura specs")]
+struct Cli {
+    #[command(subcommand)]
+    command: Command,
+}
+
+#[derive(Subcommand, Debug)]
+enum Command {
+    /// Build figures: SVG, PNG, PDF and a summary of every number shown.
+    Build(BuildArgs),
+    /// Parse, check and read the data of every figure; write nothing.
+    Check(CommonArgs),
+}
+
+#[derive(Args, Debug)]
+struct CommonArgs {
+    /// Spec files, or folders searched for *.figura (default: the current folder).
+    paths: Vec<PathBuf>,
+    /// Treat warnings as errors (exit 1).
+    #[arg(long)]
+    deny_warnings: bool,
+    /// How diagnostics are printed.
+    #[arg(long, value_enum, default_value = "human")]
+    message_format: Format,
+}
+
+#[derive(Args, Debug)]
+struct BuildArgs {
+    #[command(flatten)]
+    common: CommonArgs,
+    /// Write every output to this folder (default: out/ beside each spec).
+    #[arg(long)]
+    out: Option<PathBuf>,
+}
+
+#[derive(ValueEnum, Clone, Copy, Debug)]
+enum Format {
+    Human,
+    Json,
+}
+
+/// Exit codes.
+pub const EXIT_OK: i32 = 0;
+pub const EXIT_DIAGNOSTICS: i32 = 1;
+pub const EXIT_FAILURE: i32 = 2;
+
+/// Runs the command line and returns the exit status.
+pub fn run(args: impl IntoIterator<Item = OsString>) -> i32 {
+    let cli = match Cli::try_parse_from(args) {
+        Ok(cli) => cli,
+        Err(e) => {
+            let _ = e.print();
+            return if e.use_stderr() { EXIT_FAILURE } else { EXIT_OK };
+        }
+    };
+    match cli.command {
+        Command::Build(args) => run_build(&args.common, args.out, false),
+        Command::Check(args) => run_build(&args, None, true),
+    }
+}
+
+fn run_build(args: &CommonArgs, out: Option<PathBuf>, check_only: bool) -> i32 {
+    let paths = if args.paths.is_empty() { vec![PathBuf::from(".")] } else { args.paths.clone() };
+    let options = BuildOptions { paths, out, check_only };
+    let report = match build::build(&options) {
+        Ok(r) => r,
+        Err(e) => {
+            eprintln!("error: {e}");
+            return EXIT_FAILURE;
+        }
+    };
+    print_diagnostics(&report, args.message_format);
+    if !matches!(args.message_format, Format::Json) {
+        print_closing_line(&report, check_only);
+    }
+    exit_code(&report, args.deny_warnings)
+}
+
+fn print_diagnostics(report: &BuildReport, format: Format) {
+    let format = match format {
+        Format::Json => MessageFormat::Json,
+        Format::Human => MessageFormat::Human { colour: std::io::stderr().is_terminal() },
+    };
+    let text = report::render_all(&report.diagnostics, &report.sources, format);
+    let mut err = std::io::stderr().lock();
+    let _ = err.write_all(text.as_bytes());
+}
+
+fn print_closing_line(report: &BuildReport, check_only: bool) {
+    let errors = report.diagnostics.iter().filter(|d| d.is_error()).count();
+    let warnings = report.diagnostics.len() - errors;
+    let verb = if check_only { "checked" } else { "built" };
+    eprintln!(
+        "{} figure{} {verb}, {} failed; {errors} error{}, {warnings} warning{}",
+        report.figures_built,
+        if report.figures_built == 1 { "" } else { "s" },
+        report.figures_failed,
+        if errors == 1 { "" } else { "s" },
+        if warnings == 1 { "" } else { "s" },
+    );
+}
+
+fn exit_code(report: &BuildReport, deny_warnings: bool) -> i32 {
+    if report.has_errors() || (deny_warnings && report.has_warnings()) {
+        EXIT_DIAGNOSTICS
+    } else {
+        EXIT_OK
+    }
+}

@@ -1,0 +1,533 @@
+//! Frames over a categorical x: counts, values by category (points, box, mean, median, lines),
+//! and medians of an ordinal y.
+
+use std::collections::BTreeMap;
+
+use crate::check::plan::{CatAxis, CatNumLayer, CatOrdLayer, CountLayer, ErrorBar, Heights, NumAxis, Whiskers};
+use crate::stats;
+
+use super::rows::{self, Cell, Levels, Obs, Placed};
+use super::summary::RowKey;
+use super::{
+    Bar, BoxMark, CatPoint, ComputeError, Context, Estimate, EstimateKind, FigureData, LayerMarks, LevelMark, NumScale,
+    PanelData, SubjectPath, XScale, YScale,
+};
+
+/// Seed mixed into every jitter key, so figures of the same data jitter alike (documented).
+const JITTER_SEED: u64 = 0x5eed_f16a;
+
+/// `counts`: how many kept rows fall in each level of x (per panel and colour group).
+pub fn counts(ctx: &Context, x: &CatAxis, layers: &[CountLayer]) -> Result<FigureData, ComputeError> {
+    let levels = rows::axis_levels(ctx.table, ctx.book, x, &ctx.keep)?;
+    let (codes, _) = rows::codes(ctx.table, ctx.book, x.var.var)?;
+    let ones: Vec<Option<f64>> = vec![Some(1.0); ctx.table.n_rows()];
+    let placement = ctx.placement(Some((codes, &levels)));
+    let mut placed = rows::place(&ones, &ctx.keep, &placement);
+    // For counts a missing x is a missing value of the counted variable itself.
+    placed.missing_by_cell.clear();
+    let mut panels = Vec::new();
+    let mut summary = Vec::new();
+    let mut y_max: f64 = 0.0;
+    let mut any_percent = false;
+    for p in 0..ctx.panels.len() {
+        let tally = tally(&placed, p, levels.len(), ctx.groups.len());
+        let mut layers_out = Vec::new();
+        for layer in layers {
+            let CountLayer::Counts { heights, .. } = layer;
+            any_percent |= *heights == Heights::Percent;
+            let mut bars = Vec::new();
+            for g in 0..ctx.groups.len() {
+                let total: usize = (0..levels.len()).map(|xi| tally[xi][g]).sum();
+                summary.push(key(ctx, p, "counts", g, "").count("n", total));
+                summary.push(key(ctx, p, "counts", g, "").count("n_missing", placed.unplaced_in(p, g)));
+                for (xi, name) in levels.names.iter().enumerate() {
+                    let count = tally[xi][g];
+                    let k = key(ctx, p, "counts", g, name);
+                    summary.push(k.count("count", count));
+                    let height = match heights {
+                        Heights::Percent => {
+                            let pct = if total > 0 { 100.0 * count as f64 / total as f64 } else { 0.0 };
+                            summary.push(k.number("percent", pct));
+                            pct
+                        }
+                        _ => count as f64,
+                    };
+                    y_max = y_max.max(height);
+                    bars.push(Bar { x: xi, group: g, height });
+                }
+            }
+            layers_out.push(LayerMarks::Bars(bars));
+        }
+        let n_by_x = (0..levels.len()).map(|xi| tally[xi].iter().sum()).collect();
+        panels.push(PanelData { label: ctx.panels.labels[p].clone(), layers: layers_out, n_by_x });
+    }
+    let title = ctx.title(x.var.var, &x.title);
+    let y_title = if any_percent { "Percent" } else { "Count" }.to_string();
+    Ok(FigureData {
+        x: XScale::Categories { title, levels },
+        y: YScale::Numbers(NumScale { title: y_title, extent: (0.0, y_max), range: None, log: false, include_zero: true }),
+        legend: ctx.legend(),
+        panels,
+        summary,
+    })
+}
+
+impl Placed {
+    /// Kept rows of one panel and group that could not be placed (missing x).
+    fn unplaced_in(&self, _panel: usize, _group: usize) -> usize {
+        self.unplaced
+    }
+}
+
+fn tally(placed: &Placed, panel: usize, n_x: usize, n_groups: usize) -> Vec<Vec<usize>> {
+    let mut t = vec![vec![0usize; n_groups]; n_x];
+    for o in placed.obs.iter().filter(|o| o.cell.panel == panel) {
+        t[o.cell.x][o.cell.group] += 1;
+    }
+    t
+}
+
+fn key(ctx: &Context, panel: usize, layer: &'static str, group: usize, x: &str) -> RowKey {
+    RowKey { panel: ctx.panel_name(panel), layer, group: ctx.group_name(group), x: x.to_string() }
+}
+
+/// Values of one cell, sorted.
+fn cell_values(obs: &[Obs], cell: Cell) -> Vec<f64> {
+    let mut v: Vec<f64> = obs.iter().filter(|o| o.cell == cell).map(|o| o.value).collect();
+    v.sort_by(f64::total_cmp);
+    v
+}
+
+/// Categorical x, numeric y.
+pub fn cat_num(ctx: &Context, x: &CatAxis, y: &NumAxis, layers: &[CatNumLayer]) -> Result<FigureData, ComputeError> {
+    let levels = rows::axis_levels(ctx.table, ctx.book, x, &ctx.keep)?;
+    let (codes, _) = rows::codes(ctx.table, ctx.book, x.var.var)?;
+    let values = rows::numbers(ctx.table, ctx.book, y.var.var)?;
+    let placement = ctx.placement(Some((codes, &levels)));
+    let mut placed = rows::place(values, &ctx.keep, &placement);
+    if let Some(rep) = &ctx.book.replicates {
+        rows::collapse(&mut placed, rep.collapse);
+    } else {
+        check_one_value_per_subject(ctx, &placed, &levels, layers)?;
+    }
+    check_log_axis(ctx, y, &placed)?;
+    let mut extent = Extent::default();
+    let mut panels = Vec::new();
+    let mut summary = Vec::new();
+    let mut include_zero = false;
+    for p in 0..ctx.panels.len() {
+        let mut out = Vec::new();
+        for layer in layers {
+            let marks = match layer {
+                CatNumLayer::Points { jitter, .. } => points(ctx, &placed, p, &levels, *jitter, &mut summary),
+                CatNumLayer::Box { whiskers, .. } => boxes(ctx, &placed, p, &levels, *whiskers, &mut summary)?,
+                CatNumLayer::Mean { error, bar, .. } => {
+                    include_zero |= *bar;
+                    means(ctx, &placed, p, &levels, *error, *bar, &mut summary)?
+                }
+                CatNumLayer::Median { error, .. } => medians(ctx, &placed, p, &levels, *error, &mut summary)?,
+                CatNumLayer::Lines { .. } => lines(ctx, &placed, p, points_jitter(layers), &mut summary),
+                CatNumLayer::Violin { span, .. } => return Err(unavailable(*span, "violin")),
+            };
+            for m in &marks {
+                extent.add_marks(m);
+            }
+            out.extend(marks);
+        }
+        let n_by_x = (0..levels.len())
+            .map(|xi| placed.obs.iter().filter(|o| o.cell.panel == p && o.cell.x == xi).count())
+            .collect();
+        panels.push(PanelData { label: ctx.panels.labels[p].clone(), layers: out, n_by_x });
+    }
+    Ok(FigureData {
+        x: XScale::Categories { title: ctx.title(x.var.var, &x.title), levels },
+        y: YScale::Numbers(NumScale {
+            title: ctx.title(y.var.var, &y.title),
+            extent: extent.get(),
+            range: y.range,
+            log: y.scale == crate::check::plan::AxisScale::Log,
+            include_zero,
+        }),
+        legend: ctx.legend(),
+        panels,
+        summary,
+    })
+}
+
+fn unavailable(span: crate::diag::Span, what: &str) -> ComputeError {
+    ComputeError::Data(vec![crate::diag::Diagnostic::error(
+        crate::check::codes::LAYER_DOES_NOT_FIT,
+        format!("`{what}` is not available in this version"),
+    )
+    .with_label(span, "not available")
+    .with_help("use `box` with `points` to show the distribution")])
+}
+
+/// Smallest and largest drawn value.
+#[derive(Default)]
+pub(crate) struct Extent {
+    lo: Option<f64>,
+    hi: Option<f64>,
+}
+
+impl Extent {
+    pub fn add(&mut self, v: f64) {
+        if v.is_finite() {
+            self.lo = Some(self.lo.map_or(v, |l| l.min(v)));
+            self.hi = Some(self.hi.map_or(v, |h| h.max(v)));
+        }
+    }
+
+    pub fn get(&self) -> (f64, f64) {
+        match (self.lo, self.hi) {
+            (Some(l), Some(h)) => (l, h),
+            _ => (0.0, 1.0),
+        }
+    }
+
+    fn add_marks(&mut self, m: &LayerMarks) {
+        match m {
+            LayerMarks::Bars(b) => b.iter().for_each(|b| {
+                self.add(b.height);
+                self.add(0.0)
+            }),
+            LayerMarks::CatPoints(p) => p.iter().for_each(|p| self.add(p.y)),
+            LayerMarks::Boxes(b) => b.iter().for_each(|b| {
+                self.add(b.whisker_low);
+                self.add(b.whisker_high);
+                b.outliers.iter().for_each(|o| self.add(*o));
+            }),
+            LayerMarks::Estimates { marks, .. } => marks.iter().for_each(|e| {
+                self.add(e.centre);
+                if let Some((lo, hi)) = e.interval {
+                    self.add(lo);
+                    self.add(hi);
+                }
+            }),
+            LayerMarks::Lines(paths) => paths.iter().flat_map(|p| &p.points).for_each(|(_, _, y)| self.add(*y)),
+            LayerMarks::Bins(_) | LayerMarks::XyPoints(_) | LayerMarks::Levels(_) | LayerMarks::Curves(_) => {}
+        }
+    }
+}
+
+fn check_one_value_per_subject(ctx: &Context, placed: &Placed, levels: &Levels, layers: &[CatNumLayer]) -> Result<(), ComputeError> {
+    let per_subject = layers.iter().find_map(|l| match l {
+        CatNumLayer::Lines { span, .. } => Some(*span),
+        CatNumLayer::Mean { error: Some(ErrorBar::CiWithin { .. }), span, .. } => Some(*span),
+        _ => None,
+    });
+    let Some(span) = per_subject else { return Ok(()) };
+    match rows::repeated_subject(placed) {
+        None => Ok(()),
+        Some((subject, cell, first, second)) => {
+            let mut parts = vec![format!("x = \"{}\"", levels.names[cell.x])];
+            if ctx.plan.colour.is_some() {
+                parts.push(format!("colour = \"{}\"", ctx.groups.names[cell.group]));
+            }
+            if ctx.plan.panels.is_some() {
+                parts.push(format!("panel = \"{}\"", ctx.panels.names[cell.panel]));
+            }
+            Err(rows::repeated_subject_error(&ctx.subject_name(subject), &format!("({})", parts.join(", ")), (first, second), span).into())
+        }
+    }
+}
+
+fn check_log_axis(ctx: &Context, y: &NumAxis, placed: &Placed) -> Result<(), ComputeError> {
+    let (Some(span), Some(zero)) = (y.scale_span, placed.obs.iter().find(|o| o.value <= 0.0)) else { return Ok(()) };
+    let var = ctx.book.var(y.var.var);
+    Err(crate::diag::Diagnostic::error(
+        crate::check::codes::LOG_OF_ZERO,
+        format!("`{}` has a zero (data row {}), and a log scale cannot show zero", var.name, zero.row + 2),
+    )
+    .with_label(span, "log scale")
+    .with_help("use a linear scale, or filter out the zeros with `where` if they are not part of the question")
+    .into())
+}
+
+fn jitter_key(o: &Obs) -> u64 {
+    match o.subject {
+        Some(s) => JITTER_SEED ^ (u64::from(s) << 1),
+        None => JITTER_SEED ^ ((o.row as u64) << 1 | 1),
+    }
+}
+
+fn for_cells(ctx: &Context, panel: usize, levels: &Levels) -> Vec<(Cell, String)> {
+    let mut out = Vec::new();
+    for (xi, name) in levels.names.iter().enumerate() {
+        for g in 0..ctx.groups.len() {
+            out.push((Cell { panel, x: xi, group: g }, name.clone()));
+        }
+    }
+    out
+}
+
+fn n_rows(ctx: &Context, placed: &Placed, cell: Cell, k: &RowKey, n: usize, summary: &mut Vec<super::SummaryRow>) {
+    let _ = ctx;
+    summary.push(k.count("n", n));
+    summary.push(k.count("n_missing", placed.missing_by_cell.get(&cell).copied().unwrap_or(0)));
+}
+
+fn points(ctx: &Context, placed: &Placed, p: usize, levels: &Levels, jitter: f64, summary: &mut Vec<super::SummaryRow>) -> Vec<LayerMarks> {
+    for (cell, name) in for_cells(ctx, p, levels) {
+        let n = placed.obs.iter().filter(|o| o.cell == cell).count();
+        n_rows(ctx, placed, cell, &key(ctx, p, "points", cell.group, &name), n, summary);
+    }
+    let pts = placed
+        .obs
+        .iter()
+        .filter(|o| o.cell.panel == p)
+        .map(|o| CatPoint {
+            x: o.cell.x,
+            group: o.cell.group,
+            offset: jittered(o, jitter),
+            y: o.value,
+        })
+        .collect();
+    vec![LayerMarks::CatPoints(pts)]
+}
+
+fn boxes(ctx: &Context, placed: &Placed, p: usize, levels: &Levels, whiskers: Whiskers, summary: &mut Vec<super::SummaryRow>) -> Result<Vec<LayerMarks>, ComputeError> {
+    let mut out = Vec::new();
+    for (cell, name) in for_cells(ctx, p, levels) {
+        let values = cell_values(&placed.obs, cell);
+        let k = key(ctx, p, "box", cell.group, &name);
+        n_rows(ctx, placed, cell, &k, values.len(), summary);
+        let Ok(b) = stats::box_summary(&values, whiskers_rule(whiskers)) else { continue };
+        summary.push(k.number("q1", b.q1));
+        summary.push(k.number("median", b.median));
+        summary.push(k.number("q3", b.q3));
+        summary.push(k.number("whisker_low", b.whisker_low));
+        summary.push(k.number("whisker_high", b.whisker_high));
+        for o in &b.outliers {
+            summary.push(k.number("outliers", *o));
+        }
+        summary.push(k.number("min", b.min));
+        summary.push(k.number("max", b.max));
+        out.push(BoxMark {
+            x: cell.x,
+            group: cell.group,
+            q1: b.q1,
+            median: b.median,
+            q3: b.q3,
+            whisker_low: b.whisker_low,
+            whisker_high: b.whisker_high,
+            outliers: b.outliers.clone(),
+        });
+    }
+    Ok(vec![LayerMarks::Boxes(out)])
+}
+
+fn whiskers_rule(w: Whiskers) -> stats::Whiskers {
+    match w {
+        Whiskers::Tukey => stats::Whiskers::Tukey,
+        Whiskers::Range => stats::Whiskers::Range,
+    }
+}
+
+fn means(
+    ctx: &Context,
+    placed: &Placed,
+    p: usize,
+    levels: &Levels,
+    error: Option<ErrorBar>,
+    bar: bool,
+    summary: &mut Vec<super::SummaryRow>,
+) -> Result<Vec<LayerMarks>, ComputeError> {
+    let within = match error {
+        Some(ErrorBar::CiWithin { level }) => Some(within_intervals(ctx, placed, p, levels, level)?),
+        _ => None,
+    };
+    let mut marks = Vec::new();
+    let mut bars = Vec::new();
+    for (cell, name) in for_cells(ctx, p, levels) {
+        let values = cell_values(&placed.obs, cell);
+        let k = key(ctx, p, "mean", cell.group, &name);
+        n_rows(ctx, placed, cell, &k, values.len(), summary);
+        let Ok(m) = stats::moments(&values) else { continue };
+        summary.push(k.number("mean", m.mean));
+        let interval = match error {
+            None => None,
+            Some(ErrorBar::Sd) => m.sd.map(|sd| {
+                summary.push(k.number("sd", sd));
+                (m.mean - sd, m.mean + sd)
+            }),
+            Some(ErrorBar::Se) => m.se().map(|se| {
+                summary.push(k.number("se", se));
+                (m.mean - se, m.mean + se)
+            }),
+            Some(ErrorBar::Ci { level }) => stats::mean_ci(&values, level).ok().map(|ci| {
+                summary.push(k.number("ci_low", ci.low));
+                summary.push(k.number("ci_high", ci.high));
+                (ci.low, ci.high)
+            }),
+            Some(ErrorBar::CiWithin { .. }) => within.as_ref().and_then(|w| w.get(&cell)).map(|&(lo, hi)| {
+                summary.push(k.number("ci_low", lo));
+                summary.push(k.number("ci_high", hi));
+                (lo, hi)
+            }),
+            Some(ErrorBar::Bootstrap { level }) => stats::bootstrap_mean(&values, level).ok().map(|ci| {
+                summary.push(k.number("ci_low", ci.low));
+                summary.push(k.number("ci_high", ci.high));
+                (ci.low, ci.high)
+            }),
+        };
+        if bar {
+            bars.push(Bar { x: cell.x, group: cell.group, height: m.mean });
+        }
+        marks.push(Estimate { x: cell.x, group: cell.group, centre: m.mean, interval });
+    }
+    let mut out = Vec::new();
+    if bar {
+        out.push(LayerMarks::Bars(bars));
+    }
+    out.push(LayerMarks::Estimates { marks, kind: EstimateKind::Mean });
+    Ok(out)
+}
+
+/// Cousineau–Morey intervals for every cell of one panel, keyed by cell.
+fn within_intervals(ctx: &Context, placed: &Placed, p: usize, levels: &Levels, level: f64) -> Result<BTreeMap<Cell, (f64, f64)>, ComputeError> {
+    let colour_within = ctx.plan.colour.as_ref().is_some_and(|c| ctx.book.is_within(c.var));
+    // Between-subject parts of the cell (colour groups that are not within factors) are
+    // normalised separately; within cells are x levels, and colour levels when colour is within.
+    let between_groups: Vec<Option<usize>> =
+        if colour_within || ctx.plan.colour.is_none() { vec![None] } else { (0..ctx.groups.len()).map(Some).collect() };
+    let mut out = BTreeMap::new();
+    for between in between_groups {
+        let cells: Vec<Cell> = (0..levels.len())
+            .flat_map(|x| {
+                let groups: Vec<usize> = match between {
+                    Some(g) => vec![g],
+                    None => (0..ctx.groups.len()).collect(),
+                };
+                groups.into_iter().map(move |g| Cell { panel: p, x, group: g })
+            })
+            .collect();
+        let mut by_subject: BTreeMap<u32, BTreeMap<Cell, f64>> = BTreeMap::new();
+        for o in placed.obs.iter().filter(|o| cells.contains(&o.cell)) {
+            if let Some(s) = o.subject {
+                by_subject.entry(s).or_default().insert(o.cell, o.value);
+            }
+        }
+        let matrix: Vec<Vec<f64>> = by_subject
+            .values()
+            .filter(|m| m.len() == cells.len())
+            .map(|m| cells.iter().map(|c| m[c]).collect())
+            .collect();
+        let Ok(result) = stats::within_subject_ci(&matrix, level) else { continue };
+        for (c, interval) in cells.iter().zip(result) {
+            out.insert(*c, interval);
+        }
+    }
+    Ok(out)
+}
+
+fn medians(
+    ctx: &Context,
+    placed: &Placed,
+    p: usize,
+    levels: &Levels,
+    error: Option<ErrorBar>,
+    summary: &mut Vec<super::SummaryRow>,
+) -> Result<Vec<LayerMarks>, ComputeError> {
+    let mut marks = Vec::new();
+    for (cell, name) in for_cells(ctx, p, levels) {
+        let values = cell_values(&placed.obs, cell);
+        let k = key(ctx, p, "median", cell.group, &name);
+        n_rows(ctx, placed, cell, &k, values.len(), summary);
+        let Ok(median) = stats::quantile_sorted(&values, 0.5) else { continue };
+        summary.push(k.number("median", median));
+        let interval = match error {
+            Some(ErrorBar::Bootstrap { level }) => stats::bootstrap_median(&values, level).ok().map(|ci| {
+                summary.push(k.number("ci_low", ci.low));
+                summary.push(k.number("ci_high", ci.high));
+                (ci.low, ci.high)
+            }),
+            _ => None,
+        };
+        marks.push(Estimate { x: cell.x, group: cell.group, centre: median, interval });
+    }
+    Ok(vec![LayerMarks::Estimates { marks, kind: EstimateKind::Median }])
+}
+
+/// The jitter of the figure's points layer, so lines meet the points they join.
+fn points_jitter(layers: &[CatNumLayer]) -> f64 {
+    layers.iter().find_map(|l| match l {
+        CatNumLayer::Points { jitter, .. } => Some(*jitter),
+        _ => None,
+    }).unwrap_or(0.0)
+}
+
+fn jittered(o: &Obs, jitter: f64) -> f64 {
+    jitter * stats::jitter_offset(jitter_key(o), o.cell.x as u64)
+}
+
+fn lines(ctx: &Context, placed: &Placed, p: usize, jitter: f64, summary: &mut Vec<super::SummaryRow>) -> Vec<LayerMarks> {
+    let mut by_subject: BTreeMap<(usize, u32), Vec<&Obs>> = BTreeMap::new();
+    for o in placed.obs.iter().filter(|o| o.cell.panel == p) {
+        if let Some(s) = o.subject {
+            by_subject.entry((o.cell.group, s)).or_default().push(o);
+        }
+    }
+    let mut paths = Vec::new();
+    let mut n_by_group = vec![0usize; ctx.groups.len()];
+    for ((group, _), mut obs) in by_subject {
+        obs.sort_by_key(|o| o.cell.x);
+        n_by_group[group] += 1;
+        paths.push(SubjectPath { group, points: obs.iter().map(|o| (o.cell.x, jittered(o, jitter), o.value)).collect() });
+    }
+    for (g, n) in n_by_group.iter().enumerate() {
+        summary.push(key(ctx, p, "lines", g, "").count("n", *n));
+    }
+    vec![LayerMarks::Lines(paths)]
+}
+
+/// Categorical x, ordinal y: the median level per cell, with quartile levels.
+pub fn cat_ord(ctx: &Context, x: &CatAxis, y: &CatAxis, layers: &[CatOrdLayer]) -> Result<FigureData, ComputeError> {
+    let levels = rows::axis_levels(ctx.table, ctx.book, x, &ctx.keep)?;
+    let y_levels = rows::axis_levels(ctx.table, ctx.book, y, &ctx.keep)?;
+    let (codes, _) = rows::codes(ctx.table, ctx.book, x.var.var)?;
+    let (y_codes, _) = rows::codes(ctx.table, ctx.book, y.var.var)?;
+    let y_values: Vec<Option<f64>> = y_codes.iter().map(|c| c.map(|c| y_levels.slot(c) as f64)).collect();
+    let placement = ctx.placement(Some((codes, &levels)));
+    let mut placed = rows::place(&y_values, &ctx.keep, &placement);
+    if let Some(rep) = &ctx.book.replicates {
+        if rep.collapse == crate::check::plan::Collapse::Median {
+            rows::collapse(&mut placed, rep.collapse);
+        }
+    }
+    let mut panels = Vec::new();
+    let mut summary = Vec::new();
+    for p in 0..ctx.panels.len() {
+        let mut out = Vec::new();
+        for layer in layers {
+            let CatOrdLayer::Median { .. } = layer;
+            let mut marks = Vec::new();
+            for (cell, name) in for_cells(ctx, p, &levels) {
+                let mut counts = vec![0u64; y_levels.len()];
+                for o in placed.obs.iter().filter(|o| o.cell == cell) {
+                    counts[o.value as usize] += 1;
+                }
+                let k = key(ctx, p, "median", cell.group, &name);
+                let n: u64 = counts.iter().sum();
+                n_rows(ctx, &placed, cell, &k, n as usize, &mut summary);
+                let Ok(q) = stats::ordinal_quartiles(&counts) else { continue };
+                summary.push(k.level("median", &y_levels.names[q.median]));
+                summary.push(k.level("q1", &y_levels.names[q.q1]));
+                summary.push(k.level("q3", &y_levels.names[q.q3]));
+                marks.push(LevelMark { x: cell.x, group: cell.group, median: q.median, q1: q.q1, q3: q.q3 });
+            }
+            out.push(LayerMarks::Levels(marks));
+        }
+        let n_by_x = (0..levels.len())
+            .map(|xi| placed.obs.iter().filter(|o| o.cell.panel == p && o.cell.x == xi).count())
+            .collect();
+        panels.push(PanelData { label: ctx.panels.labels[p].clone(), layers: out, n_by_x });
+    }
+    Ok(FigureData {
+        x: XScale::Categories { title: ctx.title(x.var.var, &x.title), levels },
+        y: YScale::Categories { title: ctx.title(y.var.var, &y.title), levels: y_levels },
+        legend: ctx.legend(),
+        panels,
+        summary,
+    })
+}

@@ -1,0 +1,272 @@
+//! Computing a figure's numbers: checked plan + typed table → marks in data units + summary.
+//!
+//! Guarantees of a [`FigureData`]:
+//! - every panel has one entry per layer of the plan, in the order written;
+//! - positions on a categorical axis are slots in display order; colour groups are slots too;
+//! - every number drawn also appears in `summary`, in a fixed order (panel, layer, x, group);
+//! - the data-dependent rules (a subject twice in one cell, zeros on a log axis) have been
+//!   applied and reported as diagnostics.
+//!
+//! Invariant: no I/O and no geometry here — values stay in data units; the layout maps them.
+
+mod cat;
+mod dist;
+pub mod rows;
+pub mod summary;
+
+use crate::check::plan::{Codebook, FigurePlan, Frame, VarId};
+use crate::data::Table;
+use crate::diag::Diagnostic;
+
+pub use rows::Levels;
+pub use summary::{SummaryRow, StatValue};
+
+/// Why a figure's numbers could not be computed.
+#[derive(Debug)]
+pub enum ComputeError {
+    /// Problems in the data, reported against the spec and data files.
+    Data(Vec<Diagnostic>),
+    /// A broken promise between stages (a bug): the message says which.
+    Internal(String),
+}
+
+impl From<Diagnostic> for ComputeError {
+    fn from(d: Diagnostic) -> Self {
+        ComputeError::Data(vec![d])
+    }
+}
+
+/// A numeric axis's data extent and settings.
+#[derive(Debug, Clone, PartialEq)]
+pub struct NumScale {
+    pub title: String,
+    /// Smallest and largest value drawn (including error bars and whiskers).
+    pub extent: (f64, f64),
+    /// A range fixed by the spec.
+    pub range: Option<(f64, f64)>,
+    pub log: bool,
+    /// Bars start at zero, so zero must be on the axis.
+    pub include_zero: bool,
+}
+
+/// The x axis.
+#[derive(Debug, Clone, PartialEq)]
+pub enum XScale {
+    Categories { title: String, levels: Levels },
+    Numbers(NumScale),
+}
+
+/// The y axis.
+#[derive(Debug, Clone, PartialEq)]
+pub enum YScale {
+    Numbers(NumScale),
+    Categories { title: String, levels: Levels },
+}
+
+/// The colour legend.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Legend {
+    pub title: String,
+    pub levels: Levels,
+}
+
+/// A bar on a categorical axis (counts, or a mean drawn as a bar).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Bar {
+    pub x: usize,
+    pub group: usize,
+    pub height: f64,
+}
+
+/// A histogram bar.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Bin {
+    pub lo: f64,
+    pub hi: f64,
+    pub group: usize,
+    pub height: f64,
+}
+
+/// A point over a categorical x; `offset` is its jitter as a fraction of the band in [−0.5, 0.5).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct CatPoint {
+    pub x: usize,
+    pub group: usize,
+    pub offset: f64,
+    pub y: f64,
+}
+
+/// A box of a box plot.
+#[derive(Debug, Clone, PartialEq)]
+pub struct BoxMark {
+    pub x: usize,
+    pub group: usize,
+    pub q1: f64,
+    pub median: f64,
+    pub q3: f64,
+    pub whisker_low: f64,
+    pub whisker_high: f64,
+    pub outliers: Vec<f64>,
+}
+
+/// A central value with an optional interval.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Estimate {
+    pub x: usize,
+    pub group: usize,
+    pub centre: f64,
+    pub interval: Option<(f64, f64)>,
+}
+
+/// One subject's values joined across x.
+#[derive(Debug, Clone, PartialEq)]
+pub struct SubjectPath {
+    pub group: usize,
+    /// (x slot, jitter offset, y), in x order.
+    pub points: Vec<(usize, f64, f64)>,
+}
+
+/// The median level of an ordinal y.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct LevelMark {
+    pub x: usize,
+    pub group: usize,
+    /// Slot of the median level on the y axis, with the quartile levels.
+    pub median: usize,
+    pub q1: usize,
+    pub q3: usize,
+}
+
+/// A curve in data units (a density).
+#[derive(Debug, Clone, PartialEq)]
+pub struct Curve {
+    pub group: usize,
+    pub points: Vec<(f64, f64)>,
+}
+
+/// What one layer draws in one panel.
+#[derive(Debug, Clone, PartialEq)]
+pub enum LayerMarks {
+    Bars(Vec<Bar>),
+    Bins(Vec<Bin>),
+    CatPoints(Vec<CatPoint>),
+    XyPoints(Vec<(f64, f64, usize)>),
+    Boxes(Vec<BoxMark>),
+    /// Means or medians; `dot` is false when the mean is drawn as a bar (already in `Bars`).
+    Estimates { marks: Vec<Estimate>, kind: EstimateKind },
+    Lines(Vec<SubjectPath>),
+    Levels(Vec<LevelMark>),
+    Curves(Vec<Curve>),
+}
+
+/// Which central value an [`LayerMarks::Estimates`] shows.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum EstimateKind {
+    Mean,
+    Median,
+}
+
+/// One panel.
+#[derive(Debug, Clone, PartialEq)]
+pub struct PanelData {
+    /// Empty when the figure has no panels.
+    pub label: String,
+    pub layers: Vec<LayerMarks>,
+    /// Number of values per x slot (categorical x), all groups together, for `n =` labels.
+    pub n_by_x: Vec<usize>,
+}
+
+/// A figure's numbers, ready for layout.
+#[derive(Debug, Clone, PartialEq)]
+pub struct FigureData {
+    pub x: XScale,
+    pub y: YScale,
+    pub legend: Option<Legend>,
+    pub panels: Vec<PanelData>,
+    pub summary: Vec<SummaryRow>,
+}
+
+/// Computes a figure's numbers from its data table.
+pub fn compute(plan: &FigurePlan, book: &Codebook, table: &Table) -> Result<FigureData, ComputeError> {
+    let ctx = Context::new(plan, book, table)?;
+    match &plan.frame {
+        Frame::Counts { x, layers } => cat::counts(&ctx, x, layers),
+        Frame::CatNum { x, y, layers } => cat::cat_num(&ctx, x, y, layers),
+        Frame::CatOrd { x, y, layers } => cat::cat_ord(&ctx, x, y, layers),
+        Frame::Dist { x, layers } => dist::distribution(&ctx, x, layers),
+        Frame::Xy { x, y, layers } => dist::xy(&ctx, x, y, layers),
+        Frame::Flows { span, .. } => Err(ComputeError::Data(vec![Diagnostic::error(
+            crate::check::codes::LAYER_DOES_NOT_FIT,
+            "`flows` is not available in this version",
+        )
+        .with_label(*span, "not available")
+        .with_help("draw the states per occasion with `counts` and `panels` instead")])),
+    }
+}
+
+/// What every frame's computation shares: the plan, data, kept rows, panels and colour groups.
+pub(crate) struct Context<'a> {
+    pub plan: &'a FigurePlan,
+    pub book: &'a Codebook,
+    pub table: &'a Table,
+    pub keep: Vec<bool>,
+    pub panels: Levels,
+    pub groups: Levels,
+    pub panel_codes: Option<&'a [Option<u32>]>,
+    pub group_codes: Option<&'a [Option<u32>]>,
+    pub subject_codes: Option<(&'a [Option<u32>], &'a [String])>,
+}
+
+impl<'a> Context<'a> {
+    fn new(plan: &'a FigurePlan, book: &'a Codebook, table: &'a Table) -> Result<Self, ComputeError> {
+        let keep = rows::filter_rows(table, book, plan.filter.as_ref())?;
+        let (panels, panel_codes) = match &plan.panels {
+            Some(v) => (
+                rows::levels(table, book, v, crate::check::plan::LevelOrder::Levels, &keep)?,
+                Some(rows::codes(table, book, v.var)?.0),
+            ),
+            None => (Levels::single(), None),
+        };
+        let (groups, group_codes) = match &plan.colour {
+            Some(v) => (
+                rows::levels(table, book, v, crate::check::plan::LevelOrder::Levels, &keep)?,
+                Some(rows::codes(table, book, v.var)?.0),
+            ),
+            None => (Levels::single(), None),
+        };
+        let subject_codes = match book.subject {
+            Some(s) => Some(rows::codes(table, book, s)?),
+            None => None,
+        };
+        Ok(Context { plan, book, table, keep, panels, groups, panel_codes, group_codes, subject_codes })
+    }
+
+    pub fn title(&self, var: VarId, given: &Option<String>) -> String {
+        given.clone().unwrap_or_else(|| self.book.var(var).title())
+    }
+
+    pub fn legend(&self) -> Option<Legend> {
+        self.plan.colour.as_ref().map(|c| Legend { title: self.book.var(c.var).title(), levels: self.groups.clone() })
+    }
+
+    pub fn placement<'p>(&'p self, x: Option<(&'p [Option<u32>], &'p Levels)>) -> rows::Placement<'p> {
+        rows::Placement {
+            panel: self.panel_codes.map(|c| (c, &self.panels)),
+            x,
+            group: self.group_codes.map(|c| (c, &self.groups)),
+            subject: self.subject_codes.map(|(c, _)| c),
+        }
+    }
+
+    pub fn panel_name(&self, p: usize) -> String {
+        if self.plan.panels.is_some() { self.panels.names[p].clone() } else { String::new() }
+    }
+
+    pub fn group_name(&self, g: usize) -> String {
+        if self.plan.colour.is_some() { self.groups.names[g].clone() } else { String::new() }
+    }
+
+    pub fn subject_name(&self, code: u32) -> String {
+        self.subject_codes.map(|(_, names)| names[code as usize].clone()).unwrap_or_default()
+    }
+}

@@ -1,0 +1,134 @@
+//! Collecting the data errors of one file: every error is counted, the first few are kept in
+//! full, and the rest are summed up in one closing diagnostic so a broken file cannot flood the
+//! terminal. Also the shared wording for places in a data file (`speeds.csv row 14`).
+
+use std::collections::BTreeMap;
+use std::fmt::Write as _;
+use std::path::{Path, PathBuf};
+
+use crate::diag::{Diagnostic, Span};
+
+use super::codes;
+
+/// How a data file is named in messages: its file name, or the whole path when it has none.
+pub(super) fn file_label(path: &Path) -> String {
+    path.file_name()
+        .map(|name| name.to_string_lossy().into_owned())
+        .unwrap_or_else(|| path.display().to_string())
+}
+
+/// `speeds.csv row 14`, plus `(line 15)` when blank lines or quoted line breaks make the line
+/// differ from the row.
+pub(super) fn row_label(file: &str, file_row: usize, line: usize) -> String {
+    if file_row == line {
+        format!("{file} row {file_row}")
+    } else {
+        format!("{file} row {file_row} (line {line})")
+    }
+}
+
+/// Longest cell text quoted in full in a message; longer texts are cut with `…`.
+const SHOWN_CHARS: usize = 40;
+
+/// A cell or header text in double quotes, escaped, cut after [`SHOWN_CHARS`] characters.
+pub(super) fn quoted(text: &str) -> String {
+    if text.chars().count() <= SHOWN_CHARS {
+        return format!("{text:?}");
+    }
+    let cut: String = text.chars().take(SHOWN_CHARS).collect();
+    let escaped = format!("{cut:?}");
+    // Put the ellipsis inside the closing quote: "abc…"
+    format!("{}…\"", &escaped[..escaped.len() - 1])
+}
+
+/// A list of texts for a help line: `"a", "b", "c"`, cut after `max` items with `, …`.
+pub(super) fn quoted_list<'a>(items: impl IntoIterator<Item = &'a str>, max: usize) -> String {
+    let mut out = String::new();
+    for (i, item) in items.into_iter().enumerate() {
+        if i == max {
+            out.push_str(", …");
+            break;
+        }
+        if i > 0 {
+            out.push_str(", ");
+        }
+        out.push_str(&quoted(item));
+    }
+    out
+}
+
+/// The errors of one data file, capped.
+pub(super) struct Report {
+    file: String,
+    path: PathBuf,
+    path_span: Span,
+    max_shown: usize,
+    shown: Vec<Diagnostic>,
+    /// Errors past the cap, counted by code (a `BTreeMap` so the summary's order is fixed).
+    hidden: BTreeMap<&'static str, usize>,
+}
+
+impl Report {
+    pub(super) fn new(path: &Path, path_span: Span, max_shown: usize) -> Self {
+        Report {
+            file: file_label(path),
+            path: path.to_path_buf(),
+            path_span,
+            max_shown,
+            shown: Vec::new(),
+            hidden: BTreeMap::new(),
+        }
+    }
+
+    /// The file's name as messages show it.
+    pub(super) fn file(&self) -> &str {
+        &self.file
+    }
+
+    /// Records one error with stable `code`; `make` builds it only while under the cap, so a
+    /// file with millions of bad cells costs a counter each, not a message each.
+    pub(super) fn add(&mut self, code: &'static str, make: impl FnOnce() -> Diagnostic) {
+        if self.shown.len() < self.max_shown {
+            let diagnostic = make();
+            debug_assert_eq!(diagnostic.code, code);
+            self.shown.push(diagnostic);
+        } else {
+            *self.hidden.entry(code).or_insert(0) += 1;
+        }
+    }
+
+    pub(super) fn is_empty(&self) -> bool {
+        self.shown.is_empty() && self.hidden.is_empty()
+    }
+
+    /// The kept diagnostics, followed by the summary of the hidden ones if there are any.
+    pub(super) fn finish(mut self) -> Vec<Diagnostic> {
+        let n_hidden: usize = self.hidden.values().sum();
+        if n_hidden > 0 {
+            let mut by_code = String::new();
+            for (i, (code, count)) in self.hidden.iter().enumerate() {
+                if i > 0 {
+                    by_code.push_str(", ");
+                }
+                let _ = write!(by_code, "{code}: {count}");
+            }
+            let noun = if n_hidden == 1 { "error" } else { "errors" };
+            self.shown.push(
+                Diagnostic::error(
+                    codes::MORE_ERRORS,
+                    format!(
+                        "{}: {n_hidden} more data {noun} not shown ({by_code})",
+                        self.file
+                    ),
+                )
+                .with_label(self.path_span, "data file")
+                .with_help(format!(
+                    "only the first {} errors of a file are shown; fix them and run again",
+                    self.max_shown
+                ))
+                .with_file(&self.path),
+            );
+        }
+        self.shown
+    }
+}

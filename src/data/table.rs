@@ -1,0 +1,246 @@
+//! The typed table the data stage produces.
+//!
+//! Guarantees of a [`Table`] returned by [`crate::data::read_table`]:
+//! - it holds exactly the declared columns, in declaration order, each `n_rows()` long;
+//! - every code of a categorical or id column indexes its `levels`/`values`; `None` is missing;
+//! - categorical cells are declared levels (when levels were declared); numeric cells are
+//!   finite, `-0.0` is stored as `0.0`, and ratio cells are `>= 0`; id cells are never missing;
+//! - nothing depends on hash order: levels and id values are in order of declaration or first
+//!   appearance, so the same bytes always give the same table.
+
+use std::fmt::Write as _;
+use std::path::{Path, PathBuf};
+
+use crate::diag::{SourceId, Span};
+
+/// One column's cells.
+#[derive(Debug, Clone, PartialEq)]
+pub enum Column {
+    /// Identifiers, interned: `values[code]` is the text of a cell, in order of first appearance.
+    Id {
+        codes: Vec<Option<u32>>,
+        values: Vec<String>,
+    },
+    /// Categories: `levels[code]`, declared or in order of first appearance.
+    Categorical {
+        codes: Vec<Option<u32>>,
+        levels: Vec<String>,
+    },
+    /// Numbers; `None` is a missing cell.
+    Numeric(Vec<Option<f64>>),
+}
+
+impl Column {
+    /// Number of cells (the table's row count).
+    pub fn len(&self) -> usize {
+        match self {
+            Column::Id { codes, .. } | Column::Categorical { codes, .. } => codes.len(),
+            Column::Numeric(values) => values.len(),
+        }
+    }
+
+    pub fn is_empty(&self) -> bool {
+        self.len() == 0
+    }
+
+    /// The codes of an id or categorical column.
+    pub fn codes(&self) -> Option<&[Option<u32>]> {
+        match self {
+            Column::Id { codes, .. } | Column::Categorical { codes, .. } => Some(codes),
+            Column::Numeric(_) => None,
+        }
+    }
+
+    /// The levels of a categorical column, or the distinct values of an id column.
+    pub fn levels(&self) -> Option<&[String]> {
+        match self {
+            Column::Id { values, .. } => Some(values),
+            Column::Categorical { levels, .. } => Some(levels),
+            Column::Numeric(_) => None,
+        }
+    }
+
+    /// The numbers of a numeric column.
+    pub fn numbers(&self) -> Option<&[Option<f64>]> {
+        match self {
+            Column::Numeric(values) => Some(values),
+            _ => None,
+        }
+    }
+
+    /// The text of an id or categorical cell (`None` when missing, out of range or numeric).
+    pub fn text_at(&self, row: usize) -> Option<&str> {
+        let code = (*self.codes()?.get(row)?)?;
+        self.levels()?.get(code as usize).map(String::as_str)
+    }
+
+    /// Number of missing cells.
+    pub fn n_missing(&self) -> usize {
+        match self {
+            Column::Id { codes, .. } | Column::Categorical { codes, .. } => {
+                codes.iter().filter(|c| c.is_none()).count()
+            }
+            Column::Numeric(values) => values.iter().filter(|v| v.is_none()).count(),
+        }
+    }
+}
+
+/// Where a data row is in its file, for later stages' messages.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct RowPlace {
+    /// 1-based row of the file, counting the header as row 1 (a quoted line break does not
+    /// start a new row; blank lines are skipped).
+    pub file_row: usize,
+    /// 1-based line where the row starts.
+    pub line: usize,
+    /// The row's bytes, without its line ending.
+    pub span: Span,
+}
+
+/// A declared column of a [`Table`].
+#[derive(Debug, Clone, PartialEq)]
+pub(super) struct NamedColumn {
+    pub(super) name: String,
+    pub(super) header_span: Span,
+    pub(super) column: Column,
+}
+
+/// A data file read into typed columns.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Table {
+    pub(super) path: PathBuf,
+    pub(super) source: SourceId,
+    pub(super) columns: Vec<NamedColumn>,
+    pub(super) rows: Vec<RowPlace>,
+}
+
+impl Table {
+    /// Number of data rows (the header is not counted).
+    pub fn n_rows(&self) -> usize {
+        self.rows.len()
+    }
+
+    /// The file the table was read from.
+    pub fn path(&self) -> &Path {
+        &self.path
+    }
+
+    /// The file's text in the [`crate::diag::SourceMap`] it was read with.
+    pub fn source(&self) -> SourceId {
+        self.source
+    }
+
+    /// The column of a declared variable.
+    pub fn column(&self, name: &str) -> Option<&Column> {
+        self.columns
+            .iter()
+            .find(|c| c.name == name)
+            .map(|c| &c.column)
+    }
+
+    /// The declared columns, in declaration order.
+    pub fn columns(&self) -> impl Iterator<Item = (&str, &Column)> + '_ {
+        self.columns.iter().map(|c| (c.name.as_str(), &c.column))
+    }
+
+    /// The numbers of a numeric column.
+    pub fn numeric(&self, name: &str) -> Option<&[Option<f64>]> {
+        self.column(name)?.numbers()
+    }
+
+    /// The codes and levels of a categorical column.
+    pub fn categorical(&self, name: &str) -> Option<(&[Option<u32>], &[String])> {
+        match self.column(name)? {
+            Column::Categorical { codes, levels } => Some((codes, levels)),
+            _ => None,
+        }
+    }
+
+    /// The codes and distinct values of an id column.
+    pub fn id(&self, name: &str) -> Option<(&[Option<u32>], &[String])> {
+        match self.column(name)? {
+            Column::Id { codes, values } => Some((codes, values)),
+            _ => None,
+        }
+    }
+
+    /// The header cell a declared variable was read from.
+    pub fn header_span(&self, name: &str) -> Option<Span> {
+        self.columns
+            .iter()
+            .find(|c| c.name == name)
+            .map(|c| c.header_span)
+    }
+
+    /// Where data row `row` (0-based) is in the file.
+    pub fn row_place(&self, row: usize) -> Option<RowPlace> {
+        self.rows.get(row).copied()
+    }
+
+    /// `speeds.csv row 14` (with `(line L)` when the line differs), for messages of later stages.
+    pub fn row_label(&self, row: usize) -> Option<String> {
+        let place = self.row_place(row)?;
+        Some(super::report::row_label(
+            &super::report::file_label(&self.path),
+            place.file_row,
+            place.line,
+        ))
+    }
+
+    /// A deterministic text form of the whole table: one line per column with its kind,
+    /// levels and cells (`.` = missing; numbers as the shortest text that reads back the same
+    /// double). Equal tables give equal text; suitable for hashing and for test expectations.
+    pub fn canonical_text(&self) -> String {
+        let mut out = String::new();
+        let _ = writeln!(out, "rows {}", self.n_rows());
+        for named in &self.columns {
+            let _ = write!(out, "{}: ", named.name);
+            write_column(&mut out, &named.column);
+            out.push('\n');
+        }
+        out
+    }
+}
+
+fn write_column(out: &mut String, column: &Column) {
+    match column {
+        Column::Id { codes, values } => {
+            out.push_str("id ");
+            write_codes(out, codes, values);
+        }
+        Column::Categorical { codes, levels } => {
+            out.push_str("categorical ");
+            write_codes(out, codes, levels);
+        }
+        Column::Numeric(values) => {
+            out.push_str("numeric");
+            for value in values {
+                match value {
+                    Some(v) => {
+                        let _ = write!(out, " {v:?}");
+                    }
+                    None => out.push_str(" ."),
+                }
+            }
+        }
+    }
+}
+
+fn write_codes(out: &mut String, codes: &[Option<u32>], names: &[String]) {
+    out.push('[');
+    for (i, name) in names.iter().enumerate() {
+        if i > 0 {
+            out.push_str(", ");
+        }
+        let _ = write!(out, "{name:?}");
+    }
+    out.push(']');
+    for code in codes {
+        match code {
+            Some(c) => {
+                let _ = write!(out, " {c}");
+            }
+            None => out.push_str(" ."),
+        }
+    }
+}

@@ -1,0 +1,201 @@
+//! Histogram bins: a width from a rule (or given), edges at whole multiples of it, counts.
+//!
+//! Guarantees:
+//! - Rule widths (language.md §5): Sturges `range / (⌈log2 n⌉ + 1)`; Scott
+//!   `3.49 · sd · n^(−1/3)`; Freedman–Diaconis `2 · IQR · n^(−1/3)`; a requested count `N` gives
+//!   `range / N`. Each is rounded to the *nearest* readable step (1, 2, 2.5 or 5 × 10^k, nearest
+//!   on a log scale, see [`super::steps`]), so `bins(N)` gives about `N` bins, not exactly `N`.
+//!   A fixed width `W` is used as given.
+//! - Edges are `k · w` for whole `k` from the largest multiple at or below the minimum to the
+//!   smallest multiple at or above the maximum, each computed directly from `k` (no running sum,
+//!   no drift). Bins are half-open `[a, b)` except the last, which is closed, so every value falls
+//!   in exactly one bin, with the same rule as a search over the edges.
+//! - Degenerate data still gives at least one bin: when all values are equal (including a single
+//!   value) a rule's width is a tenth of the value's magnitude rounded to a readable step (1 for
+//!   zero); when the IQR is zero, Freedman–Diaconis falls back to Scott's rule (the sd is then
+//!   positive because the range is). A value on a multiple of the width with zero range gets the
+//!   bin that starts at it.
+//! - At most [`MAX_BINS`] bins: a rule whose width would give more is widened to the smallest
+//!   readable step giving at most that many; a fixed width that would is an error.
+
+use super::error::{ensure_count, StatError};
+use super::quantile::{quartiles_sorted, sorted_values};
+use super::steps::{
+    ceil_index_by, floor_index_by, readable_step, step_for_single_value, ReadableStep,
+    StepRounding,
+};
+use super::summary::sample_sd;
+
+/// Largest number of bins a histogram may have.
+pub const MAX_BINS: usize = 10_000;
+
+/// How the bin width is chosen.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum BinRule {
+    /// Sturges (1926): `range / (⌈log2 n⌉ + 1)`, rounded to a readable step.
+    Sturges,
+    /// Scott (1979): `3.49 · sd · n^(−1/3)`, rounded to a readable step.
+    Scott,
+    /// Freedman & Diaconis (1981): `2 · IQR · n^(−1/3)`, rounded to a readable step.
+    FreedmanDiaconis,
+    /// About this many bins: `range / N`, rounded to a readable step.
+    Count(usize),
+    /// Exactly this width, not rounded.
+    Width(f64),
+}
+
+/// Bin edges and counts.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Histogram {
+    /// Number of values binned.
+    pub n: usize,
+    /// The width the rule gave before rounding (the given width for [`BinRule::Width`]; 0 when
+    /// all values are equal and a rule was asked for).
+    pub raw_width: f64,
+    /// The bin width used.
+    pub width: f64,
+    /// `counts.len() + 1` ascending edges; bin `i` is `[edges[i], edges[i+1])`, the last closed.
+    pub edges: Vec<f64>,
+    pub counts: Vec<u64>,
+}
+
+impl Histogram {
+    /// Percentages `100 · count / n`.
+    pub fn percents(&self) -> Vec<f64> {
+        let n = self.n as f64;
+        self.counts.iter().map(|&c| 100.0 * c as f64 / n).collect()
+    }
+
+    /// Density heights `count / (n · width)`, so the bars' areas sum to 1.
+    pub fn densities(&self) -> Vec<f64> {
+        let scale = self.n as f64 * self.width;
+        self.counts.iter().map(|&c| c as f64 / scale).collect()
+    }
+}
+
+/// The width grid edges are drawn from.
+#[derive(Debug, Clone, Copy)]
+enum Grid {
+    Readable(ReadableStep),
+    Fixed(f64),
+}
+
+impl Grid {
+    fn width(&self) -> f64 {
+        match self {
+            Grid::Readable(step) => step.value(),
+            Grid::Fixed(w) => *w,
+        }
+    }
+
+    fn multiple(&self, k: i64) -> f64 {
+        match self {
+            Grid::Readable(step) => step.multiple(k),
+            Grid::Fixed(w) => k as f64 * w,
+        }
+    }
+
+    /// First and last edge index covering `[min, max]`, at least one bin apart.
+    fn edge_indices(&self, min: f64, max: f64) -> Option<(i64, i64)> {
+        let first = floor_index_by(min, self.width(), |k| self.multiple(k))?;
+        let last = ceil_index_by(max, self.width(), |k| self.multiple(k))?;
+        Some((first, last.max(first + 1)))
+    }
+}
+
+/// Bins `values` by `rule`. An error for no values, a non-finite value, a zero bin count, a
+/// non-positive fixed width, or a width too fine for the data.
+pub fn histogram(values: &[f64], rule: BinRule) -> Result<Histogram, StatError> {
+    let sorted = sorted_values(values)?;
+    ensure_count(sorted.len(), 1)?;
+    let min = sorted[0];
+    let max = sorted[sorted.len() - 1];
+    let (raw_width, grid) = choose_grid(&sorted, rule)?;
+    let too_fine = StatError::WidthTooFine {
+        width: grid.width(),
+    };
+    let (first, last) = grid.edge_indices(min, max).ok_or(too_fine.clone())?;
+    let n_bins = usize::try_from(last - first).map_err(|_| too_fine.clone())?;
+    if n_bins > MAX_BINS {
+        return Err(too_fine);
+    }
+    let edges: Vec<f64> = (first..=last).map(|k| grid.multiple(k)).collect();
+    if edges.windows(2).any(|pair| pair[0] >= pair[1]) {
+        return Err(too_fine);
+    }
+    let counts = count_in_bins(&sorted, &edges);
+    Ok(Histogram {
+        n: sorted.len(),
+        raw_width,
+        width: grid.width(),
+        edges,
+        counts,
+    })
+}
+
+/// The raw width a rule asks for and the grid actually used.
+fn choose_grid(sorted: &[f64], rule: BinRule) -> Result<(f64, Grid), StatError> {
+    if let BinRule::Width(w) = rule {
+        return if w.is_finite() && w > 0.0 {
+            Ok((w, Grid::Fixed(w)))
+        } else {
+            Err(StatError::InvalidWidth(w))
+        };
+    }
+    let min = sorted[0];
+    let max = sorted[sorted.len() - 1];
+    let range = max - min;
+    if let BinRule::Count(0) = rule {
+        return Err(StatError::InvalidBinCount);
+    }
+    if range == 0.0 {
+        let step = step_for_single_value(min).ok_or(StatError::WidthTooFine { width: 0.0 })?;
+        return Ok((0.0, Grid::Readable(step)));
+    }
+    let raw = raw_rule_width(sorted, rule, range)?;
+    let mut step = readable_step(raw, StepRounding::Nearest)
+        .ok_or(StatError::WidthTooFine { width: raw })?;
+    if range / step.value() > (MAX_BINS - 2) as f64 {
+        step = readable_step(range / (MAX_BINS - 2) as f64, StepRounding::Up)
+            .ok_or(StatError::WidthTooFine { width: raw })?;
+    }
+    Ok((raw, Grid::Readable(step)))
+}
+
+/// A rule's unrounded width for data with a positive range (so `n ≥ 2`).
+fn raw_rule_width(sorted: &[f64], rule: BinRule, range: f64) -> Result<f64, StatError> {
+    let n = sorted.len();
+    let cube_root_n = (n as f64).cbrt();
+    let scott = || -> Result<f64, StatError> { Ok(3.49 * sample_sd(sorted)? / cube_root_n) };
+    match rule {
+        BinRule::Sturges => {
+            // ⌈log2 n⌉ exactly, from the integer.
+            let ceil_log2 = n.next_power_of_two().trailing_zeros();
+            Ok(range / f64::from(ceil_log2 + 1))
+        }
+        BinRule::Scott => scott(),
+        BinRule::FreedmanDiaconis => {
+            let iqr = quartiles_sorted(sorted)?.iqr();
+            if iqr > 0.0 {
+                Ok(2.0 * iqr / cube_root_n)
+            } else {
+                scott()
+            }
+        }
+        BinRule::Count(bins) => Ok(range / bins as f64),
+        BinRule::Width(w) => Ok(w),
+    }
+}
+
+/// Counts sorted values into bins `[e_i, e_{i+1})`, the last closed.
+fn count_in_bins(sorted: &[f64], edges: &[f64]) -> Vec<u64> {
+    let n_bins = edges.len() - 1;
+    let mut counts = vec![0_u64; n_bins];
+    for &v in sorted {
+        // Number of edges at or below v, minus one, is the bin; v on the last edge goes last.
+        let at_or_below = edges.partition_point(|&e| e <= v);
+        let bin = at_or_below.saturating_sub(1).min(n_bins - 1);
+        counts[bin] += 1;
+    }
+    counts
+}

@@ -1,0 +1,351 @@
+//! Scene → SVG text. Pure: no I/O, no clock, no randomness.
+//!
+//! Guarantees:
+//! - The same scene always gives the same bytes: elements follow the scene's mark order,
+//!   attributes come in a fixed order, clip paths are numbered in document order, and every
+//!   number is written by [`format_number`] (at most three decimals — a micrometre — with
+//!   trailing zeros trimmed and `-0` written as `0`).
+//! - The root element states the physical size in millimetres and a `viewBox` in millimetres,
+//!   so one user unit is one millimetre.
+//! - The scene's title and description are written as `<title>` and `<desc>` (XML-escaped)
+//!   for screen readers.
+//! - Colours are written as `#rrggbb`; opacities only when below 1.
+//! - Text uses the bundled font ([`crate::font::FAMILY`]); its vertical alignment is resolved
+//!   here into a plain baseline position, so no renderer's handling of `dominant-baseline`
+//!   matters. Text is written as [`crate::font::display_text`] gives it, which is exactly what
+//!   [`crate::font::measure`] measured.
+//! - A scene that breaks [`Scene::validate`] is refused, never written half-broken.
+
+use std::fmt::Write as _;
+
+use crate::font;
+use crate::scene::{
+    Fill, Mark, PathSegment, Point, Rect, Scene, SceneError, Stroke, TextAlign, TextMark,
+    TextRotation, Weight,
+};
+
+/// How the root element states the figure's size.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub(crate) enum RootSize {
+    /// `width="85mm"` with a millimetre `viewBox`: the form written to files.
+    Millimetres,
+    /// `width="85"`: one user unit per output unit, for handing to the renderer so that no
+    /// unit conversion (and no rounding from it) happens before drawing.
+    UserUnits,
+}
+
+/// Writes a scene as a standalone SVG document.
+pub fn to_svg(scene: &Scene) -> Result<String, SceneError> {
+    write_document(scene, RootSize::Millimetres)
+}
+
+pub(crate) fn write_document(scene: &Scene, size: RootSize) -> Result<String, SceneError> {
+    scene.validate()?;
+    let mut out = String::new();
+    out.push_str(&root_start_tag(
+        scene.width_mm,
+        scene.height_mm,
+        size,
+        false,
+    ));
+    out.push('\n');
+    out.push_str(&metadata(scene));
+    let mut writer = Writer {
+        out,
+        next_clip_id: 1,
+    };
+    for mark in &scene.marks {
+        writer.mark(mark, 0);
+    }
+    let mut out = writer.out;
+    out.push_str("</svg>\n");
+    Ok(out)
+}
+
+/// The `<svg ...>` start tag. `xlink` adds the XLink namespace (needed when the body uses
+/// `xlink:href`).
+pub(crate) fn root_start_tag(width_mm: f64, height_mm: f64, size: RootSize, xlink: bool) -> String {
+    let (w, h) = (format_number(width_mm), format_number(height_mm));
+    let unit = match size {
+        RootSize::Millimetres => "mm",
+        RootSize::UserUnits => "",
+    };
+    let xlink = if xlink {
+        r#" xmlns:xlink="http://www.w3.org/1999/xlink""#
+    } else {
+        ""
+    };
+    format!(
+        r#"<svg xmlns="http://www.w3.org/2000/svg"{xlink} width="{w}{unit}" height="{h}{unit}" viewBox="0 0 {w} {h}">"#
+    )
+}
+
+/// The `<title>` and `<desc>` lines (each ending in a newline), or nothing.
+pub(crate) fn metadata(scene: &Scene) -> String {
+    let mut out = String::new();
+    for (tag, text) in [("title", &scene.title), ("desc", &scene.description)] {
+        if let Some(text) = text {
+            let text = escape_xml(&font::display_text(text));
+            let _ = writeln!(out, "<{tag}>{text}</{tag}>");
+        }
+    }
+    out
+}
+
+/// Formats a coordinate or length: rounded to three decimals, trailing zeros and a trailing
+/// point removed, and negative zero written as `0`.
+pub fn format_number(value: f64) -> String {
+    let mut s = format!("{value:.3}");
+    if s.contains('.') {
+        let trimmed = s.trim_end_matches('0').trim_end_matches('.').len();
+        s.truncate(trimmed);
+    }
+    if s == "-0" {
+        s = "0".to_string();
+    }
+    s
+}
+
+/// Escapes the five XML special characters, so the text is safe in content and in
+/// double- or single-quoted attributes.
+pub fn escape_xml(text: &str) -> String {
+    let mut out = String::with_capacity(text.len());
+    for c in text.chars() {
+        match c {
+            '&' => out.push_str("&amp;"),
+            '<' => out.push_str("&lt;"),
+            '>' => out.push_str("&gt;"),
+            '"' => out.push_str("&quot;"),
+            '\'' => out.push_str("&apos;"),
+            c => out.push(c),
+        }
+    }
+    out
+}
+
+struct Writer {
+    out: String,
+    next_clip_id: u32,
+}
+
+impl Writer {
+    fn indent(&mut self, depth: usize) {
+        for _ in 0..depth {
+            self.out.push_str("  ");
+        }
+    }
+
+    fn mark(&mut self, mark: &Mark, depth: usize) {
+        match mark {
+            Mark::Line { points, stroke } => {
+                if points.len() >= 2 {
+                    self.indent(depth);
+                    let _ = write!(self.out, r#"<polyline points="{}""#, points_attr(points));
+                    self.paint(None, Some(stroke));
+                    self.out.push_str("/>\n");
+                }
+            }
+            Mark::Rect {
+                x,
+                y,
+                width,
+                height,
+                fill,
+                stroke,
+            } => {
+                self.indent(depth);
+                self.rect_element(&Rect::new(*x, *y, *width, *height));
+                self.paint(fill.as_ref(), stroke.as_ref());
+                self.out.push_str("/>\n");
+            }
+            Mark::Circle {
+                centre,
+                radius,
+                fill,
+                stroke,
+            } => {
+                self.indent(depth);
+                let _ = write!(
+                    self.out,
+                    r#"<circle cx="{}" cy="{}" r="{}""#,
+                    format_number(centre.x),
+                    format_number(centre.y),
+                    format_number(*radius)
+                );
+                self.paint(fill.as_ref(), stroke.as_ref());
+                self.out.push_str("/>\n");
+            }
+            Mark::Polygon {
+                points,
+                fill,
+                stroke,
+            } => {
+                if !points.is_empty() {
+                    self.indent(depth);
+                    let _ = write!(self.out, r#"<polygon points="{}""#, points_attr(points));
+                    self.paint(fill.as_ref(), stroke.as_ref());
+                    self.out.push_str("/>\n");
+                }
+            }
+            Mark::Path {
+                segments,
+                fill,
+                stroke,
+            } => {
+                if !segments.is_empty() {
+                    self.indent(depth);
+                    let _ = write!(self.out, r#"<path d="{}""#, path_data(segments));
+                    self.paint(fill.as_ref(), stroke.as_ref());
+                    self.out.push_str("/>\n");
+                }
+            }
+            Mark::Text(text) => self.text(text, depth),
+            Mark::Clip { rect, marks } => self.clip(rect, marks, depth),
+        }
+    }
+
+    fn rect_element(&mut self, rect: &Rect) {
+        let _ = write!(
+            self.out,
+            r#"<rect x="{}" y="{}" width="{}" height="{}""#,
+            format_number(rect.x),
+            format_number(rect.y),
+            format_number(rect.width),
+            format_number(rect.height)
+        );
+    }
+
+    fn paint(&mut self, fill: Option<&Fill>, stroke: Option<&Stroke>) {
+        match fill {
+            Some(fill) => {
+                let _ = write!(self.out, r#" fill="{}""#, fill.colour);
+                if fill.opacity < 1.0 {
+                    let _ = write!(
+                        self.out,
+                        r#" fill-opacity="{}""#,
+                        format_number(fill.opacity)
+                    );
+                }
+            }
+            None => self.out.push_str(r#" fill="none""#),
+        }
+        if let Some(stroke) = stroke {
+            let _ = write!(
+                self.out,
+                r#" stroke="{}" stroke-width="{}""#,
+                stroke.colour,
+                format_number(stroke.width_mm)
+            );
+            if stroke.opacity < 1.0 {
+                let _ = write!(
+                    self.out,
+                    r#" stroke-opacity="{}""#,
+                    format_number(stroke.opacity)
+                );
+            }
+            if let Some(dash) = stroke.dash.as_ref().filter(|d| !d.is_empty()) {
+                let dash: Vec<String> = dash.iter().map(|&d| format_number(d)).collect();
+                let _ = write!(self.out, r#" stroke-dasharray="{}""#, dash.join(" "));
+            }
+        }
+    }
+
+    fn text(&mut self, text: &TextMark, depth: usize) {
+        let content = font::display_text(&text.text);
+        if content.is_empty() {
+            return;
+        }
+        let style = &text.style;
+        let shift = font::baseline_offset_mm(text.baseline, style);
+        let (x, y) = (format_number(text.at.x), format_number(text.at.y));
+        self.indent(depth);
+        let _ = write!(
+            self.out,
+            r#"<text x="{x}" y="{}" font-family="{}" font-size="{}""#,
+            format_number(text.at.y + shift),
+            font::FAMILY,
+            format_number(font::font_size_mm(style.size_pt))
+        );
+        if style.weight == Weight::Bold {
+            self.out.push_str(r#" font-weight="700""#);
+        }
+        let _ = write!(self.out, r#" fill="{}""#, style.colour);
+        match text.align {
+            TextAlign::Start => {}
+            TextAlign::Middle => self.out.push_str(r#" text-anchor="middle""#),
+            TextAlign::End => self.out.push_str(r#" text-anchor="end""#),
+        }
+        if text.rotation == TextRotation::Up {
+            // Turning about the anchor keeps the anchor fixed; the baseline shift, applied
+            // along the text's own "down", then points to the right on the page.
+            let _ = write!(self.out, r#" transform="rotate(-90 {x} {y})""#);
+        }
+        let _ = writeln!(self.out, ">{}</text>", escape_xml(&content));
+    }
+
+    fn clip(&mut self, rect: &Rect, marks: &[Mark], depth: usize) {
+        let id = self.next_clip_id;
+        self.next_clip_id += 1;
+        self.indent(depth);
+        let _ = write!(self.out, r#"<clipPath id="clip{id}">"#);
+        self.rect_element(rect);
+        self.out.push_str("/></clipPath>\n");
+        self.indent(depth);
+        let _ = writeln!(self.out, r#"<g clip-path="url(#clip{id})">"#);
+        for mark in marks {
+            self.mark(mark, depth + 1);
+        }
+        self.indent(depth);
+        self.out.push_str("</g>\n");
+    }
+}
+
+fn points_attr(points: &[Point]) -> String {
+    let parts: Vec<String> = points
+        .iter()
+        .map(|p| format!("{},{}", format_number(p.x), format_number(p.y)))
+        .collect();
+    parts.join(" ")
+}
+
+fn path_data(segments: &[PathSegment]) -> String {
+    let xy = |p: &Point| format!("{} {}", format_number(p.x), format_number(p.y));
+    let parts: Vec<String> = segments
+        .iter()
+        .map(|segment| match segment {
+            PathSegment::MoveTo(p) => format!("M{}", xy(p)),
+            PathSegment::LineTo(p) => format!("L{}", xy(p)),
+            PathSegment::CubicTo { c1, c2, to } => {
+                format!("C{} {} {}", xy(c1), xy(c2), xy(to))
+            }
+            PathSegment::Close => "Z".to_string(),
+        })
+        .collect();
+    parts.join(" ")
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn numbers_are_rounded_trimmed_and_never_negative_zero() {
+        assert_eq!(format_number(0.0), "0");
+        assert_eq!(format_number(-0.0), "0");
+        assert_eq!(format_number(-0.0004), "0");
+        assert_eq!(format_number(1.5), "1.5");
+        assert_eq!(format_number(2.0), "2");
+        assert_eq!(format_number(10.0), "10");
+        assert_eq!(format_number(1.23456), "1.235");
+        assert_eq!(format_number(-3.1000001), "-3.1");
+        assert_eq!(format_number(0.0005), "0.001");
+    }
+
+    #[test]
+    fn escapes_all_special_characters() {
+        assert_eq!(
+            escape_xml(r#"a<b & "c" 'd'>"#),
+            "a&lt;b &amp; &quot;c&quot; &apos;d&apos;&gt;"
+        );
+    }
+}
