@@ -26,7 +26,7 @@ use usvg::{Tree, WriteOptions};
 
 use crate::font;
 use crate::scene::{Scene, SceneError, MM_PER_INCH};
-use crate::svg::{self, RootSize};
+use crate::svg::{self, RootSize, Xlink};
 
 /// The largest PNG, in pixels (width × height), that [`Rendered::png`] will draw
 /// (about 400 MB of memory while drawing).
@@ -133,7 +133,11 @@ pub fn render(scene: &Scene) -> Result<Rendered, ExportError> {
     };
     let outlined = text_tree.to_string(&write_options);
     let body = strip_root_start_tag(&outlined)?;
-    let xlink = body.contains("xlink:");
+    let xlink = if body.contains("xlink:") {
+        Xlink::Declare
+    } else {
+        Xlink::Omit
+    };
     let user_unit_svg = format!(
         "{}{body}",
         svg::root_start_tag(scene.width_mm, scene.height_mm, RootSize::UserUnits, xlink)

@@ -1,1 +1,27 @@
+//! Figura: a compiler for statistical figures.
+//!
+//! A `.figura` spec declares the data's variables with their level of measurement and the
+//! study design, and asks for layers. The pipeline, one module per stage:
+//!
+//! `syntax` (text → tree) → `check` (tree → checked plan) → `data` (files → typed table) →
+//! `compute` (plan + table → numbers) → `layout` (numbers → scene in mm) → `svg` (scene →
+//! text) → `export` (SVG → PNG / PDF); `build` drives them over many files; `cli` is the
+//! command line and `report` prints diagnostics.
+//!
+//! Dependencies point downstream only: no stage knows the stages after it.
 
+pub mod build;
+pub mod check;
+pub mod cli;
+pub mod compute;
+pub mod data;
+pub mod diag;
+pub mod export;
+pub mod font;
+pub mod layout;
+pub mod palette;
+pub mod report;
+pub mod scene;
+pub mod stats;
+pub mod svg;
+pub mod syntax;

@@ -46,7 +46,7 @@ pub(crate) fn write_document(scene: &Scene, size: RootSize) -> Result<String, Sc
         scene.width_mm,
         scene.height_mm,
         size,
-        false,
+        Xlink::Omit,
     ));
     out.push('\n');
     out.push_str(&metadata(scene));
@@ -62,18 +62,29 @@ pub(crate) fn write_document(scene: &Scene, size: RootSize) -> Result<String, Sc
     Ok(out)
 }
 
-/// The `<svg ...>` start tag. `xlink` adds the XLink namespace (needed when the body uses
-/// `xlink:href`).
-pub(crate) fn root_start_tag(width_mm: f64, height_mm: f64, size: RootSize, xlink: bool) -> String {
+/// Whether the root element declares the XLink namespace (needed when the body uses
+/// `xlink:href`; the scene writer itself never does).
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub(crate) enum Xlink {
+    Omit,
+    Declare,
+}
+
+/// The `<svg ...>` start tag.
+pub(crate) fn root_start_tag(
+    width_mm: f64,
+    height_mm: f64,
+    size: RootSize,
+    xlink: Xlink,
+) -> String {
     let (w, h) = (format_number(width_mm), format_number(height_mm));
     let unit = match size {
         RootSize::Millimetres => "mm",
         RootSize::UserUnits => "",
     };
-    let xlink = if xlink {
-        r#" xmlns:xlink="http://www.w3.org/1999/xlink""#
-    } else {
-        ""
+    let xlink = match xlink {
+        Xlink::Declare => r#" xmlns:xlink="http://www.w3.org/1999/xlink""#,
+        Xlink::Omit => "",
     };
     format!(
         r#"<svg xmlns="http://www.w3.org/2000/svg"{xlink} width="{w}{unit}" height="{h}{unit}" viewBox="0 0 {w} {h}">"#

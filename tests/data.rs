@@ -299,17 +299,42 @@ fn quoted_fields_may_hold_separators_quotes_and_line_breaks() {
 
 #[test]
 fn windows_line_endings_and_blank_lines() {
-    // The first rows of the sleep table with CRLF endings and a blank line before row 3.
+    // The first rows of the sleep table with CRLF endings and a blank line (row 3) before
+    // row 4.
     let text = "patient,drug,extra_hours\r\n1,A,0.7\r\n\r\n2,A,-1.6\r\n";
     let mut s = sleep_setup("sleep.csv", true);
     let error = s.only_error(text);
     assert_eq!(error.code, codes::NEGATIVE_RATIO);
     assert_eq!(
         error.message,
-        "sleep.csv row 3 (line 4), column \"extra_hours\": \"-1.6\" is negative, but \
-         extra_hours is a ratio variable"
+        "sleep.csv row 4, column \"extra_hours\": \"-1.6\" is negative, but extra_hours is a \
+         ratio variable"
     );
     assert_eq!(s.place(error.span().unwrap()), ("-1.6", (4, 5)));
+}
+
+#[test]
+fn rows_of_empty_fields_are_skipped_and_blank_lines_count_as_rows() {
+    // The first rows of the sleep table with two blank lines and two rows of separators only,
+    // as spreadsheets export them; rows are numbered as a spreadsheet shows them.
+    let text = "patient,drug,extra_hours\n\n1,A,0.7\n,,\n\n2,a,-1.6\n , ,\n,,,\n";
+    let mut s = sleep_setup("sleep.csv", false);
+    let error = s.only_error(text);
+    assert_eq!(
+        error.message,
+        "sleep.csv row 6, column \"drug\": \"a\" is not a declared level"
+    );
+    let table = s.parse(text.replace(",a,", ",A,")).expect("reads");
+    assert_eq!(table.n_rows(), 2);
+    let places: Vec<(usize, usize)> = (0..2)
+        .map(|i| table.row_place(i).map(|p| (p.file_row, p.line)).unwrap())
+        .collect();
+    assert_eq!(places, [(3, 3), (6, 6)]);
+    // Only empty rows below the header: as good as none.
+    assert_eq!(
+        s.only_error("patient,drug,extra_hours\n,,\n").code,
+        codes::HEADER_ONLY
+    );
 }
 
 #[test]
@@ -667,7 +692,7 @@ fn d0010_rows_of_the_wrong_width() {
 
 #[test]
 fn d0011_a_value_outside_the_declared_levels() {
-    // Drug cells of rows 2, 12 and 13 edited: a case slip, a spacing slip, a typo-free stranger.
+    // Drug cells of rows 2, 12 and 13 edited: a case slip, a spacing slip, a stranger.
     let mut text = sleep_text();
     text = edit_row(&text, 2, "1,a,0.7");
     text = edit_row(&text, 12, "1,B ,1.9");
@@ -692,13 +717,17 @@ fn d0011_a_value_outside_the_declared_levels() {
     );
     assert!(Setup::help(&errors[1]).starts_with("did you mean \"B\"?"));
     assert_eq!(s.place(errors[1].span().unwrap()), ("B ", (12, 3)));
-    // "C" is one edit from both one-letter levels; the distance rule allows it, earlier wins.
-    assert_eq!(Setup::help(&errors[2]), "did you mean \"A\"?");
+    // "C" is one edit from both one-letter levels, which is no likeness: the levels are listed.
+    assert_eq!(
+        Setup::help(&errors[2]),
+        "the declared levels of drug are \"A\", \"B\"; add \"C\" to levels(...) if it is one"
+    );
 }
 
 #[test]
 fn d0011_lists_the_levels_when_none_is_close() {
-    // Longer levels (the paper's drug names) so that a stranger is not "close".
+    // Longer levels so that a stranger is not "close": the two drugs' names written out
+    // (dextro- and laevo-hyoscyamine, from memory of the paper's description).
     let mut s = setup(
         SLEEP_SPEC,
         "sleep.csv",
@@ -706,29 +735,33 @@ fn d0011_lists_the_levels_when_none_is_close() {
             "drug",
             "drug",
             ColumnKind::Categorical {
-                levels: Some(vec!["hyoscyamine".to_owned(), "hyoscine".to_owned()]),
+                levels: Some(vec![
+                    "dextro-hyoscyamine".to_owned(),
+                    "laevo-hyoscyamine".to_owned(),
+                ]),
                 ordered: false,
             },
         )],
     );
-    let error = s.only_error("drug\nhyoscyamine\nplacebo\n");
+    let error = s.only_error("drug\ndextro-hyoscyamine\nplacebo\n");
     assert_eq!(
         Setup::help(&error),
-        "the declared levels of drug are \"hyoscyamine\", \"hyoscine\"; add \"placebo\" to \
-         levels(...) if it is one"
+        "the declared levels of drug are \"dextro-hyoscyamine\", \"laevo-hyoscyamine\"; add \
+         \"placebo\" to levels(...) if it is one"
     );
-    let marker = s.only_error("drug\nhyoscine\nn/a\n");
+    let marker = s.only_error("drug\nlaevo-hyoscyamine\nn/a\n");
     assert!(Setup::help(&marker)
         .starts_with("if \"n/a\" marks a missing value, add it to missing(...)"));
     // A quoted cell's span includes its quotes.
-    let quoted = s.only_error("drug\n\"hyoscine, low dose\"\n");
+    let quoted = s.only_error("drug\n\"laevo-hyoscyamine, low dose\"\n");
     assert_eq!(
         s.place(quoted.span().unwrap()),
-        ("\"hyoscine, low dose\"", (2, 1))
+        ("\"laevo-hyoscyamine, low dose\"", (2, 1))
     );
     assert_eq!(
         quoted.message,
-        "sleep.csv row 2, column \"drug\": \"hyoscine, low dose\" is not a declared level"
+        "sleep.csv row 2, column \"drug\": \"laevo-hyoscyamine, low dose\" is not a declared \
+         level"
     );
 }
 

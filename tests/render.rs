@@ -1,7 +1,8 @@
 //! Back end checks: scene → SVG text → outlined SVG, PNG and PDF.
 //!
 //! Unit facts used below: 1 in = 25.4 mm = 72 pt (common practice); the PNG `pHYs` chunk
-//! stores pixels per metre (PNG specification, W3C, section 11.3.5.3).
+//! stores pixels per metre (PNG specification, W3C, section 11.3.5.3; section number from
+//! memory).
 
 use std::path::Path;
 
@@ -543,6 +544,21 @@ fn malformed_scenes_are_refused() {
         export::render(&Scene::new(f64::NAN, 10.0)),
         Err(ExportError::Scene(_))
     ));
+}
+
+#[test]
+fn empty_scene_renders_a_white_page() {
+    let rendered = export::render(&Scene::new(10.0, 5.0)).unwrap();
+    let (info, _, rgb) = decode_png(&rendered.png(254.0).unwrap());
+    assert_eq!((info.width, info.height), (100, 50));
+    assert!(rgb.iter().all(|&c| c == 255));
+    parse_with_bundled_font(rendered.svg());
+}
+
+#[test]
+fn rendered_figures_can_move_between_threads() {
+    fn send_and_share<T: Send + Sync>() {}
+    send_and_share::<export::Rendered>();
 }
 
 // ----------------------------------------------------------------------------------- golden

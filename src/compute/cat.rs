@@ -365,7 +365,7 @@ fn means(
                 summary.push(k.number("ci_high", hi));
                 (lo, hi)
             }),
-            Some(ErrorBar::Bootstrap { level }) => stats::bootstrap_mean(&values, level).ok().map(|ci| {
+            Some(ErrorBar::Bootstrap { level }) => stats::bootstrap::bootstrap_mean(&values, level).ok().map(|ci| {
                 summary.push(k.number("ci_low", ci.low));
                 summary.push(k.number("ci_high", ci.high));
                 (ci.low, ci.high)
@@ -408,14 +408,11 @@ fn within_intervals(ctx: &Context, placed: &Placed, p: usize, levels: &Levels, l
                 by_subject.entry(s).or_default().insert(o.cell, o.value);
             }
         }
-        let matrix: Vec<Vec<f64>> = by_subject
-            .values()
-            .filter(|m| m.len() == cells.len())
-            .map(|m| cells.iter().map(|c| m[c]).collect())
-            .collect();
-        let Ok(result) = stats::within_subject_ci(&matrix, level) else { continue };
-        for (c, interval) in cells.iter().zip(result) {
-            out.insert(*c, interval);
+        let matrix: Vec<Vec<Option<f64>>> =
+            by_subject.values().map(|m| cells.iter().map(|c| m.get(c).copied()).collect()).collect();
+        let Ok(result) = stats::within_subject_intervals(&matrix, stats::Spread::Ci { level }) else { continue };
+        for (c, interval) in cells.iter().zip(result.cells) {
+            out.insert(*c, (interval.low, interval.high));
         }
     }
     Ok(out)
@@ -437,7 +434,7 @@ fn medians(
         let Ok(median) = stats::quantile_sorted(&values, 0.5) else { continue };
         summary.push(k.number("median", median));
         let interval = match error {
-            Some(ErrorBar::Bootstrap { level }) => stats::bootstrap_median(&values, level).ok().map(|ci| {
+            Some(ErrorBar::Bootstrap { level }) => stats::bootstrap::bootstrap_median(&values, level).ok().map(|ci| {
                 summary.push(k.number("ci_low", ci.low));
                 summary.push(k.number("ci_high", ci.high));
                 (ci.low, ci.high)

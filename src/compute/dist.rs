@@ -87,7 +87,7 @@ pub fn distribution(ctx: &Context, x: &NumAxis, layers: &[DistLayer]) -> Result<
                         summary.push(k.number("bandwidth", h));
                         let (lo, hi) = (v[0] - 3.0 * h, v[v.len() - 1] + 3.0 * h);
                         let grid: Vec<f64> = (0..DENSITY_GRID).map(|i| lo + (hi - lo) * i as f64 / (DENSITY_GRID - 1) as f64).collect();
-                        let ys = stats::kde(&v, h, &grid);
+                        let Ok(ys) = stats::kde(&v, h, &grid) else { continue };
                         x_extent.add(lo);
                         x_extent.add(hi);
                         ys.iter().for_each(|y| y_extent.add(*y));

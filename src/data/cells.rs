@@ -207,9 +207,13 @@ pub(super) fn level_hint<'a>(value: &str, levels: &'a [String]) -> LevelHint<'a>
     if let Some(level) = levels.iter().find(|l| normalize(l) == wanted) {
         return LevelHint::CaseOrSpacing(level);
     }
-    match crate::diag::did_you_mean(value.trim(), levels.iter().map(String::as_str)) {
-        Some(level) => LevelHint::Close(level),
-        None => LevelHint::List,
+    let value = value.trim();
+    match crate::diag::did_you_mean(value, levels.iter().map(String::as_str)) {
+        // Between one-character texts every pair is one edit apart: no real likeness.
+        Some(level) if value.chars().count().max(level.chars().count()) > 1 => {
+            LevelHint::Close(level)
+        }
+        _ => LevelHint::List,
     }
 }
 
@@ -261,5 +265,8 @@ mod tests {
         );
         assert_eq!(level_hint("papr", &levels), LevelHint::Close("paper"));
         assert_eq!(level_hint("radio", &levels), LevelHint::List);
+        let one_letter = strings(&["A", "B"]);
+        assert_eq!(level_hint("C", &one_letter), LevelHint::List);
+        assert_eq!(level_hint("AB", &one_letter), LevelHint::Close("A"));
     }
 }

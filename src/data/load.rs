@@ -201,7 +201,8 @@ fn not_utf8(spec: &TableSpec, bytes: &[u8], bad_at: usize) -> Diagnostic {
         spec,
         codes::NOT_UTF8,
         format!(
-            "data file {} is not UTF-8 text: byte 0x{bad_byte:02X} at line {line}, byte offset {bad_at}",
+            "data file {} is not UTF-8 text: byte 0x{bad_byte:02X} at line {line}, \
+             byte offset {bad_at}",
             file_label(&spec.path)
         ),
         help,

@@ -1,15 +1,16 @@
 //! The `data` stage: one CSV or TSV file → a typed [`Table`], checked against the codebook.
 //!
 //! Input is a resolved [`TableSpec`] (path, missing tokens, declared columns); output is a
-//! [`Table`] whose guarantees are listed in [`table`](Table): exactly the declared columns,
+//! [`Table`] whose guarantees are listed on that type: exactly the declared columns,
 //! categorical cells within the declared levels, finite numbers, non-negative ratio values,
 //! no missing ids. Otherwise every data error of the file is returned (codes `D0001`–`D0016`,
 //! documented in `grammar/ERRORS-data.md`), the first [`MAX_DIAGNOSTICS`] in full and the
 //! rest summed up in one closing diagnostic.
 //!
 //! Reading rules: the first row is the header; a `.tsv` file is tab separated, any other file
-//! comma separated; fields may be quoted (RFC 4180, doubled quotes inside); blank lines are
-//! skipped; a UTF-8 byte-order mark is skipped; undeclared columns are ignored. The file must
+//! comma separated; fields may be quoted (RFC 4180, doubled quotes inside); blank lines and
+//! rows of empty fields are skipped (but count in row numbers, as in a spreadsheet); a UTF-8
+//! byte-order mark is skipped; undeclared columns are ignored. The file must
 //! be UTF-8 text without NUL bytes and at most [`MAX_FILE_BYTES`] long.
 //!
 //! When the file is UTF-8, its whole text (byte-order mark included) is added to the

@@ -1,9 +1,10 @@
 //! Reading a data file's text into a [`Table`], checking every cell against the codebook.
 //!
 //! One pass over the rows: the header is matched to the declared columns, then each row is
-//! checked for its width and each declared cell is read by its column's builder. Every problem
-//! is reported (up to the per-file cap, see [`super::report`]); a row of the wrong width is
-//! reported once and its cells are not read, since they cannot be matched to columns.
+//! checked for its width and each declared cell is read by its column's builder. Rows of empty
+//! fields only are skipped like blank lines. Every problem is reported (up to the per-file
+//! cap, see [`super::report`]); a row of the wrong width is reported once and its cells are
+//! not read, since they cannot be matched to columns.
 
 use std::borrow::Cow;
 
@@ -40,7 +41,6 @@ pub(super) fn parse_text(
     let fields = locate_columns(spec, &header, &mut report, delimiter);
     let mut reading = Reading {
         spec,
-        file: report.file().to_owned(),
         header: &header,
         fields: &fields,
         order: reading_order(&fields),
@@ -57,15 +57,17 @@ pub(super) fn parse_text(
             Ok(Some(row)) => reading.read_row(&row, &mut report),
             Ok(None) => break,
             Err(error) => {
-                let file = report.file().to_owned();
-                report.add(codes::MALFORMED, || messages::not_csv(spec, &file, &error));
+                report.add(codes::MALFORMED, |file| {
+                    messages::not_csv(spec, file, &error)
+                });
                 break;
             }
         }
     }
     if reading.places.is_empty() {
-        let file = report.file().to_owned();
-        report.add(codes::HEADER_ONLY, || messages::header_only(&file, &header));
+        report.add(codes::HEADER_ONLY, |file| {
+            messages::header_only(file, &header)
+        });
     }
     if !report.is_empty() {
         return Err(report.finish());
@@ -80,22 +82,23 @@ fn read_header(
     report: &mut Report,
     delimiter: u8,
 ) -> Option<HeaderRow> {
-    let file = report.file().to_owned();
     let row = match rows.next_row() {
         Ok(Some(row)) => row,
         Ok(None) => {
-            report.add(codes::EMPTY_FILE, || {
-                messages::empty_file(spec, &file, delimiter)
+            report.add(codes::EMPTY_FILE, |file| {
+                messages::empty_file(spec, file, delimiter)
             });
             return None;
         }
         Err(error) => {
-            report.add(codes::MALFORMED, || messages::not_csv(spec, &file, &error));
+            report.add(codes::MALFORMED, |file| {
+                messages::not_csv(spec, file, &error)
+            });
             return None;
         }
     };
     if row.unclosed_quote {
-        report.add(codes::MALFORMED, || unclosed_quote(&file, &row));
+        report.add(codes::MALFORMED, |file| unclosed_quote(file, &row));
         return None;
     }
     Some(HeaderRow {
@@ -122,7 +125,6 @@ fn locate_columns(
     report: &mut Report,
     delimiter: u8,
 ) -> Vec<Option<usize>> {
-    let file = report.file().to_owned();
     spec.columns
         .iter()
         .map(|column| {
@@ -132,15 +134,15 @@ fn locate_columns(
             match found.as_slice() {
                 [index] => Some(*index),
                 [] => {
-                    report.add(codes::MISSING_COLUMN, || {
-                        messages::missing_column(&file, column, header, delimiter)
+                    report.add(codes::MISSING_COLUMN, |file| {
+                        messages::missing_column(file, column, header, delimiter)
                     });
                     None
                 }
                 _ => {
                     let spans: Vec<Span> = found.iter().map(|&i| header.spans[i]).collect();
-                    report.add(codes::DUPLICATE_HEADER, || {
-                        messages::duplicate_header(&file, column, &spans)
+                    report.add(codes::DUPLICATE_HEADER, |file| {
+                        messages::duplicate_header(file, column, &spans)
                     });
                     None
                 }
@@ -157,11 +159,15 @@ fn reading_order(fields: &[Option<usize>]) -> Vec<usize> {
     order
 }
 
+/// A row of separators and spaces only (`,,,`, as spreadsheets export trailing empty rows):
+/// it carries nothing, so it is skipped like a blank line rather than read as missing cells.
+fn is_empty_row(row: &Row) -> bool {
+    !row.unclosed_quote && (0..row.len()).all(|i| row.field(i).is_some_and(|f| f.trim().is_empty()))
+}
+
 /// The state of one pass over the data rows.
 struct Reading<'a> {
     spec: &'a TableSpec,
-    /// The file's name as messages show it.
-    file: String,
     header: &'a HeaderRow,
     fields: &'a [Option<usize>],
     order: Vec<usize>,
@@ -172,6 +178,9 @@ struct Reading<'a> {
 
 impl Reading<'_> {
     fn read_row(&mut self, row: &Row, report: &mut Report) {
+        if is_empty_row(row) {
+            return;
+        }
         self.places.push(RowPlace {
             file_row: row.file_row,
             line: row.line,
@@ -184,9 +193,9 @@ impl Reading<'_> {
             let Err(problem) = self.builders[col].push(value.as_deref(), &self.spec.missing) else {
                 continue;
             };
-            report.add(problem.code(), || {
+            report.add(problem.code(), |file| {
                 let cell = CellAt {
-                    file: &self.file,
+                    file,
                     file_row: row.file_row,
                     line: row.line,
                     column: &self.spec.columns[col],
@@ -202,7 +211,7 @@ impl Reading<'_> {
     /// `false` when its cells cannot be read.
     fn check_shape(&self, row: &Row, report: &mut Report) -> bool {
         if row.unclosed_quote {
-            report.add(codes::MALFORMED, || unclosed_quote(&self.file, row));
+            report.add(codes::MALFORMED, |file| unclosed_quote(file, row));
             return false;
         }
         let n_header = self.header.names.len();
@@ -217,8 +226,8 @@ impl Reading<'_> {
             extra_fields_empty: (n_header..row.len())
                 .all(|i| row.field(i).is_some_and(|f| f.trim().is_empty())),
         };
-        report.add(codes::RAGGED_ROW, || {
-            messages::ragged_row(&self.file, &ragged, self.header, self.delimiter)
+        report.add(codes::RAGGED_ROW, |file| {
+            messages::ragged_row(file, &ragged, self.header, self.delimiter)
         });
         false
     }

@@ -7,8 +7,10 @@
 //! `\n` or `\r\n` endings, blank lines skipped). Should the two ever disagree on a row's field
 //! count, every field of that row is given the row's span: a wider label, never a wrong one.
 //!
-//! Rows are numbered from 1 with the header as row 1; lines are counted separately because
-//! blank lines and line breaks inside quotes make them differ.
+//! Rows are numbered as a spreadsheet shows the file: the header is row 1 and each line after
+//! the previous row is one more row, blank lines included. A line break inside quotes does not
+//! start a new row, so lines are counted separately (and, as everywhere, by `\n` only; a file
+//! with `\r` endings alone still gets one row number per row).
 
 use std::borrow::Cow;
 
@@ -23,7 +25,7 @@ fn is_line_end(byte: u8) -> bool {
 /// One row of the file, borrowed from the reader until the next row is read.
 #[derive(Debug)]
 pub(super) struct Row<'r> {
-    /// 1-based, header = 1.
+    /// 1-based, header = 1, blank lines counted.
     pub(super) file_row: usize,
     /// 1-based line where the row starts.
     pub(super) line: usize,
@@ -145,7 +147,8 @@ pub(super) struct Rows<'t> {
     body_offset: usize,
     source: SourceId,
     delimiter: u8,
-    rows_read: usize,
+    /// Row number and last line of the previous row, if any.
+    previous: Option<(usize, usize)>,
     lines: LineCounter,
     field_spans: Vec<Span>,
 }
@@ -165,7 +168,7 @@ impl<'t> Rows<'t> {
             body_offset,
             source,
             delimiter,
-            rows_read: 0,
+            previous: None,
             lines: LineCounter { offset: 0, line: 1 },
             field_spans: Vec::new(),
         }
@@ -184,7 +187,6 @@ impl<'t> Rows<'t> {
         if !self.reader.read_byte_record(&mut self.record)? {
             return Ok(None);
         }
-        self.rows_read += 1;
         let from = self
             .record
             .position()
@@ -193,12 +195,22 @@ impl<'t> Rows<'t> {
         let span = self.span(raw.start, raw.end);
         self.field_spans.clear();
         if raw.fields.len() == self.record.len() {
-            let spans: Vec<Span> = raw.fields.iter().map(|&(s, e)| self.span(s, e)).collect();
-            self.field_spans = spans;
+            let (source, offset) = (self.source, self.body_offset);
+            self.field_spans.extend(
+                raw.fields
+                    .iter()
+                    .map(|&(s, e)| Span::new(source, offset + s, offset + e)),
+            );
         }
         let line = self.lines.line_at(self.body, raw.start);
+        let end_line = self.lines.line_at(self.body, raw.end);
+        let file_row = match self.previous {
+            None => 1,
+            Some((row, last_line)) => row + line.saturating_sub(last_line).max(1),
+        };
+        self.previous = Some((file_row, end_line));
         Ok(Some(Row {
-            file_row: self.rows_read,
+            file_row,
             line,
             span,
             unclosed_quote: raw.unclosed_quote,

@@ -80,16 +80,11 @@ impl Report {
         }
     }
 
-    /// The file's name as messages show it.
-    pub(super) fn file(&self) -> &str {
-        &self.file
-    }
-
-    /// Records one error with stable `code`; `make` builds it only while under the cap, so a
-    /// file with millions of bad cells costs a counter each, not a message each.
-    pub(super) fn add(&mut self, code: &'static str, make: impl FnOnce() -> Diagnostic) {
+    /// Records one error with stable `code`; `make` builds it from the file's name only while
+    /// under the cap, so a file with millions of bad cells costs a counter each, not a message.
+    pub(super) fn add(&mut self, code: &'static str, make: impl FnOnce(&str) -> Diagnostic) {
         if self.shown.len() < self.max_shown {
-            let diagnostic = make();
+            let diagnostic = make(&self.file);
             debug_assert_eq!(diagnostic.code, code);
             self.shown.push(diagnostic);
         } else {

@@ -88,8 +88,8 @@ impl Column {
 /// Where a data row is in its file, for later stages' messages.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub struct RowPlace {
-    /// 1-based row of the file, counting the header as row 1 (a quoted line break does not
-    /// start a new row; blank lines are skipped).
+    /// 1-based row of the file as a spreadsheet shows it: the header is row 1, blank lines
+    /// count as rows, a line break inside quotes does not start a new row.
     pub file_row: usize,
     /// 1-based line where the row starts.
     pub line: usize,

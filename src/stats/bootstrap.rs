@@ -84,6 +84,26 @@ pub fn bootstrap_interval(
     })
 }
 
+/// Percentile bootstrap interval for the mean with the default seed and resample count.
+pub fn bootstrap_mean(values: &[f64], level: f64) -> Result<BootstrapInterval, StatError> {
+    bootstrap_interval(
+        values,
+        BootstrapStatistic::Mean,
+        level,
+        BootstrapSettings::default(),
+    )
+}
+
+/// Percentile bootstrap interval for the median with the default seed and resample count.
+pub fn bootstrap_median(values: &[f64], level: f64) -> Result<BootstrapInterval, StatError> {
+    bootstrap_interval(
+        values,
+        BootstrapStatistic::Median,
+        level,
+        BootstrapSettings::default(),
+    )
+}
+
 /// The statistic of a non-empty sample (which may be reordered).
 fn statistic_of(sample: &mut [f64], statistic: BootstrapStatistic) -> Result<f64, StatError> {
     match statistic {

@@ -53,12 +53,12 @@ pub fn box_summary(values: &[f64], whiskers: Whiskers) -> Result<BoxSummary, Sta
             let reach = TUKEY_FENCE * quartiles.iqr();
             let fence_low = quartiles.q1 - reach;
             let fence_high = quartiles.q3 + reach;
-            let inside = sorted
+            let mut inside = sorted
                 .iter()
                 .copied()
                 .filter(|&v| v >= fence_low && v <= fence_high);
             let lowest_inside = inside.clone().next().unwrap_or(quartiles.q1);
-            let highest_inside = inside.last().unwrap_or(quartiles.q3);
+            let highest_inside = inside.next_back().unwrap_or(quartiles.q3);
             let outliers = sorted
                 .iter()
                 .copied()

@@ -55,7 +55,10 @@ impl fmt::Display for StatError {
                 write!(f, "degrees of freedom {df} must be positive")
             }
             StatError::LengthMismatch { left, right } => {
-                write!(f, "paired inputs have different lengths ({left} and {right})")
+                write!(
+                    f,
+                    "paired inputs have different lengths ({left} and {right})"
+                )
             }
             StatError::NoSpread => write!(f, "all values are equal, so there is no spread"),
             StatError::TooFewCells { found } => write!(

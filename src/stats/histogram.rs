@@ -21,8 +21,7 @@
 use super::error::{ensure_count, StatError};
 use super::quantile::{quartiles_sorted, sorted_values};
 use super::steps::{
-    ceil_index_by, floor_index_by, readable_step, step_for_single_value, ReadableStep,
-    StepRounding,
+    ceil_index_by, floor_index_by, readable_step, step_for_single_value, ReadableStep, StepRounding,
 };
 use super::summary::sample_sd;
 
@@ -153,8 +152,8 @@ fn choose_grid(sorted: &[f64], rule: BinRule) -> Result<(f64, Grid), StatError> 
         return Ok((0.0, Grid::Readable(step)));
     }
     let raw = raw_rule_width(sorted, rule, range)?;
-    let mut step = readable_step(raw, StepRounding::Nearest)
-        .ok_or(StatError::WidthTooFine { width: raw })?;
+    let mut step =
+        readable_step(raw, StepRounding::Nearest).ok_or(StatError::WidthTooFine { width: raw })?;
     if range / step.value() > (MAX_BINS - 2) as f64 {
         step = readable_step(range / (MAX_BINS - 2) as f64, StepRounding::Up)
             .ok_or(StatError::WidthTooFine { width: raw })?;

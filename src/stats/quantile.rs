@@ -55,9 +55,7 @@ pub fn quantile_sorted(sorted: &[f64], p: f64) -> Result<f64, StatError> {
     let fraction = h - lower;
     let below = sorted[index];
     match sorted.get(index + 1) {
-        Some(&above) if fraction > 0.0 && above != below => {
-            Ok(below + fraction * (above - below))
-        }
+        Some(&above) if fraction > 0.0 && above != below => Ok(below + fraction * (above - below)),
         _ => Ok(below),
     }
 }

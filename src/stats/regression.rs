@@ -96,7 +96,16 @@ pub fn linear_fit(x: &[f64], y: &[f64]) -> Result<LinearFit, StatError> {
     }
     let slope = sxy / sxx;
     let intercept = mean_y - slope * mean_x;
-    let r = (syy > 0.0).then(|| (sxy / (sxx.sqrt() * syy.sqrt())).clamp(-1.0, 1.0));
+    let r = (syy > 0.0).then(|| {
+        // √(Sxx·Syy) in one rounding unless the product overflows or underflows.
+        let product = sxx * syy;
+        let scale = if product.is_normal() {
+            product.sqrt()
+        } else {
+            sxx.sqrt() * syy.sqrt()
+        };
+        (sxy / scale).clamp(-1.0, 1.0)
+    });
     let residual_sd = (n >= 3).then(|| {
         let rss = accurate_sum(pairs().map(|(dx, dy)| (dy - slope * dx).powi(2)));
         (rss / (n as f64 - 2.0)).sqrt()

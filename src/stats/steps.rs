@@ -159,9 +159,9 @@ pub fn readable_step(raw: f64, rounding: StepRounding) -> Option<ReadableStep> {
             }
             best.map(|(_, step)| step)
         }
-        StepRounding::Up => {
-            candidates.into_iter().find(|c| c.value() >= raw * (1.0 - UP_TOLERANCE))
-        }
+        StepRounding::Up => candidates
+            .into_iter()
+            .find(|c| c.value() >= raw * (1.0 - UP_TOLERANCE)),
     }
 }
 

@@ -19,6 +19,7 @@ pub struct SpecFile {
 }
 
 /// A `# ...` comment; the span covers the `#` up to (not including) the newline.
+/// `text` is the comment exactly as written, `#` included.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Comment {
     pub text: String,

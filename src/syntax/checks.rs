@@ -38,7 +38,9 @@ fn include_in_block(plain: &Plain, found: &mut Vec<Diagnostic>) {
 /// `85 mm`: a number followed, after spaces only, by a unit word.
 fn units_apart(terms: &[Term], text: &str, found: &mut Vec<Diagnostic>) {
     for pair in terms.windows(2) {
-        let [Term::Num(num), Term::Word(word)] = pair else { continue };
+        let [Term::Num(num), Term::Word(word)] = pair else {
+            continue;
+        };
         let between = text.get(num.span.end..word.span.start).unwrap_or("");
         if is_unit(&word.name) && between.chars().all(|c| c == ' ' || c == '\t') {
             found.push(unit_apart(num.span.to(word.span), &num.text, &word.name));
@@ -49,7 +51,9 @@ fn units_apart(terms: &[Term], text: &str, found: &mut Vec<Diagnostic>) {
 /// `85 x 60mm`: a size written `W x H` where a side has no unit.
 fn bare_sizes(terms: &[Term], found: &mut Vec<Diagnostic>) {
     for triple in terms.windows(3) {
-        let [left, Term::Word(x), right] = triple else { continue };
+        let [left, Term::Word(x), right] = triple else {
+            continue;
+        };
         let is_size_side = |t: &Term| matches!(t, Term::Num(_) | Term::Length(_));
         if x.name != "x" || !is_size_side(left) || !is_size_side(right) {
             continue;

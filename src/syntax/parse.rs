@@ -26,6 +26,9 @@ pub const MAX_NESTING: usize = 64;
 /// The deepest `where` condition accepted (`and`, `or`, `not` and parentheses each add a level).
 pub const MAX_CONDITION_DEPTH: usize = 256;
 
+/// How many failures at the end of the text are repaired by appending (a `)` and a `}`).
+const MAX_FAILURES_AT_END: usize = 2;
+
 /// The most syntax errors reported for one file; parsing stops after that many (`F0019`).
 pub const MAX_ERRORS: usize = 50;
 
@@ -45,6 +48,8 @@ pub fn parse(source: SourceId, text: &str) -> Result<SpecFile, Vec<Diagnostic>> 
     let mut work = text.to_owned();
     let mut diagnostics: Vec<Diagnostic> = Vec::new();
     let mut tree = None;
+    // Failures at the very end are fixed by appending; more than a few means no progress.
+    let mut failures_at_end = 0;
     loop {
         match parse_once(source, &work) {
             Ok((file, found)) => {
@@ -57,6 +62,12 @@ pub fn parse(source: SourceId, text: &str) -> Result<SpecFile, Vec<Diagnostic>> 
                 break;
             }
             Err(Stop::Failed(failure)) => {
+                if failure.pos >= text.len() {
+                    failures_at_end += 1;
+                    if failures_at_end > MAX_FAILURES_AT_END {
+                        break;
+                    }
+                }
                 let scan = Scan::new(&work, usize::MAX);
                 let cx = Context {
                     source,
@@ -103,20 +114,31 @@ fn finish(mut diagnostics: Vec<Diagnostic>, text: &str) -> Vec<Diagnostic> {
             label.span = Span::new(label.span.source, clamp(label.span.start).min(end), end);
         }
     }
-    diagnostics.sort_by_key(|d| (d.code == TOO_MANY_CODE, d.span().map_or(usize::MAX, |s| s.start)));
+    diagnostics.sort_by_key(|d| {
+        (
+            d.code == TOO_MANY_CODE,
+            d.span().map_or(usize::MAX, |s| s.start),
+        )
+    });
     diagnostics
 }
 
 const TOO_MANY_CODE: &str = "F0019";
 
 fn too_many_errors() -> Diagnostic {
-    Diagnostic::error(TOO_MANY_CODE, format!("stopped after {MAX_ERRORS} syntax errors"))
-        .with_help("fix the errors above and run again to see the rest")
+    Diagnostic::error(
+        TOO_MANY_CODE,
+        format!("stopped after {MAX_ERRORS} syntax errors"),
+    )
+    .with_help("fix the errors above and run again to see the rest")
 }
 
 fn limit_reached(source: SourceId, pos: usize) -> Diagnostic {
     Diagnostic::error("F0013", "this file is nested too deeply to read")
-        .with_label(Span::new(source, pos, pos), "the parser ran out of room here")
+        .with_label(
+            Span::new(source, pos, pos),
+            "the parser ran out of room here",
+        )
         .with_help(format!("nest at most {MAX_NESTING} levels of `(`"))
 }
 
@@ -132,7 +154,6 @@ fn parse_once(source: SourceId, work: &str) -> Result<(SpecFile, Vec<Diagnostic>
         Ok(mut pairs) => {
             let mut cv = Converter {
                 source,
-                text: work,
                 diagnostics: Vec::new(),
             };
             let file = match pairs.next() {
@@ -181,14 +202,9 @@ fn expect_of(rule: Rule) -> Option<Expect> {
         }
         R::name => Expect::Name,
         R::colon => Expect::Colon,
-        R::term
-        | R::call
-        | R::word
-        | R::length
-        | R::number
-        | R::num_text
-        | R::string
-        | R::args => Expect::Value,
+        R::term | R::call | R::word | R::length | R::number | R::num_text | R::string | R::args => {
+            Expect::Value
+        }
         R::open_paren | R::value_list => Expect::OpenParen,
         R::close_paren => Expect::CloseParen,
         R::comma => Expect::Comma,
@@ -198,6 +214,11 @@ fn expect_of(rule: Rule) -> Option<Expect> {
         | R::group
         | R::in_test
         | R::comparison
+        | R::nl_condition
+        | R::nl_and_chain
+        | R::nl_negation
+        | R::nl_in_test
+        | R::nl_comparison
         | R::filter_var
         | R::kw_not => Expect::Condition,
         R::compare_op => Expect::CompareOp,
@@ -207,13 +228,22 @@ fn expect_of(rule: Rule) -> Option<Expect> {
         R::kw_or => Expect::Or,
         R::EOI => Expect::EndOfFile,
         R::COMMENT | R::unit => return None,
+        // Silent rules: pest never reports them.
+        R::WHITESPACE
+        | R::bom
+        | R::gap
+        | R::item
+        | R::statement
+        | R::primary
+        | R::nl_primary
+        | R::name_char
+        | R::str_char => return None,
     })
 }
 
 /// Builds the tree from pest pairs, collecting problems the grammar lets through.
-struct Converter<'t> {
+struct Converter {
     source: SourceId,
-    text: &'t str,
     diagnostics: Vec<Diagnostic>,
 }
 
@@ -239,10 +269,24 @@ fn parts(pair: Pair<'_, Rule>) -> impl Iterator<Item = Pair<'_, Rule>> {
     })
 }
 
-impl Converter<'_> {
+impl Converter {
     fn span(&self, pair: &Pair<'_, Rule>) -> Span {
         let s = pair.as_span();
         Span::new(self.source, s.start(), s.end())
+    }
+
+    /// The span of a pair without the spaces and comments pest skips at its end (which it
+    /// includes when an optional or repeated part at the end matched nothing).
+    fn content_span(&self, pair: &Pair<'_, Rule>) -> Span {
+        let start = pair.as_span().start();
+        let end = pair
+            .clone()
+            .into_inner()
+            .filter(|p| p.as_rule() != Rule::COMMENT)
+            .map(|p| p.as_span().end())
+            .max()
+            .unwrap_or_else(|| pair.as_span().end());
+        Span::new(self.source, start, end)
     }
 
     fn error(&mut self, d: Diagnostic) {
@@ -340,7 +384,7 @@ impl Converter<'_> {
     }
 
     fn plain(&mut self, pair: Pair<'_, Rule>) -> Plain {
-        let span = self.span(&pair);
+        let span = self.content_span(&pair);
         let mut target = None;
         let mut head = None;
         let mut head_args = None;
@@ -426,7 +470,11 @@ impl Converter<'_> {
                 Some((_, '\\')) => value.push('\\'),
                 Some((_, 'n')) => value.push('\n'),
                 Some((j, other)) => {
-                    let at = Span::new(self.source, body_start + i, body_start + j + other.len_utf8());
+                    let at = Span::new(
+                        self.source,
+                        body_start + i,
+                        body_start + j + other.len_utf8(),
+                    );
                     self.error(unknown_escape(at, other));
                     value.push(other);
                 }
@@ -500,28 +548,22 @@ impl Converter<'_> {
             .find(|p| p.as_rule() == Rule::condition)
             .map(|p| self.condition(p, &mut depth_reported).0);
         let expr = expr.unwrap_or_else(|| empty_condition(span));
+        let span = Span::new(span.source, span.start, expr.span().end);
         Where { expr, span }
     }
 
-    /// `a or b or c`, folded to the left. Returns the expression and its depth.
+    /// `a or b or c` (and `a and b and c`), folded to the left. Returns the expression and
+    /// its depth.
     fn condition(&mut self, pair: Pair<'_, Rule>, reported: &mut bool) -> (Expr, usize) {
-        self.chain(pair, Rule::and_chain, Expr::Or, reported)
-    }
-
-    fn chain(
-        &mut self,
-        pair: Pair<'_, Rule>,
-        operand: Rule,
-        join: fn(Box<Expr>, Box<Expr>) -> Expr,
-        reported: &mut bool,
-    ) -> (Expr, usize) {
         let span = self.span(&pair);
+        let is_or = matches!(pair.as_rule(), Rule::condition | Rule::nl_condition);
+        let join = if is_or { Expr::Or } else { Expr::And };
         let mut acc: Option<(Expr, usize)> = None;
-        for p in pair.into_inner().filter(|p| p.as_rule() == operand) {
-            let next = if operand == Rule::and_chain {
-                self.chain(p, Rule::negation, Expr::And, reported)
-            } else {
-                self.negation(p, reported)
+        for p in pair.into_inner() {
+            let next = match p.as_rule() {
+                Rule::and_chain | Rule::nl_and_chain => self.condition(p, reported),
+                Rule::negation | Rule::nl_negation => self.negation(p, reported),
+                _ => continue,
             };
             acc = Some(match acc {
                 None => next,
@@ -563,8 +605,8 @@ impl Converter<'_> {
             match p.as_rule() {
                 Rule::kw_not => nots.push(p.as_span().start()),
                 Rule::group => inner = Some(self.group(p, reported)),
-                Rule::in_test => inner = Some((self.in_test(p), 1)),
-                Rule::comparison => inner = Some((self.comparison(p), 1)),
+                Rule::in_test | Rule::nl_in_test => inner = Some((self.in_test(p), 1)),
+                Rule::comparison | Rule::nl_comparison => inner = Some((self.comparison(p), 1)),
                 _ => {}
             }
         }
@@ -586,7 +628,7 @@ impl Converter<'_> {
     fn group(&mut self, pair: Pair<'_, Rule>, reported: &mut bool) -> (Expr, usize) {
         let span = self.span(&pair);
         let inner = parts(pair)
-            .find(|p| p.as_rule() == Rule::condition)
+            .find(|p| p.as_rule() == Rule::nl_condition)
             .map(|p| self.condition(p, reported));
         let (inner, depth) = inner.unwrap_or_else(|| (empty_condition(span), 1));
         let depth = depth + 1;
@@ -709,7 +751,10 @@ fn unknown_escape(span: Span, c: char) -> Diagnostic {
     };
     Diagnostic::error("F0003", format!("unknown escape `\\{shown}`"))
         .with_label(span, "not an escape Figura knows")
-        .with_help("strings allow only `\\\"`, `\\\\` and `\\n`; write a backslash as `\\\\`")
+        .with_help(
+            "strings allow only `\\\"`, `\\\\` and `\\n`; write a backslash as `\\\\` \
+             (in file paths, `/` works on every system)",
+        )
 }
 
 fn unknown_unit(span: Span, number: &str, unit: &str) -> Diagnostic {

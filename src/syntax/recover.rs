@@ -45,7 +45,7 @@ impl Expect {
         match self {
             Expect::TopItem => "a `data` or `figure` block or `include`",
             Expect::Statement => "a statement",
-            Expect::Name => "a name",
+            Expect::Name => "a word",
             Expect::BlockName => "a name for the block",
             Expect::BlockPath => "a file path in double quotes",
             Expect::IncludePath => "the path of a file in double quotes",
@@ -268,9 +268,26 @@ pub fn recover(failure: &Failure, cx: &Context) -> Recovery {
     let pos = failure.pos.min(cx.work.len());
     let found = found_at(cx, pos);
     if let Some(s) = cx.scan.unclosed_string_at(pos) {
+        // The string runs to the end of its line. Drop its statement up to there, or all of
+        // it when the statement goes on in a list whose `)` comes later.
+        let scan = cx.scan;
+        let (first, end) = scan.statement_around(pos);
+        let start = scan
+            .toks
+            .get(first)
+            .map_or(s.start, |t| t.start.min(s.start));
+        let list_goes_on = scan.toks[first.min(end)..end]
+            .iter()
+            .any(|t| t.kind == TokKind::LParen && t.start < s.start)
+            && scan.unclosed_parens(first, s.start).is_empty();
+        let stop = if list_goes_on {
+            scan.byte_range(first, end, pos).1
+        } else {
+            s.end
+        };
         return Recovery {
             diagnostic: unclosed_string(cx, s),
-            edit: Some(blank_statement(cx, pos)),
+            edit: Some(Edit::Blank { start, end: stop }),
         };
     }
     match cx.scan.open_block_at(pos) {
@@ -288,13 +305,6 @@ fn unclosed_string(cx: &Context, s: &Tok) -> Diagnostic {
         )
 }
 
-/// Blanks the statement around `pos` (the whole line at the top level).
-fn blank_statement(cx: &Context, pos: usize) -> Edit {
-    let (first, end) = cx.scan.statement_around(pos);
-    let (start, stop) = cx.scan.byte_range(first, end, pos);
-    Edit::Blank { start, end: stop }
-}
-
 // ---------------------------------------------------------------------------------------------
 // Inside a block
 
@@ -303,14 +313,14 @@ fn in_block(failure: &Failure, cx: &Context, found: &Found, open: usize) -> Reco
     let pos = found.start;
     let (first, end) = scan.statement_around(pos);
     match found.kind {
-        None => return at_end_of_file(cx, open, first, pos),
+        None => return at_end_of_file(failure, cx, open, first, pos),
         Some(TokKind::LBrace) => return nested_brace(failure, cx, found, open, first),
         Some(TokKind::RBrace) => {
             let parens = scan.unclosed_parens(first, pos);
             if let Some(&paren) = parens.last() {
                 let start = scan.byte_range(first, end, pos).0;
                 return Recovery {
-                    diagnostic: unclosed_paren(cx, &scan.toks[paren], found),
+                    diagnostic: unclosed_paren(cx, &scan.toks[paren], found, &failure.expected),
                     edit: Some(Edit::Blank { start, end: pos }),
                 };
             }
@@ -337,7 +347,7 @@ fn in_block(failure: &Failure, cx: &Context, found: &Found, open: usize) -> Reco
                 .map_or(cx.work.len(), |t| t.start)
         };
         return Recovery {
-            diagnostic: unclosed_paren(cx, &paren_tok, found),
+            diagnostic: unclosed_paren(cx, &paren_tok, found, &failure.expected),
             edit: Some(Edit::Blank {
                 start: scan.toks[first].start,
                 end: stop,
@@ -353,12 +363,18 @@ fn in_block(failure: &Failure, cx: &Context, found: &Found, open: usize) -> Reco
 }
 
 /// The file ended inside a block: close what is open by appending to the text.
-fn at_end_of_file(cx: &Context, open: usize, first: usize, pos: usize) -> Recovery {
+fn at_end_of_file(
+    failure: &Failure,
+    cx: &Context,
+    open: usize,
+    first: usize,
+    pos: usize,
+) -> Recovery {
     let parens = cx.scan.unclosed_parens(first, pos);
     if let Some(&paren) = parens.last() {
         let found = found_at(cx, pos);
         return Recovery {
-            diagnostic: unclosed_paren(cx, &cx.scan.toks[paren], &found),
+            diagnostic: unclosed_paren(cx, &cx.scan.toks[paren], &found, &failure.expected),
             edit: Some(Edit::Append(")".repeat(parens.len()))),
         };
     }
@@ -380,16 +396,24 @@ fn unclosed_block(cx: &Context, open: usize, next_header: Option<Span>) -> Diagn
     d.with_help("add `}` on its own line after the block's last statement")
 }
 
-fn unclosed_paren(cx: &Context, paren: &Tok, found: &Found) -> Diagnostic {
+fn unclosed_paren(cx: &Context, paren: &Tok, found: &Found, expected: &[Expect]) -> Diagnostic {
     let mut d = Diagnostic::error("F0006", "this `(` is not closed")
         .with_label(cx.tok_span(paren), "this `(` has no matching `)`");
-    if found.kind.is_some() {
+    let phrases = phrases(expected);
+    if found.kind.is_some() && !phrases.is_empty() {
         d = d.with_label(
             cx.span(found.start, found.end),
-            format!("expected `,` or `)` before {}", found.what),
+            format!("expected {} before {}", list(&phrases), found.what),
         );
     }
-    d.with_help("add `)` after the last argument; arguments are separated by `,`")
+    let in_filter = [Expect::Condition, Expect::And, Expect::Or]
+        .iter()
+        .any(|e| expected.contains(e));
+    d.with_help(if in_filter {
+        "add `)` after the last condition inside the parentheses"
+    } else {
+        "add `)` after the last argument; arguments are separated by `,`"
+    })
 }
 
 fn stray_close_paren(cx: &Context, found: &Found) -> Option<Recovery> {
@@ -422,7 +446,8 @@ fn nested_brace(
 ) -> Recovery {
     let scan = cx.scan;
     let brace = found.tok.unwrap_or_else(|| scan.index_at(found.start));
-    if scan.looks_like_header(first, brace) {
+    let kind_word = scan.toks.get(first).map_or("", |t| cx.text(t));
+    if scan.looks_like_header(first, brace) && !is_stray_statement(kind_word) {
         if let Some(slot) = closing_slot(scan, first) {
             let next = cx.span(scan.toks[first].start, found.end);
             return Recovery {
@@ -480,7 +505,10 @@ fn statement_error(failure: &Failure, cx: &Context, found: &Found) -> Diagnostic
     if found.kind == Some(TokKind::Name) && failure.expected.contains(&Expect::FilterValue) {
         return Diagnostic::error(
             "F0016",
-            format!("a filter compares with a string or a number, found {}", found.what),
+            format!(
+                "a filter compares with a string or a number, found {}",
+                found.what
+            ),
         )
         .with_label(cx.span(found.start, found.end), "not a string or a number")
         .with_help(format!("put text values in double quotes: `\"{text}\"`"));
@@ -492,9 +520,12 @@ fn statement_error(failure: &Failure, cx: &Context, found: &Found) -> Diagnostic
             && !glued
             && !failure.expected.contains(&Expect::Condition)
         {
-            return Diagnostic::error("F0018", "the `(` of an option must follow its name directly")
-                .with_label(cx.span(p.end, found.end), "space before `(`")
-                .with_help(format!("remove the space: write `{prev_text}(`"));
+            return Diagnostic::error(
+                "F0018",
+                "the `(` of an option must follow its name directly",
+            )
+            .with_label(cx.span(p.end, found.end), "space before `(`")
+            .with_help(format!("remove the space: write `{prev_text}(`"));
         }
         if found.kind == Some(TokKind::Name) && is_unit(text) && p.kind == TokKind::Number {
             return unit_apart(cx.span(p.start, found.end), prev_text, text);
@@ -524,6 +555,10 @@ fn bad_character(cx: &Context, found: &Found) -> Option<Diagnostic> {
     }
     let scan = cx.scan;
     let text = &cx.work[found.start..found.end];
+    if text == "." {
+        // Part of a badly written number; the general message explains numbers.
+        return None;
+    }
     let span = cx.span(found.start, found.end);
     let prev = scan.tok_before(found.start).map(|(_, t)| *t);
     let next = found
@@ -536,7 +571,7 @@ fn bad_character(cx: &Context, found: &Found) -> Option<Diagnostic> {
             && p.end == found.start
             && matches!(n.kind, TokKind::Name | TokKind::Number);
         if joins_names {
-            let fixed = format!("{}_{}", cx.text(&p), cx.work[n.start..n.end].trim_start_matches('-'));
+            let fixed = hyphenated_name(cx, p.start).replace('-', "_");
             return Some(
                 Diagnostic::error("F0014", "a name cannot contain `-`")
                     .with_label(span, "not allowed in a name")
@@ -547,23 +582,52 @@ fn bad_character(cx: &Context, found: &Found) -> Option<Diagnostic> {
     Some(
         Diagnostic::error("F0014", format!("{} cannot be used here", found.what))
             .with_label(span, "not allowed outside a string")
-            .with_help(
-                "names use letters, digits and `_`; put any other text in double quotes",
-            ),
+            .with_help("names use letters, digits and `_`; put any other text in double quotes"),
     )
 }
 
+/// The run of names, numbers and `-` glued together from `start`, as in `speed-by-medium`.
+fn hyphenated_name<'a>(cx: &Context<'a>, start: usize) -> &'a str {
+    let scan = cx.scan;
+    let mut end = start;
+    for t in &scan.toks[scan.index_at(start)..] {
+        let glued = t.start == end || t.start == start;
+        let part = matches!(t.kind, TokKind::Name | TokKind::Number)
+            || (t.kind == TokKind::Other && &cx.work[t.start..t.end] == "-");
+        if !glued || !part {
+            break;
+        }
+        end = t.end;
+    }
+    &cx.work[start..end]
+}
+
 /// "expected …, found …" with the help that fits what was expected.
+/// The phrases for what was expected, leaving out alternatives that would only confuse.
+fn phrases(expected: &[Expect]) -> Vec<&'static str> {
+    let has = |e: Expect| expected.contains(&e);
+    let redundant = |e: &Expect| match e {
+        // Commas between terms are optional, so "a value" already covers them.
+        Expect::Comma => has(Expect::Value),
+        Expect::EndOfFile => has(Expect::TopItem),
+        // A `:` after the first word is always optional, never the likely fix.
+        Expect::Colon => expected.len() > 1,
+        _ => false,
+    };
+    expected
+        .iter()
+        .filter(|e| !redundant(e))
+        .map(|e| e.phrase())
+        .collect()
+}
+
 fn general(failure: &Failure, cx: &Context, found: &Found) -> Diagnostic {
     let mut expected = failure.expected.clone();
-    if expected.contains(&Expect::Value) {
-        // Commas between terms are optional, so "a value" already covers them.
-        expected.retain(|e| *e != Expect::Comma);
+    if expected.contains(&Expect::BlockPath) && header_kind(cx, found.start) != Some("data") {
+        // Only `data` blocks name a file.
+        expected.retain(|e| *e != Expect::BlockPath);
     }
-    if expected.contains(&Expect::TopItem) {
-        expected.retain(|e| *e != Expect::EndOfFile);
-    }
-    let phrases: Vec<&str> = expected.iter().map(|e| e.phrase()).collect();
+    let phrases = phrases(&expected);
     let message = if phrases.is_empty() {
         format!("unexpected {}", found.what)
     } else {
@@ -579,6 +643,17 @@ fn general(failure: &Failure, cx: &Context, found: &Found) -> Diagnostic {
         .with_help(general_help(&expected, cx, found))
 }
 
+/// The first word of the top-level line around `pos`.
+fn header_kind<'a>(cx: &Context<'a>, pos: usize) -> Option<&'a str> {
+    let (first, _) = cx.scan.statement_around(pos);
+    let t = cx
+        .scan
+        .toks
+        .get(first)
+        .filter(|t| t.kind == TokKind::Name)?;
+    cx.work.get(t.start..t.end)
+}
+
 fn general_help(expected: &[Expect], cx: &Context, found: &Found) -> String {
     let has = |e: Expect| expected.contains(&e);
     let text = cx.work.get(found.start..found.end).unwrap_or("");
@@ -586,6 +661,10 @@ fn general_help(expected: &[Expect], cx: &Context, found: &Found) -> String {
         .scan
         .tok_before(found.start)
         .is_some_and(|(_, t)| t.kind == TokKind::Number && t.end == found.start);
+    let after_comma = cx
+        .scan
+        .tok_before(found.start)
+        .is_some_and(|(_, t)| t.kind == TokKind::Comma);
     let help = if text == "." || (after_number && text.starts_with('.')) {
         "write numbers with digits on both sides of the decimal point, as in `0.5`"
     } else if has(Expect::BlockName) {
@@ -593,6 +672,10 @@ fn general_help(expected: &[Expect], cx: &Context, found: &Found) -> String {
          with a letter or `_`"
     } else if has(Expect::OpenBrace) {
         "put `{` at the end of the block's first line and `}` after its last statement"
+    } else if has(Expect::OpenParen) {
+        "list the values in parentheses, as in `medium in (\"paper\", \"screen\")`"
+    } else if header_kind(cx, found.start) == Some("include") {
+        "an `include` names one file in double quotes; put each `include` on its own line"
     } else if has(Expect::IncludePath) {
         "write the path in double quotes, as in `include \"shared/reading.figura\"`"
     } else if has(Expect::CompareOp) {
@@ -607,10 +690,17 @@ fn general_help(expected: &[Expect], cx: &Context, found: &Found) -> String {
         "join conditions with `and` or `or`; the filter ends at the end of the line"
     } else if has(Expect::Statement) || has(Expect::Name) {
         "a statement starts with a word, as in `title \"...\"` or `speed: ratio`"
+    } else if has(Expect::FilterValue) {
+        "compare with a string in double quotes or a number, as in `session == \"morning\"` or \
+         `age >= 18`"
+    } else if has(Expect::Value) && after_comma {
+        "remove the `,` at the end, or write the value that should follow it"
     } else if has(Expect::StmtEnd) {
         "a statement ends at the end of its line or at `;`; write text in double quotes"
     } else if has(Expect::TopItem) {
         "a file holds `data` and `figure` blocks and `include` lines"
+    } else if has(Expect::Value) {
+        "write a word, a number, a length such as `85mm`, or text in double quotes"
     } else {
         "compare this line with the examples in the language reference"
     };
@@ -650,6 +740,24 @@ fn at_top_level(failure: &Failure, cx: &Context, found: &Found) -> Recovery {
         .get(first)
         .filter(|t| t.kind == TokKind::Name)
         .map(|t| cx.text(t));
+    let at_line_end = matches!(found.kind, Some(TokKind::Newline | TokKind::Comment));
+    if failure.expected.contains(&Expect::OpenBrace) && at_line_end {
+        if let Some(brace) = brace_on_next_line(scan, end) {
+            return Recovery {
+                diagnostic: Diagnostic::error(
+                    "F0001",
+                    "the `{` of a block must be on the same line as its name",
+                )
+                .with_label(cx.tok_span(&brace), "move this `{` up")
+                .with_help("write the block's first line as `figure NAME {`"),
+                edit: Some(Edit::Replace {
+                    start: tail_start(cx, pos),
+                    end: brace.start,
+                    with: "",
+                }),
+            };
+        }
+    }
     let diagnostic = bad_character(cx, found).unwrap_or_else(|| {
         if first_word.is_some_and(is_stray_statement) {
             stray_statement(cx, item_start, line_end)
@@ -703,10 +811,9 @@ fn top_level_edit(
             None => Edit::Append(" {}".to_owned()),
             _ => {
                 let t = scan.toks[scan.index_at(pos)];
-                let stop = if t.kind == TokKind::Comment { t.end } else { t.end.max(pos + 1) };
                 Edit::Replace {
-                    start: pos,
-                    end: stop.min(cx.work.len()),
+                    start: tail_start(cx, pos),
+                    end: t.end.max(pos + 1).min(cx.work.len()),
                     with: "{",
                 }
             }
@@ -741,6 +848,27 @@ fn top_level_edit(
         start,
         end: line_stop,
     }
+}
+
+/// Where an edit of the line break at `pos` must start: at a comment that ends right before
+/// it (editing only the line break would extend the comment over the next line), else `pos`.
+fn tail_start(cx: &Context, pos: usize) -> usize {
+    let idx = cx.scan.index_at(pos);
+    idx.checked_sub(1)
+        .map(|i| cx.scan.toks[i])
+        .filter(|t| {
+            t.kind == TokKind::Comment && t.end <= pos && cx.work[t.end..pos].trim().is_empty()
+        })
+        .map_or(pos, |t| t.start)
+}
+
+/// The `{` that starts the first non-empty line after token `from`, if it does.
+fn brace_on_next_line(scan: &Scan, from: usize) -> Option<Tok> {
+    let rest = scan.toks.get(from..).unwrap_or(&[]);
+    rest.iter()
+        .find(|t| !matches!(t.kind, TokKind::Newline | TokKind::Comment))
+        .filter(|t| t.kind == TokKind::LBrace)
+        .copied()
 }
 
 /// Whether the first non-empty line after token `from` contains a `{`.

@@ -16,7 +16,9 @@ pub enum TokKind {
     /// `-?digits...` with anything number-like or letter-like glued to it (`85mm`, `1e5`).
     Number,
     /// A string; `closed` is false when the line or the file ends first.
-    Str { closed: bool },
+    Str {
+        closed: bool,
+    },
     Comment,
     /// `\n`, `\r\n` or `\r`.
     Newline,
@@ -66,15 +68,6 @@ impl Scan {
     /// Index of the first token that ends after `pos` (the token at or after `pos`).
     pub fn index_at(&self, pos: usize) -> usize {
         self.toks.partition_point(|t| t.end <= pos)
-    }
-
-    /// The token starting exactly at `pos`, if any.
-    pub fn tok_starting_at(&self, pos: usize) -> Option<(usize, &Tok)> {
-        let idx = self.index_at(pos);
-        self.toks
-            .get(idx)
-            .filter(|t| t.start == pos)
-            .map(|t| (idx, t))
     }
 
     /// The last token ending at or before `pos` that is not a comment.
@@ -374,15 +367,24 @@ mod tests {
     fn strings_end_at_the_line_and_respect_escapes() {
         use TokKind::*;
         assert_eq!(kinds(r#""a\"b" x"#), vec![Str { closed: true }, Name]);
-        assert_eq!(kinds("\"abc\nx"), vec![Str { closed: false }, Newline, Name]);
-        assert_eq!(kinds("\"abc\\\nx"), vec![Str { closed: false }, Newline, Name]);
+        assert_eq!(
+            kinds("\"abc\nx"),
+            vec![Str { closed: false }, Newline, Name]
+        );
+        assert_eq!(
+            kinds("\"abc\\\nx"),
+            vec![Str { closed: false }, Newline, Name]
+        );
         assert_eq!(kinds("\"é\\é\""), vec![Str { closed: true }]);
     }
 
     #[test]
     fn numbers_keep_glued_units() {
         use TokKind::*;
-        assert_eq!(kinds("85mm -1.5e3 85 mm"), vec![Number, Number, Number, Name]);
+        assert_eq!(
+            kinds("85mm -1.5e3 85 mm"),
+            vec![Number, Number, Number, Name]
+        );
         assert_eq!(kinds("a-b"), vec![Name, Other, Name]);
     }
 
@@ -408,6 +410,6 @@ mod tests {
         let at_x = text.find('x').unwrap();
         assert_eq!(scan.open_block_at(at_x), Some(2));
         assert_eq!(scan.open_block_at(text.find("figure c").unwrap()), None);
-        assert_eq!(scan.open_block_at(text.len()), Some(10));
+        assert_eq!(scan.open_block_at(text.len()), Some(11));
     }
 }
