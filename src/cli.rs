@@ -13,7 +13,11 @@ use crate::build::{self, BuildOptions, BuildReport};
 use crate::report::{self, MessageFormat};
 
 #[derive(Parser, Debug)]
-#[command(name = "figura", version, about = "Compile checked statistical figures from .figura specs")]
+#[command(
+    name = "figura",
+    version,
+    about = "Compile checked statistical figures from .figura specs"
+)]
 struct Cli {
     #[command(subcommand)]
     command: Command,
@@ -65,7 +69,11 @@ pub fn run(args: impl IntoIterator<Item = OsString>) -> i32 {
         Ok(cli) => cli,
         Err(e) => {
             let _ = e.print();
-            return if e.use_stderr() { EXIT_FAILURE } else { EXIT_OK };
+            return if e.use_stderr() {
+                EXIT_FAILURE
+            } else {
+                EXIT_OK
+            };
         }
     };
     match cli.command {
@@ -75,8 +83,16 @@ pub fn run(args: impl IntoIterator<Item = OsString>) -> i32 {
 }
 
 fn run_build(args: &CommonArgs, out: Option<PathBuf>, check_only: bool) -> i32 {
-    let paths = if args.paths.is_empty() { vec![PathBuf::from(".")] } else { args.paths.clone() };
-    let options = BuildOptions { paths, out, check_only };
+    let paths = if args.paths.is_empty() {
+        vec![PathBuf::from(".")]
+    } else {
+        args.paths.clone()
+    };
+    let options = BuildOptions {
+        paths,
+        out,
+        check_only,
+    };
     let report = match build::build(&options) {
         Ok(r) => r,
         Err(e) => {
@@ -94,7 +110,9 @@ fn run_build(args: &CommonArgs, out: Option<PathBuf>, check_only: bool) -> i32 {
 fn print_diagnostics(report: &BuildReport, format: Format) {
     let format = match format {
         Format::Json => MessageFormat::Json,
-        Format::Human => MessageFormat::Human { colour: std::io::stderr().is_terminal() },
+        Format::Human => MessageFormat::Human {
+            colour: std::io::stderr().is_terminal(),
+        },
     };
     let text = report::render_all(&report.diagnostics, &report.sources, format);
     let mut err = std::io::stderr().lock();

@@ -185,7 +185,10 @@ impl Diagnostic {
 ///
 /// Uses Levenshtein distance on lower-cased text; a candidate qualifies when the distance is at
 /// most a third of the longer length (at least 1). Ties go to the earlier candidate.
-pub fn did_you_mean<'a>(name: &str, candidates: impl IntoIterator<Item = &'a str>) -> Option<&'a str> {
+pub fn did_you_mean<'a>(
+    name: &str,
+    candidates: impl IntoIterator<Item = &'a str>,
+) -> Option<&'a str> {
     let wanted = name.to_lowercase();
     let mut best: Option<(&str, usize)> = None;
     for cand in candidates {

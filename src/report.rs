@@ -31,10 +31,12 @@ pub fn render_all(diags: &[Diagnostic], sources: &SourceMap, format: MessageForm
 
 /// One diagnostic as miette draws it: code, message, the source lines with labels, and help.
 pub fn human(d: &Diagnostic, sources: &SourceMap, colour: bool) -> String {
-    let mut md = MietteDiagnostic::new(d.message.clone()).with_code(d.code).with_severity(match d.severity {
-        Severity::Error => miette::Severity::Error,
-        Severity::Warning => miette::Severity::Warning,
-    });
+    let mut md = MietteDiagnostic::new(d.message.clone())
+        .with_code(d.code)
+        .with_severity(match d.severity {
+            Severity::Error => miette::Severity::Error,
+            Severity::Warning => miette::Severity::Warning,
+        });
     if let Some(help) = &d.help {
         md = md.with_help(help.clone());
     }
@@ -54,19 +56,31 @@ pub fn human(d: &Diagnostic, sources: &SourceMap, colour: bool) -> String {
         })
         .collect();
     md = md.with_labels(labels);
-    let theme = if colour { GraphicalTheme::unicode() } else { GraphicalTheme::unicode_nocolor() };
+    let theme = if colour {
+        GraphicalTheme::unicode()
+    } else {
+        GraphicalTheme::unicode_nocolor()
+    };
     let handler = GraphicalReportHandler::new_themed(theme).with_width(100);
     let mut text = String::new();
     let result = match source_id {
         Some(id) => {
             let file = sources.get(id);
-            let report = miette::Report::new(md).with_source_code(NamedSource::new(file.path.display().to_string(), file.text.clone()));
+            let report = miette::Report::new(md).with_source_code(NamedSource::new(
+                file.path.display().to_string(),
+                file.text.clone(),
+            ));
             handler.render_report(&mut text, report.as_ref())
         }
         None => handler.render_report(&mut text, &md),
     };
     if result.is_err() {
-        text = format!("{}[{}]: {}\n", if d.is_error() { "error" } else { "warning" }, d.code, d.message);
+        text = format!(
+            "{}[{}]: {}\n",
+            if d.is_error() { "error" } else { "warning" },
+            d.code,
+            d.message
+        );
     }
     if let (None, Some(file)) = (source_id, &d.file) {
         text.push_str(&format!("  in {}\n", file.display()));
@@ -74,7 +88,11 @@ pub fn human(d: &Diagnostic, sources: &SourceMap, colour: bool) -> String {
     // Labels in other files (e.g. a declaration in an included file) are listed by location.
     for l in d.labels.iter().filter(|l| Some(l.span.source) != source_id) {
         let (line, col) = sources.line_col(l.span.source, l.span.start);
-        text.push_str(&format!("  note: {} ({}:{line}:{col})\n", l.text, sources.path(l.span.source).display()));
+        text.push_str(&format!(
+            "  note: {} ({}:{line}:{col})\n",
+            l.text,
+            sources.path(l.span.source).display()
+        ));
     }
     text
 }
@@ -128,11 +146,14 @@ pub fn json(d: &Diagnostic, sources: &SourceMap) -> String {
         severity: if d.is_error() { "error" } else { "warning" },
         code: d.code,
         message: &d.message,
-        file: first.map(|l| l.file.clone()).or_else(|| d.file.as_ref().map(|f| f.display().to_string())),
+        file: first
+            .map(|l| l.file.clone())
+            .or_else(|| d.file.as_ref().map(|f| f.display().to_string())),
         line: first.map(|l| l.line),
         column: first.map(|l| l.column),
         labels,
         help: d.help.as_deref(),
     };
-    serde_json::to_string(&obj).unwrap_or_else(|e| format!("{{\"severity\":\"error\",\"message\":\"{e}\"}}"))
+    serde_json::to_string(&obj)
+        .unwrap_or_else(|e| format!("{{\"severity\":\"error\",\"message\":\"{e}\"}}"))
 }

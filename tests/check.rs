@@ -21,7 +21,12 @@ fn run(path: &Path) -> (Vec<Diagnostic>, SourceMap) {
         Ok(ast) => ast,
         Err(diags) => panic!("{} does not parse: {diags:?}", path.display()),
     };
-    let unit = SpecUnit { path: path.to_path_buf(), ast, sees: Vec::new(), build_figures: true };
+    let unit = SpecUnit {
+        path: path.to_path_buf(),
+        ast,
+        sees: Vec::new(),
+        build_figures: true,
+    };
     let (_, diags) = check(&[unit]);
     (diags, sources)
 }
@@ -33,7 +38,12 @@ fn render(diags: &[Diagnostic], sources: &SourceMap) -> String {
         let span = d.span().expect("every checker diagnostic has a span");
         let (l1, c1) = sources.line_col(span.source, span.start);
         let (l2, c2) = sources.line_col(span.source, span.end);
-        out.push_str(&format!("{} {l1}:{c1}-{l2}:{c2} {} `{}`\n", d.code, d.message, sources.slice(span)));
+        out.push_str(&format!(
+            "{} {l1}:{c1}-{l2}:{c2} {} `{}`\n",
+            d.code,
+            d.message,
+            sources.slice(span)
+        ));
         if let Some(h) = &d.help {
             out.push_str(&format!("  help: {h}\n"));
         }
@@ -51,7 +61,11 @@ fn cases(folder: &str) -> Vec<std::path::PathBuf> {
 fn rejected_cases_report_their_errors_at_the_right_place() {
     for path in cases("err") {
         let (diags, sources) = run(&path);
-        assert!(diags.iter().any(Diagnostic::is_error), "{} was accepted", path.display());
+        assert!(
+            diags.iter().any(Diagnostic::is_error),
+            "{} was accepted",
+            path.display()
+        );
         common::expect_file(&path.with_extension("expected"), &render(&diags, &sources));
     }
 }
@@ -60,7 +74,12 @@ fn rejected_cases_report_their_errors_at_the_right_place() {
 fn warned_cases_build_with_a_warning() {
     for path in cases("warn") {
         let (diags, sources) = run(&path);
-        assert!(!diags.iter().any(Diagnostic::is_error), "{} has errors: {}", path.display(), render(&diags, &sources));
+        assert!(
+            !diags.iter().any(Diagnostic::is_error),
+            "{} has errors: {}",
+            path.display(),
+            render(&diags, &sources)
+        );
         assert!(!diags.is_empty(), "{} gave no warning", path.display());
         common::expect_file(&path.with_extension("expected"), &render(&diags, &sources));
     }
@@ -70,7 +89,12 @@ fn warned_cases_build_with_a_warning() {
 fn near_misses_are_accepted_without_warnings() {
     for path in cases("ok") {
         let (diags, sources) = run(&path);
-        assert!(diags.is_empty(), "{} was not accepted cleanly:\n{}", path.display(), render(&diags, &sources));
+        assert!(
+            diags.is_empty(),
+            "{} was not accepted cleanly:\n{}",
+            path.display(),
+            render(&diags, &sources)
+        );
     }
 }
 
@@ -83,8 +107,8 @@ fn every_rule_of_the_contract_has_a_rejected_case() {
         .map(|p| std::fs::read_to_string(p.with_extension("expected")).unwrap_or_default())
         .collect();
     for code in [
-        "F0101", "F0102", "F0103", "F0104", "F0105", "F0106", "F0107", "F0108", "F0110", "F0111", "F0112", "F0113",
-        "F0115", "F0116",
+        "F0101", "F0102", "F0103", "F0104", "F0105", "F0106", "F0107", "F0108", "F0110", "F0111",
+        "F0112", "F0113", "F0115", "F0116",
     ] {
         assert!(all.contains(code), "no rejected case produces {code}");
     }

@@ -35,8 +35,10 @@ pub fn find_specs(paths: &[PathBuf]) -> Result<Vec<PathBuf>, BuildError> {
 }
 
 fn walk(dir: &Path, out: &mut Vec<PathBuf>) -> Result<(), BuildError> {
-    let mut entries: Vec<PathBuf> =
-        fs::read_dir(dir).map_err(|e| BuildError::io(dir, e))?.filter_map(|e| e.ok().map(|e| e.path())).collect();
+    let mut entries: Vec<PathBuf> = fs::read_dir(dir)
+        .map_err(|e| BuildError::io(dir, e))?
+        .filter_map(|e| e.ok().map(|e| e.path()))
+        .collect();
     entries.sort();
     for path in entries {
         let name = path.file_name().and_then(|n| n.to_str()).unwrap_or("");
@@ -59,8 +61,16 @@ pub struct Loaded {
 
 /// Reads and parses every root spec and, transitively, every file it includes.
 pub fn load(roots: &[PathBuf], sources: &mut SourceMap) -> Result<Loaded, BuildError> {
-    let mut loader = Loader { units: Vec::new(), by_path: BTreeMap::new(), loading: Vec::new(), diags: Vec::new() };
-    let root_idx: Vec<Option<usize>> = roots.iter().map(|r| loader.file(r, sources)).collect::<Result<_, _>>()?;
+    let mut loader = Loader {
+        units: Vec::new(),
+        by_path: BTreeMap::new(),
+        loading: Vec::new(),
+        diags: Vec::new(),
+    };
+    let root_idx: Vec<Option<usize>> = roots
+        .iter()
+        .map(|r| loader.file(r, sources))
+        .collect::<Result<_, _>>()?;
     for idx in root_idx.into_iter().flatten() {
         loader.units[idx].build_figures = true;
     }
@@ -77,7 +87,10 @@ pub fn load(roots: &[PathBuf], sources: &mut SourceMap) -> Result<Loaded, BuildE
         }
         unit.sees = (0..direct.len()).filter(|&j| seen[j]).collect();
     }
-    Ok(Loaded { units: loader.units, diags: loader.diags })
+    Ok(Loaded {
+        units: loader.units,
+        diags: loader.diags,
+    })
 }
 
 struct Loader {
@@ -102,7 +115,12 @@ impl Loader {
         result
     }
 
-    fn parse_file(&mut self, path: &Path, key: PathBuf, sources: &mut SourceMap) -> Result<Option<usize>, BuildError> {
+    fn parse_file(
+        &mut self,
+        path: &Path,
+        key: PathBuf,
+        sources: &mut SourceMap,
+    ) -> Result<Option<usize>, BuildError> {
         let text = read_spec(path)?;
         let id = sources.add(path, text);
         let ast = match syntax::parse(id, sources.text(id)) {
@@ -122,15 +140,23 @@ impl Loader {
                 Item::Block(_) => None,
             })
             .collect();
-        self.units.push(SpecUnit { path: path.to_path_buf(), ast, sees: Vec::new(), build_figures: false });
+        self.units.push(SpecUnit {
+            path: path.to_path_buf(),
+            ast,
+            sees: Vec::new(),
+            build_figures: false,
+        });
         let dir = path.parent().unwrap_or(Path::new("."));
         for inc in includes {
             let target = dir.join(&inc.path.value);
             if !target.is_file() {
                 self.diags.push(
-                    Diagnostic::error(codes::INCLUDE_MISSING, format!("included file \"{}\" was not found", inc.path.value))
-                        .with_label(inc.path.span, "no such file")
-                        .with_help("include paths are relative to the file that includes them"),
+                    Diagnostic::error(
+                        codes::INCLUDE_MISSING,
+                        format!("included file \"{}\" was not found", inc.path.value),
+                    )
+                    .with_label(inc.path.span, "no such file")
+                    .with_help("include paths are relative to the file that includes them"),
                 );
                 continue;
             }
@@ -163,6 +189,10 @@ fn read_spec(path: &Path) -> Result<String, BuildError> {
     }
     let bytes = fs::read(path).map_err(|e| BuildError::io(path, e))?;
     String::from_utf8(bytes).map_err(|e| {
-        BuildError::Limit(format!("{} is not UTF-8 text (first bad byte at offset {})", path.display(), e.utf8_error().valid_up_to()))
+        BuildError::Limit(format!(
+            "{} is not UTF-8 text (first bad byte at offset {})",
+            path.display(),
+            e.utf8_error().valid_up_to()
+        ))
     })
 }

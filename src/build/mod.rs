@@ -24,7 +24,10 @@ pub use write::write_atomic;
 /// A failure that is not a diagnostic of a spec or data file: an I/O error or a limit.
 #[derive(Debug)]
 pub enum BuildError {
-    Io { path: PathBuf, message: String },
+    Io {
+        path: PathBuf,
+        message: String,
+    },
     Limit(String),
     /// A broken promise between stages.
     Internal(String),
@@ -32,7 +35,10 @@ pub enum BuildError {
 
 impl BuildError {
     pub fn io(path: &Path, e: std::io::Error) -> Self {
-        BuildError::Io { path: path.to_path_buf(), message: e.to_string() }
+        BuildError::Io {
+            path: path.to_path_buf(),
+            message: e.to_string(),
+        }
     }
 }
 
@@ -124,7 +130,10 @@ pub fn build(options: &BuildOptions) -> Result<BuildReport, BuildError> {
 }
 
 /// Reads every data file that some figure uses, once.
-fn read_tables(program: &Program, report: &mut BuildReport) -> Result<BTreeMap<usize, Result<Table, ()>>, BuildError> {
+fn read_tables(
+    program: &Program,
+    report: &mut BuildReport,
+) -> Result<BTreeMap<usize, Result<Table, ()>>, BuildError> {
     let mut tables = BTreeMap::new();
     for plan in &program.figures {
         if tables.contains_key(&plan.data) {
@@ -158,10 +167,13 @@ pub fn table_spec(book: &Codebook) -> TableSpec {
                 decl_span: v.span,
                 kind: match v.scale {
                     Scale::Id => ColumnKind::Id,
-                    Scale::Nominal | Scale::Ordinal => {
-                        ColumnKind::Categorical { levels: v.levels.clone(), ordered: v.scale == Scale::Ordinal }
-                    }
-                    Scale::Interval | Scale::Ratio => ColumnKind::Numeric { ratio: v.scale == Scale::Ratio },
+                    Scale::Nominal | Scale::Ordinal => ColumnKind::Categorical {
+                        levels: v.levels.clone(),
+                        ordered: v.scale == Scale::Ordinal,
+                    },
+                    Scale::Interval | Scale::Ratio => ColumnKind::Numeric {
+                        ratio: v.scale == Scale::Ratio,
+                    },
                 },
             })
             .collect(),
@@ -175,26 +187,41 @@ pub enum FigureError {
 }
 
 /// Computes, lays out and renders one figure into its output files (in memory).
-pub fn render_figure(plan: &FigurePlan, book: &Codebook, table: &Table) -> Result<FigureOutputs, FigureError> {
+pub fn render_figure(
+    plan: &FigurePlan,
+    book: &Codebook,
+    table: &Table,
+) -> Result<FigureOutputs, FigureError> {
     let numbers = compute::compute(plan, book, table).map_err(|e| match e {
         ComputeError::Data(d) => FigureError::Data(d),
         ComputeError::Internal(m) => FigureError::Build(BuildError::Internal(m)),
     })?;
     let scene = layout::layout(plan, &numbers);
-    let rendered = export::render(&scene).map_err(|e| FigureError::Build(BuildError::Internal(e.to_string())))?;
+    let rendered = export::render(&scene)
+        .map_err(|e| FigureError::Build(BuildError::Internal(e.to_string())))?;
     let mut files = Vec::new();
     if plan.formats.svg {
-        files.push((format!("{}.svg", plan.name), rendered.svg().as_bytes().to_vec()));
+        files.push((
+            format!("{}.svg", plan.name),
+            rendered.svg().as_bytes().to_vec(),
+        ));
     }
     if plan.formats.png {
-        let png = rendered.png(f64::from(plan.dpi)).map_err(|e| FigureError::Build(BuildError::Limit(e.to_string())))?;
+        let png = rendered
+            .png(f64::from(plan.dpi))
+            .map_err(|e| FigureError::Build(BuildError::Limit(e.to_string())))?;
         files.push((format!("{}.png", plan.name), png));
     }
     if plan.formats.pdf {
-        let pdf = rendered.pdf().map_err(|e| FigureError::Build(BuildError::Internal(e.to_string())))?;
+        let pdf = rendered
+            .pdf()
+            .map_err(|e| FigureError::Build(BuildError::Internal(e.to_string())))?;
         files.push((format!("{}.pdf", plan.name), pdf));
     }
-    files.push((format!("{}.summary.csv", plan.name), compute::summary::to_csv(&numbers.summary).into_bytes()));
+    files.push((
+        format!("{}.summary.csv", plan.name),
+        compute::summary::to_csv(&numbers.summary).into_bytes(),
+    ));
     Ok(FigureOutputs { files })
 }
 
@@ -202,6 +229,10 @@ pub fn render_figure(plan: &FigurePlan, book: &Codebook, table: &Table) -> Resul
 pub fn output_dir(plan: &FigurePlan, out: Option<&Path>) -> PathBuf {
     match out {
         Some(dir) => dir.to_path_buf(),
-        None => plan.spec_path.parent().unwrap_or(Path::new(".")).join("out"),
+        None => plan
+            .spec_path
+            .parent()
+            .unwrap_or(Path::new("."))
+            .join("out"),
     }
 }

@@ -13,7 +13,10 @@ use super::BuildError;
 pub fn write_atomic(path: &Path, bytes: &[u8]) -> Result<(), BuildError> {
     let dir = path.parent().unwrap_or(Path::new("."));
     fs::create_dir_all(dir).map_err(|e| BuildError::io(dir, e))?;
-    let name = path.file_name().and_then(|n| n.to_str()).unwrap_or("output");
+    let name = path
+        .file_name()
+        .and_then(|n| n.to_str())
+        .unwrap_or("output");
     let tmp = dir.join(format!(".{name}.{}.tmp", std::process::id()));
     let result = (|| {
         let mut f = fs::File::create(&tmp)?;

@@ -13,12 +13,22 @@ const SCALES: [&str; 5] = ["id", "nominal", "ordinal", "interval", "ratio"];
 const DATA_STATEMENTS: [&str; 5] = ["missing", "subject", "within", "between", "replicates"];
 
 /// Checks one `data` block; `spec_dir` is the folder of the spec file that declares it.
-pub fn check_data_block(block: &Block, spec_dir: &Path, diags: &mut Vec<Diagnostic>) -> Option<Codebook> {
+pub fn check_data_block(
+    block: &Block,
+    spec_dir: &Path,
+    diags: &mut Vec<Diagnostic>,
+) -> Option<Codebook> {
     let Some(path) = &block.path else {
         diags.push(
-            Diagnostic::error(codes::MISSING_STATEMENT, format!("data block `{}` names no file", block.name.name))
-                .with_label(block.name.span, "which file?")
-                .with_help(format!("write `data {} \"file.csv\" {{ ... }}`", block.name.name)),
+            Diagnostic::error(
+                codes::MISSING_STATEMENT,
+                format!("data block `{}` names no file", block.name.name),
+            )
+            .with_label(block.name.span, "which file?")
+            .with_help(format!(
+                "write `data {} \"file.csv\" {{ ... }}`",
+                block.name.name
+            )),
         );
         return None;
     };
@@ -49,12 +59,17 @@ pub fn check_data_block(block: &Block, spec_dir: &Path, diags: &mut Vec<Diagnost
                     book.missing = list;
                 }
             }
-            Statement::Plain(p) if DATA_STATEMENTS.contains(&p.head.name.as_str()) => design.push(p),
+            Statement::Plain(p) if DATA_STATEMENTS.contains(&p.head.name.as_str()) => {
+                design.push(p)
+            }
             Statement::Plain(p) => diags.push(unknown_statement(&p.head)),
             Statement::Where(w) => diags.push(
-                Diagnostic::error(codes::UNKNOWN_STATEMENT, "`where` belongs in a figure, not in a data block")
-                    .with_label(w.span, "not allowed here")
-                    .with_help("move the filter into the figure that should show a subset"),
+                Diagnostic::error(
+                    codes::UNKNOWN_STATEMENT,
+                    "`where` belongs in a figure, not in a data block",
+                )
+                .with_label(w.span, "not allowed here")
+                .with_help("move the filter into the figure that should show a subset"),
             ),
         }
     }
@@ -70,9 +85,12 @@ fn missing_list(p: &Plain, diags: &mut Vec<Diagnostic>) -> Option<Vec<String>> {
         (Some(args), true) => terms::string_list(args, shape, diags),
         _ => {
             diags.push(
-                Diagnostic::error(codes::BAD_ARGUMENT, "`missing` takes its markers in parentheses")
-                    .with_label(p.span, "here")
-                    .with_help(format!("write `{shape}`")),
+                Diagnostic::error(
+                    codes::BAD_ARGUMENT,
+                    "`missing` takes its markers in parentheses",
+                )
+                .with_label(p.span, "here")
+                .with_help(format!("write `{shape}`")),
             );
             None
         }
@@ -103,13 +121,18 @@ fn repeated(head: &Ident, first: Span) -> Diagnostic {
 /// `name: scale options...`
 fn declare(book: &mut Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) {
     let Some(target) = &p.target else { return };
-    let Some(scale) = scale_of(&p.head, diags) else { return };
+    let Some(scale) = scale_of(&p.head, diags) else {
+        return;
+    };
     if let Some(prev) = book.find(&target.name) {
         diags.push(
-            Diagnostic::error(codes::DUPLICATE_NAME, format!("variable `{}` is declared twice", target.name))
-                .with_label(target.span, "declared again here")
-                .with_label(book.var(prev).span, "first declared here")
-                .with_help("give each variable one declaration"),
+            Diagnostic::error(
+                codes::DUPLICATE_NAME,
+                format!("variable `{}` is declared twice", target.name),
+            )
+            .with_label(target.span, "declared again here")
+            .with_label(book.var(prev).span, "first declared here")
+            .with_help("give each variable one declaration"),
         );
         return;
     }
@@ -119,7 +142,15 @@ fn declare(book: &mut Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) {
         &["label", "unit", "column"]
     };
     let what = format!("a {} variable", scale.as_str());
-    let opts = terms::options(&p.terms, &Accepts { what: &what, calls, flags: &[] }, diags);
+    let opts = terms::options(
+        &p.terms,
+        &Accepts {
+            what: &what,
+            calls,
+            flags: &[],
+        },
+        diags,
+    );
     let mut var = Variable {
         name: target.name.clone(),
         column: target.name.clone(),
@@ -145,7 +176,12 @@ fn declare(book: &mut Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) {
         var.levels = checked_levels(c, diags);
     }
     if let Some(c) = opts.call("labels") {
-        var.labels = checked_labels(c, var.levels.as_ref(), opts.call("levels").map(|l| l.span), diags);
+        var.labels = checked_labels(
+            c,
+            var.levels.as_ref(),
+            opts.call("levels").map(|l| l.span),
+            diags,
+        );
     }
     if scale == Scale::Ordinal && opts.call("levels").is_none() {
         diags.push(
@@ -165,10 +201,15 @@ fn scale_of(head: &Ident, diags: &mut Vec<Diagnostic>) -> Option<Scale> {
         "interval" => Scale::Interval,
         "ratio" => Scale::Ratio,
         other => {
-            let d = Diagnostic::error(codes::UNKNOWN_SCALE, format!("`{other}` is not a level of measurement"))
-                .with_label(head.span, "unknown scale");
+            let d = Diagnostic::error(
+                codes::UNKNOWN_SCALE,
+                format!("`{other}` is not a level of measurement"),
+            )
+            .with_label(head.span, "unknown scale");
             let help = match did_you_mean(other, SCALES.iter().copied()) {
-                Some(s) => format!("did you mean `{s}`? The scales are id, nominal, ordinal, interval and ratio"),
+                Some(s) => format!(
+                    "did you mean `{s}`? The scales are id, nominal, ordinal, interval and ratio"
+                ),
                 None => "the scales are id, nominal, ordinal, interval and ratio".to_string(),
             };
             diags.push(d.with_help(help));
@@ -178,12 +219,19 @@ fn scale_of(head: &Ident, diags: &mut Vec<Diagnostic>) -> Option<Scale> {
     Some(scale)
 }
 
-fn one_string_arg(c: &crate::syntax::ast::Call, shape: &str, diags: &mut Vec<Diagnostic>) -> Option<String> {
+fn one_string_arg(
+    c: &crate::syntax::ast::Call,
+    shape: &str,
+    diags: &mut Vec<Diagnostic>,
+) -> Option<String> {
     let term = terms::single(c, shape, diags)?;
     terms::expect_str(term, shape, diags).map(|s| s.value.clone())
 }
 
-fn checked_levels(c: &crate::syntax::ast::Call, diags: &mut Vec<Diagnostic>) -> Option<Vec<String>> {
+fn checked_levels(
+    c: &crate::syntax::ast::Call,
+    diags: &mut Vec<Diagnostic>,
+) -> Option<Vec<String>> {
     let list = terms::level_list(&c.args, "levels(\"a\", \"b\")", diags)?;
     if list.is_empty() {
         diags.push(
@@ -196,10 +244,13 @@ fn checked_levels(c: &crate::syntax::ast::Call, diags: &mut Vec<Diagnostic>) -> 
     for (i, (name, span)) in list.iter().enumerate() {
         if let Some((_, first)) = list[..i].iter().find(|(n, _)| n == name) {
             diags.push(
-                Diagnostic::error(codes::LEVELS_MISMATCH, format!("level \"{name}\" is listed twice"))
-                    .with_label(*span, "listed again here")
-                    .with_label(*first, "first listed here")
-                    .with_help("list each level once"),
+                Diagnostic::error(
+                    codes::LEVELS_MISMATCH,
+                    format!("level \"{name}\" is listed twice"),
+                )
+                .with_label(*span, "listed again here")
+                .with_label(*first, "first listed here")
+                .with_help("list each level once"),
             );
             return None;
         }
@@ -230,9 +281,12 @@ fn checked_labels(
         }
         _ => {
             diags.push(
-                Diagnostic::error(codes::LEVELS_MISMATCH, "`labels(...)` needs `levels(...)` to say which label is which")
-                    .with_label(c.span, "labels without levels")
-                    .with_help("add `levels(...)` listing the values as they appear in the data"),
+                Diagnostic::error(
+                    codes::LEVELS_MISMATCH,
+                    "`labels(...)` needs `levels(...)` to say which label is which",
+                )
+                .with_label(c.span, "labels without levels")
+                .with_help("add `levels(...)` listing the values as they appear in the data"),
             );
             None
         }
@@ -248,18 +302,30 @@ fn apply_design(book: &mut Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) {
                     Diagnostic::error(codes::REPEATED, "`subject` is given twice")
                         .with_label(p.head.span, "given again here")
                         .with_label(book.var(first).span, "the subject declared first")
-                        .with_help("a data block has one kind of observational unit; keep one `subject`"),
+                        .with_help(
+                            "a data block has one kind of observational unit; keep one `subject`",
+                        ),
                 );
                 return;
             }
-            let Some(name) = terms::one_word(p, "subject participant", diags) else { return };
-            let Some(id) = resolve(book, name, diags) else { return };
+            let Some(name) = terms::one_word(p, "subject participant", diags) else {
+                return;
+            };
+            let Some(id) = resolve(book, name, diags) else {
+                return;
+            };
             if book.var(id).scale != Scale::Id {
                 diags.push(
-                    Diagnostic::error(codes::BAD_DESIGN, format!("the subject `{}` must be an id variable", name.name))
-                        .with_label(name.span, format!("declared {}", book.var(id).scale.as_str()))
-                        .with_label(book.var(id).span, "declared here")
-                        .with_help(format!("declare it as `{}: id`", name.name)),
+                    Diagnostic::error(
+                        codes::BAD_DESIGN,
+                        format!("the subject `{}` must be an id variable", name.name),
+                    )
+                    .with_label(
+                        name.span,
+                        format!("declared {}", book.var(id).scale.as_str()),
+                    )
+                    .with_label(book.var(id).span, "declared here")
+                    .with_help(format!("declare it as `{}: id`", name.name)),
                 );
                 return;
             }
@@ -267,15 +333,22 @@ fn apply_design(book: &mut Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) {
         }
         "within" | "between" => {
             for term in &p.terms {
-                let Some(name) = terms::expect_word(term, "within medium, session", diags) else { continue };
-                let Some(id) = resolve(book, name, diags) else { continue };
+                let Some(name) = terms::expect_word(term, "within medium, session", diags) else {
+                    continue;
+                };
+                let Some(id) = resolve(book, name, diags) else {
+                    continue;
+                };
                 add_factor(book, p.head.name == "within", id, name, diags);
             }
             if p.terms.is_empty() {
                 diags.push(
-                    Diagnostic::error(codes::BAD_ARGUMENT, format!("`{}` needs at least one factor", p.head.name))
-                        .with_label(p.head.span, "no factor")
-                        .with_help(format!("write `{} factor1, factor2`", p.head.name)),
+                    Diagnostic::error(
+                        codes::BAD_ARGUMENT,
+                        format!("`{}` needs at least one factor", p.head.name),
+                    )
+                    .with_label(p.head.span, "no factor")
+                    .with_help(format!("write `{} factor1, factor2`", p.head.name)),
                 );
             }
         }
@@ -284,18 +357,35 @@ fn apply_design(book: &mut Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) {
     }
 }
 
-fn add_factor(book: &mut Codebook, within: bool, id: VarId, name: &Ident, diags: &mut Vec<Diagnostic>) {
+fn add_factor(
+    book: &mut Codebook,
+    within: bool,
+    id: VarId,
+    name: &Ident,
+    diags: &mut Vec<Diagnostic>,
+) {
     let var = book.var(id);
     if !var.scale.is_categorical() {
         diags.push(
-            Diagnostic::error(codes::BAD_DESIGN, format!("factor `{}` must be nominal or ordinal", name.name))
-                .with_label(name.span, format!("declared {}", var.scale.as_str()))
-                .with_help("a factor's levels are conditions or groups; declare it nominal or ordinal"),
+            Diagnostic::error(
+                codes::BAD_DESIGN,
+                format!("factor `{}` must be nominal or ordinal", name.name),
+            )
+            .with_label(name.span, format!("declared {}", var.scale.as_str()))
+            .with_help("a factor's levels are conditions or groups; declare it nominal or ordinal"),
         );
         return;
     }
-    let (this, other) = if within { ("within", "between") } else { ("between", "within") };
-    let in_other = if within { book.is_between(id) } else { book.is_within(id) };
+    let (this, other) = if within {
+        ("within", "between")
+    } else {
+        ("between", "within")
+    };
+    let in_other = if within {
+        book.is_between(id)
+    } else {
+        book.is_within(id)
+    };
     if in_other {
         diags.push(
             Diagnostic::error(codes::BAD_DESIGN, format!("`{}` cannot be both a within and a between factor", name.name))
@@ -304,7 +394,11 @@ fn add_factor(book: &mut Codebook, within: bool, id: VarId, name: &Ident, diags:
         );
         return;
     }
-    let list = if within { &mut book.within } else { &mut book.between };
+    let list = if within {
+        &mut book.within
+    } else {
+        &mut book.between
+    };
     if !list.contains(&id) {
         list.push(id);
     }
@@ -314,19 +408,30 @@ fn replicates(book: &mut Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) {
     let shape = "replicates trial collapse(mean)";
     let Some(Term::Word(name)) = p.terms.first() else {
         diags.push(
-            Diagnostic::error(codes::BAD_ARGUMENT, "`replicates` needs the variable that numbers the trials")
-                .with_label(p.head.span, "which variable?")
-                .with_help(format!("write `{shape}`")),
+            Diagnostic::error(
+                codes::BAD_ARGUMENT,
+                "`replicates` needs the variable that numbers the trials",
+            )
+            .with_label(p.head.span, "which variable?")
+            .with_help(format!("write `{shape}`")),
         );
         return;
     };
-    let Some(id) = resolve(book, name, diags) else { return };
-    let accepts = Accepts { what: "`replicates`", calls: &["collapse"], flags: &[] };
+    let Some(id) = resolve(book, name, diags) else {
+        return;
+    };
+    let accepts = Accepts {
+        what: "`replicates`",
+        calls: &["collapse"],
+        flags: &[],
+    };
     let opts = terms::options(&p.terms[1..], &accepts, diags);
     let collapse = match opts.call("collapse") {
         None => Collapse::Mean,
         Some(c) => {
-            let Some(t) = terms::single(c, "collapse(mean)", diags) else { return };
+            let Some(t) = terms::single(c, "collapse(mean)", diags) else {
+                return;
+            };
             match terms::expect_choice(t, &["mean", "median"], "collapse(mean)", diags) {
                 Some(w) if w.name == "median" => Collapse::Median,
                 Some(_) => Collapse::Mean,
@@ -338,7 +443,11 @@ fn replicates(book: &mut Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) {
         diags.push(repeated(&p.head, p.head.span));
         return;
     }
-    book.replicates = Some(Replicates { var: id, collapse, span: p.span });
+    book.replicates = Some(Replicates {
+        var: id,
+        collapse,
+        span: p.span,
+    });
 }
 
 /// Looks up a variable, reporting an unknown name with the closest declared one.

@@ -10,7 +10,8 @@ use super::codes;
 use super::filter::check_filter;
 use super::layers::{self, LayerKind, RawLayer};
 use super::plan::{
-    AxisScale, CatAxis, CatVar, Codebook, FigurePlan, Filter, Formats, LevelOrder, NumAxis, NumVar, Scale,
+    AxisScale, CatAxis, CatVar, Codebook, FigurePlan, Filter, Formats, LevelOrder, NumAxis, NumVar,
+    Scale,
 };
 use super::terms::{self, Accepts};
 
@@ -55,48 +56,83 @@ pub fn check_figure(
     let errors_before = count_errors(diags);
     let Some(from) = parts.from else {
         diags.push(
-            Diagnostic::error(codes::MISSING_STATEMENT, format!("figure `{}` does not say which data to show", block.name.name))
-                .with_label(block.name.span, "no `from`")
-                .with_help("add `from NAME`, naming a data block"),
+            Diagnostic::error(
+                codes::MISSING_STATEMENT,
+                format!(
+                    "figure `{}` does not say which data to show",
+                    block.name.name
+                ),
+            )
+            .with_label(block.name.span, "no `from`")
+            .with_help("add `from NAME`, naming a data block"),
         );
         return None;
     };
     let (data_idx, book) = resolve_data(from, visible, diags)?;
     let mut plan_parts = Resolved::default();
-    plan_parts.title = parts.title.and_then(|p| terms::one_string(p, "title \"...\"", diags)).map(|s| s.value.clone());
-    plan_parts.caption = parts.caption.and_then(|p| terms::one_string(p, "caption \"...\"", diags)).map(|s| s.value.clone());
+    plan_parts.title = parts
+        .title
+        .and_then(|p| terms::one_string(p, "title \"...\"", diags))
+        .map(|s| s.value.clone());
+    plan_parts.caption = parts
+        .caption
+        .and_then(|p| terms::one_string(p, "caption \"...\"", diags))
+        .map(|s| s.value.clone());
     let x = parts.x.and_then(|p| axis_var(book, p, diags));
     let y = parts.y.map(|p| axis_var(book, p, diags));
     let colour = parts.colour.and_then(|p| grouping(book, p, diags));
     let panels = parts.panels.and_then(|p| grouping(book, p, diags));
-    let (width_mm, height_mm) = parts.size.map_or(Some(DEFAULT_SIZE_MM), |p| size(p, diags))?;
-    let formats = parts.formats.map_or(Some(Formats { svg: true, png: true, pdf: false }), |p| formats(p, diags))?;
+    let (width_mm, height_mm) = parts
+        .size
+        .map_or(Some(DEFAULT_SIZE_MM), |p| size(p, diags))?;
+    let formats = parts.formats.map_or(
+        Some(Formats {
+            svg: true,
+            png: true,
+            pdf: false,
+        }),
+        |p| formats(p, diags),
+    )?;
     let dpi = parts.dpi.map_or(Some(DEFAULT_DPI), |p| dpi(p, diags))?;
     let filter: Option<Filter> = match parts.filter {
         Some(w) => Some(check_filter(book, &w.expr, diags)?),
         None => None,
     };
-    let raw_layers: Vec<RawLayer> = parts.layers.iter().filter_map(|p| layers::read_layer(book, p, diags)).collect();
+    let raw_layers: Vec<RawLayer> = parts
+        .layers
+        .iter()
+        .filter_map(|p| layers::read_layer(book, p, diags))
+        .collect();
     if parts.layers.is_empty() {
         diags.push(
-            Diagnostic::error(codes::MISSING_STATEMENT, format!("figure `{}` has no layers", block.name.name))
-                .with_label(block.name.span, "nothing to draw")
-                .with_help("add a layer such as `points`, `box`, `counts` or `histogram`"),
+            Diagnostic::error(
+                codes::MISSING_STATEMENT,
+                format!("figure `{}` has no layers", block.name.name),
+            )
+            .with_label(block.name.span, "nothing to draw")
+            .with_help("add a layer such as `points`, `box`, `counts` or `histogram`"),
         );
         return None;
     }
     if parts.x.is_none() {
         diags.push(
-            Diagnostic::error(codes::MISSING_STATEMENT, format!("figure `{}` has no `x`", block.name.name))
-                .with_label(block.name.span, "no x axis")
-                .with_help("add `x VARIABLE`"),
+            Diagnostic::error(
+                codes::MISSING_STATEMENT,
+                format!("figure `{}` has no `x`", block.name.name),
+            )
+            .with_label(block.name.span, "no x axis")
+            .with_help("add `x VARIABLE`"),
         );
         return None;
     };
     let x = x?;
     let frame = layers::frame(
         book,
-        layers::FrameInput { x, y, layers: raw_layers },
+        layers::FrameInput {
+            x,
+            y,
+            layers: raw_layers,
+        },
         diags,
     )?;
     if count_errors(diags) > errors_before {
@@ -146,9 +182,12 @@ fn sort_statements<'a>(block: &'a Block, diags: &mut Vec<Diagnostic>) -> Parts<'
         };
         if let Some(t) = &p.target {
             diags.push(
-                Diagnostic::error(codes::UNKNOWN_STATEMENT, "variables are declared in data blocks, not in figures")
-                    .with_label(t.span, "a declaration")
-                    .with_help("move the declaration into the `data` block"),
+                Diagnostic::error(
+                    codes::UNKNOWN_STATEMENT,
+                    "variables are declared in data blocks, not in figures",
+                )
+                .with_label(t.span, "a declaration")
+                .with_help("move the declaration into the `data` block"),
             );
             continue;
         }
@@ -181,14 +220,20 @@ fn sort_statements<'a>(block: &'a Block, diags: &mut Vec<Diagnostic>) -> Parts<'
 }
 
 fn twice(name: &str, span: Span, first: Span) -> Diagnostic {
-    Diagnostic::error(codes::REPEATED, format!("`{name}` is given twice in one figure"))
-        .with_label(span, "given again here")
-        .with_label(first, "first given here")
-        .with_help("a figure takes each statement once (only layers repeat); keep one")
+    Diagnostic::error(
+        codes::REPEATED,
+        format!("`{name}` is given twice in one figure"),
+    )
+    .with_label(span, "given again here")
+    .with_label(first, "first given here")
+    .with_help("a figure takes each statement once (only layers repeat); keep one")
 }
 
 fn unknown_figure_statement(head: &Ident) -> Diagnostic {
-    let known = FIGURE_STATEMENTS.iter().copied().chain(LayerKind::ALL.iter().map(|k| k.word()));
+    let known = FIGURE_STATEMENTS
+        .iter()
+        .copied()
+        .chain(LayerKind::ALL.iter().map(|k| k.word()));
     let d = Diagnostic::error(
         codes::UNKNOWN_STATEMENT,
         format!("`{}` is not a statement or layer of a figure", head.name),
@@ -199,7 +244,11 @@ fn unknown_figure_statement(head: &Ident) -> Diagnostic {
         None => d.with_help(format!(
             "figure statements: {}; layers: {}",
             FIGURE_STATEMENTS.join(", "),
-            LayerKind::ALL.iter().map(|k| k.word()).collect::<Vec<_>>().join(", ")
+            LayerKind::ALL
+                .iter()
+                .map(|k| k.word())
+                .collect::<Vec<_>>()
+                .join(", ")
         )),
     }
 }
@@ -213,14 +262,24 @@ fn resolve_data<'b>(
     if let Some((idx, book)) = visible.iter().find(|(_, b)| b.name == name.name) {
         return Some((*idx, book));
     }
-    let d = Diagnostic::error(codes::UNKNOWN_DATA, format!("no data block named `{}`", name.name))
-        .with_label(name.span, "unknown data");
+    let d = Diagnostic::error(
+        codes::UNKNOWN_DATA,
+        format!("no data block named `{}`", name.name),
+    )
+    .with_label(name.span, "unknown data");
     let help = match did_you_mean(&name.name, visible.iter().map(|(_, b)| b.name.as_str())) {
         Some(s) => format!("did you mean `{s}`?"),
-        None if visible.is_empty() => "declare a `data NAME \"file.csv\" { ... }` block in this file or in an `include`d one".to_string(),
+        None if visible.is_empty() => {
+            "declare a `data NAME \"file.csv\" { ... }` block in this file or in an `include`d one"
+                .to_string()
+        }
         None => format!(
             "visible data blocks: {}",
-            visible.iter().map(|(_, b)| b.name.as_str()).collect::<Vec<_>>().join(", ")
+            visible
+                .iter()
+                .map(|(_, b)| b.name.as_str())
+                .collect::<Vec<_>>()
+                .join(", ")
         ),
     };
     diags.push(d.with_help(help));
@@ -242,7 +301,11 @@ pub struct AxisVar {
 impl AxisVar {
     pub fn cat_axis(&self) -> CatAxis {
         CatAxis {
-            var: CatVar { var: self.var, ordered: self.scale == Scale::Ordinal, span: self.name_span },
+            var: CatVar {
+                var: self.var,
+                ordered: self.scale == Scale::Ordinal,
+                span: self.name_span,
+            },
             title: self.title.clone(),
             order: self.order.map_or(LevelOrder::Levels, |(o, _)| o),
         }
@@ -250,10 +313,18 @@ impl AxisVar {
 
     pub fn num_axis(&self) -> NumAxis {
         NumAxis {
-            var: NumVar { var: self.var, ratio: self.scale == Scale::Ratio, span: self.name_span },
+            var: NumVar {
+                var: self.var,
+                ratio: self.scale == Scale::Ratio,
+                span: self.name_span,
+            },
             title: self.title.clone(),
             range: self.range,
-            scale: if self.log_span.is_some() { AxisScale::Log } else { AxisScale::Linear },
+            scale: if self.log_span.is_some() {
+                AxisScale::Log
+            } else {
+                AxisScale::Linear
+            },
             scale_span: self.log_span,
         }
     }
@@ -271,7 +342,11 @@ fn axis_var(book: &Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) -> Option<A
     };
     let id = resolve(book, name, diags)?;
     let var = book.var(id);
-    let accepts = Accepts { what: "an axis", calls: &["label", "range", "scale", "order"], flags: &[] };
+    let accepts = Accepts {
+        what: "an axis",
+        calls: &["label", "range", "scale", "order"],
+        flags: &[],
+    };
     let opts = terms::options(&p.terms[1..], &accepts, diags);
     let mut out = AxisVar {
         var: id,
@@ -284,14 +359,17 @@ fn axis_var(book: &Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) -> Option<A
     };
     if let Some(c) = opts.call("label") {
         let shape = "label(\"Axis title\")";
-        out.title = terms::single(c, shape, diags).and_then(|t| terms::expect_str(t, shape, diags)).map(|s| s.value.clone());
+        out.title = terms::single(c, shape, diags)
+            .and_then(|t| terms::expect_str(t, shape, diags))
+            .map(|s| s.value.clone());
     }
     if let Some(c) = opts.call("range") {
         out.range = range(c, var.scale, diags);
     }
     if let Some(c) = opts.call("scale") {
         let shape = "scale(log)";
-        let choice = terms::single(c, shape, diags).and_then(|t| terms::expect_choice(t, &["linear", "log"], shape, diags));
+        let choice = terms::single(c, shape, diags)
+            .and_then(|t| terms::expect_choice(t, &["linear", "log"], shape, diags));
         if let Some(w) = choice {
             if w.name == "log" {
                 out.log_span = log_allowed(var, c.span, diags).then_some(c.span);
@@ -304,7 +382,11 @@ fn axis_var(book: &Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) -> Option<A
     Some(out)
 }
 
-fn range(c: &crate::syntax::ast::Call, scale: Scale, diags: &mut Vec<Diagnostic>) -> Option<(f64, f64)> {
+fn range(
+    c: &crate::syntax::ast::Call,
+    scale: Scale,
+    diags: &mut Vec<Diagnostic>,
+) -> Option<(f64, f64)> {
     let shape = "range(0, 100)";
     if !scale.is_numeric() {
         diags.push(
@@ -319,9 +401,12 @@ fn range(c: &crate::syntax::ast::Call, scale: Scale, diags: &mut Vec<Diagnostic>
     let hi = terms::expect_num(&args[1], shape, diags)?;
     if lo.value >= hi.value {
         diags.push(
-            Diagnostic::error(codes::BAD_ARGUMENT, "the range's low end is not below its high end")
-                .with_label(c.args.span, "empty range")
-                .with_help("write the lower limit first, e.g. `range(0, 100)`"),
+            Diagnostic::error(
+                codes::BAD_ARGUMENT,
+                "the range's low end is not below its high end",
+            )
+            .with_label(c.args.span, "empty range")
+            .with_help("write the lower limit first, e.g. `range(0, 100)`"),
         );
         return None;
     }
@@ -342,18 +427,26 @@ fn log_allowed(var: &super::plan::Variable, span: Span, diags: &mut Vec<Diagnost
         }
         _ => {
             diags.push(
-                Diagnostic::error(codes::LOG_OF_INTERVAL, "a log scale applies to numeric variables only")
-                    .with_label(span, "log scale on a categorical axis")
-                    .with_help("remove `scale(log)`"),
+                Diagnostic::error(
+                    codes::LOG_OF_INTERVAL,
+                    "a log scale applies to numeric variables only",
+                )
+                .with_label(span, "log scale on a categorical axis")
+                .with_help("remove `scale(log)`"),
             );
             false
         }
     }
 }
 
-fn order(var: &super::plan::Variable, c: &crate::syntax::ast::Call, diags: &mut Vec<Diagnostic>) -> Option<LevelOrder> {
+fn order(
+    var: &super::plan::Variable,
+    c: &crate::syntax::ast::Call,
+    diags: &mut Vec<Diagnostic>,
+) -> Option<LevelOrder> {
     let shape = "order(count)";
-    let w = terms::single(c, shape, diags).and_then(|t| terms::expect_choice(t, &["levels", "count", "name"], shape, diags))?;
+    let w = terms::single(c, shape, diags)
+        .and_then(|t| terms::expect_choice(t, &["levels", "count", "name"], shape, diags))?;
     let order = match w.name.as_str() {
         "count" => LevelOrder::Count,
         "name" => LevelOrder::Name,
@@ -391,7 +484,11 @@ fn grouping(book: &Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) -> Option<C
         diags.push(not_categorical(var, name.span, &format!("`{role}`")));
         return None;
     }
-    Some(CatVar { var: id, ordered: var.scale == Scale::Ordinal, span: name.span })
+    Some(CatVar {
+        var: id,
+        ordered: var.scale == Scale::Ordinal,
+        span: name.span,
+    })
 }
 
 /// Rule 6: a grouping or categorical role on a numeric variable or an id.
@@ -399,12 +496,19 @@ pub fn not_categorical(var: &super::plan::Variable, span: Span, role: &str) -> D
     let why = if var.scale == Scale::Id {
         "an id names observational units; it is never a category to compare".to_string()
     } else {
-        format!("`{}` is {}: its values are numbers, not categories", var.name, var.scale.as_str())
+        format!(
+            "`{}` is {}: its values are numbers, not categories",
+            var.name,
+            var.scale.as_str()
+        )
     };
-    Diagnostic::error(codes::NOT_CATEGORICAL, format!("{role} needs a nominal or ordinal variable"))
-        .with_label(span, format!("declared {}", var.scale.as_str()))
-        .with_label(var.span, "declared here")
-        .with_help(format!("{why}; choose a nominal or ordinal variable"))
+    Diagnostic::error(
+        codes::NOT_CATEGORICAL,
+        format!("{role} needs a nominal or ordinal variable"),
+    )
+    .with_label(span, format!("declared {}", var.scale.as_str()))
+    .with_label(var.span, "declared here")
+    .with_help(format!("{why}; choose a nominal or ordinal variable"))
 }
 
 fn size(p: &Plain, diags: &mut Vec<Diagnostic>) -> Option<(f64, f64)> {
@@ -413,9 +517,12 @@ fn size(p: &Plain, diags: &mut Vec<Diagnostic>) -> Option<(f64, f64)> {
         [Term::Length(w), Term::Word(x), Term::Length(h)] if x.name == "x" => (w, h),
         _ => {
             diags.push(
-                Diagnostic::error(codes::BAD_ARGUMENT, "a size is a width and a height with units")
-                    .with_label(p.span, "not a size")
-                    .with_help(format!("write `{shape}` (units mm, cm, in or pt)")),
+                Diagnostic::error(
+                    codes::BAD_ARGUMENT,
+                    "a size is a width and a height with units",
+                )
+                .with_label(p.span, "not a size")
+                .with_help(format!("write `{shape}` (units mm, cm, in or pt)")),
             );
             return None;
         }
@@ -426,9 +533,14 @@ fn size(p: &Plain, diags: &mut Vec<Diagnostic>) -> Option<(f64, f64)> {
         let mm = len.to_mm();
         if !(lo..=hi).contains(&mm) {
             diags.push(
-                Diagnostic::error(codes::OUT_OF_LIMITS, format!("{mm:.0} mm is outside the supported {lo:.0}–{hi:.0} mm"))
-                    .with_label(len.span, "out of limits")
-                    .with_help("journal figures are usually 85 mm (one column) to 180 mm (two columns) wide"),
+                Diagnostic::error(
+                    codes::OUT_OF_LIMITS,
+                    format!("{mm:.0} mm is outside the supported {lo:.0}–{hi:.0} mm"),
+                )
+                .with_label(len.span, "out of limits")
+                .with_help(
+                    "journal figures are usually 85 mm (one column) to 180 mm (two columns) wide",
+                ),
             );
             ok = false;
         }
@@ -438,7 +550,11 @@ fn size(p: &Plain, diags: &mut Vec<Diagnostic>) -> Option<(f64, f64)> {
 
 fn formats(p: &Plain, diags: &mut Vec<Diagnostic>) -> Option<Formats> {
     let shape = "formats svg png pdf";
-    let mut f = Formats { svg: false, png: false, pdf: false };
+    let mut f = Formats {
+        svg: false,
+        png: false,
+        pdf: false,
+    };
     for term in &p.terms {
         let w = terms::expect_choice(term, &["svg", "png", "pdf"], shape, diags)?;
         let slot = match w.name.as_str() {
@@ -475,9 +591,12 @@ fn dpi(p: &Plain, diags: &mut Vec<Diagnostic>) -> Option<u32> {
     let (lo, hi) = DPI_LIMITS;
     if n.value.fract() != 0.0 || n.value < f64::from(lo) || n.value > f64::from(hi) {
         diags.push(
-            Diagnostic::error(codes::OUT_OF_LIMITS, format!("dpi must be a whole number from {lo} to {hi}"))
-                .with_label(n.span, "out of limits")
-                .with_help("journals usually ask for 300 dpi (photographs) to 600 dpi (line art)"),
+            Diagnostic::error(
+                codes::OUT_OF_LIMITS,
+                format!("dpi must be a whole number from {lo} to {hi}"),
+            )
+            .with_label(n.span, "out of limits")
+            .with_help("journals usually ask for 300 dpi (photographs) to 600 dpi (line art)"),
         );
         return None;
     }

@@ -32,19 +32,32 @@ pub fn check_filter(book: &Codebook, expr: &Expr, diags: &mut Vec<Diagnostic>) -
             keep.dedup();
             Some(Filter::Levels { var: id, keep })
         }
-        Expr::Compare { var, op, op_span, value, .. } => {
+        Expr::Compare {
+            var,
+            op,
+            op_span,
+            value,
+            ..
+        } => {
             let id = resolve(book, var, diags)?;
             let v = book.var(id);
             if v.scale.is_numeric() {
                 let Value::Num(n) = value else {
                     diags.push(
-                        Diagnostic::error(codes::BAD_FILTER, format!("`{}` is numeric; compare it with a number", v.name))
-                            .with_label(value.span(), "a text")
-                            .with_help("write the number without quotes"),
+                        Diagnostic::error(
+                            codes::BAD_FILTER,
+                            format!("`{}` is numeric; compare it with a number", v.name),
+                        )
+                        .with_label(value.span(), "a text")
+                        .with_help("write the number without quotes"),
                     );
                     return None;
                 };
-                return Some(Filter::Numeric { var: id, op: *op, value: n.value });
+                return Some(Filter::Numeric {
+                    var: id,
+                    op: *op,
+                    value: n.value,
+                });
             }
             let levels = categorical_levels(v, var, diags)?;
             if op.is_ordering() && v.scale != Scale::Ordinal {
@@ -56,7 +69,9 @@ pub fn check_filter(book: &Codebook, expr: &Expr, diags: &mut Vec<Diagnostic>) -
                 return None;
             }
             let idx = level_index(v, levels, value, diags)?;
-            let keep: Vec<usize> = (0..levels.len()).filter(|&i| compare(i, *op, idx)).collect();
+            let keep: Vec<usize> = (0..levels.len())
+                .filter(|&i| compare(i, *op, idx))
+                .collect();
             Some(Filter::Levels { var: id, keep })
         }
     }
@@ -73,7 +88,11 @@ fn compare(i: usize, op: CompareOp, j: usize) -> bool {
     }
 }
 
-fn categorical_levels<'a>(v: &'a Variable, name: &Ident, diags: &mut Vec<Diagnostic>) -> Option<&'a [String]> {
+fn categorical_levels<'a>(
+    v: &'a Variable,
+    name: &Ident,
+    diags: &mut Vec<Diagnostic>,
+) -> Option<&'a [String]> {
     if v.scale == Scale::Id {
         diags.push(
             Diagnostic::error(codes::BAD_FILTER, format!("`{}` is an id; filters compare measured variables", v.name))
@@ -86,17 +105,25 @@ fn categorical_levels<'a>(v: &'a Variable, name: &Ident, diags: &mut Vec<Diagnos
         Some(l) => Some(l),
         None => {
             diags.push(
-                Diagnostic::error(codes::BAD_FILTER, format!("`{}` has no declared levels to filter on", v.name))
-                    .with_label(name.span, "levels not declared")
-                    .with_label(v.span, "declared here")
-                    .with_help("add `levels(...)` to the declaration so a misspelt level is caught"),
+                Diagnostic::error(
+                    codes::BAD_FILTER,
+                    format!("`{}` has no declared levels to filter on", v.name),
+                )
+                .with_label(name.span, "levels not declared")
+                .with_label(v.span, "declared here")
+                .with_help("add `levels(...)` to the declaration so a misspelt level is caught"),
             );
             None
         }
     }
 }
 
-fn level_index(v: &Variable, levels: &[String], value: &Value, diags: &mut Vec<Diagnostic>) -> Option<usize> {
+fn level_index(
+    v: &Variable,
+    levels: &[String],
+    value: &Value,
+    diags: &mut Vec<Diagnostic>,
+) -> Option<usize> {
     let text = match value {
         Value::Str(s) => s.value.clone(),
         Value::Num(n) => n.text.clone(),
@@ -104,11 +131,21 @@ fn level_index(v: &Variable, levels: &[String], value: &Value, diags: &mut Vec<D
     if let Some(i) = levels.iter().position(|l| *l == text) {
         return Some(i);
     }
-    let d = Diagnostic::error(codes::BAD_FILTER, format!("\"{text}\" is not a level of `{}`", v.name))
-        .with_label(value.span(), "unknown level");
+    let d = Diagnostic::error(
+        codes::BAD_FILTER,
+        format!("\"{text}\" is not a level of `{}`", v.name),
+    )
+    .with_label(value.span(), "unknown level");
     let help = match did_you_mean(&text, levels.iter().map(String::as_str)) {
         Some(s) => format!("did you mean \"{s}\"?"),
-        None => format!("the levels are {}", levels.iter().map(|l| format!("\"{l}\"")).collect::<Vec<_>>().join(", ")),
+        None => format!(
+            "the levels are {}",
+            levels
+                .iter()
+                .map(|l| format!("\"{l}\""))
+                .collect::<Vec<_>>()
+                .join(", ")
+        ),
     };
     diags.push(d.with_help(help));
     None

@@ -7,8 +7,8 @@ use super::codebook::resolve;
 use super::codes;
 use super::figure::{not_categorical, AxisVar};
 use super::plan::{
-    Bandwidth, BinRule, CatNumLayer, CatOrdLayer, Codebook, CountLayer, DistLayer, ErrorBar, Frame, Heights,
-    Scale, VarId, Whiskers, XyLayer,
+    Bandwidth, BinRule, CatNumLayer, CatOrdLayer, Codebook, CountLayer, DistLayer, ErrorBar, Frame,
+    Heights, Scale, VarId, Whiskers, XyLayer,
 };
 use super::terms::{self, Accepts, Options};
 
@@ -75,7 +75,11 @@ impl LayerKind {
             LayerKind::Density | LayerKind::Violin => (&["bandwidth"], &[]),
             LayerKind::Fit => (&["band"], &["linear"]),
         };
-        Accepts { what: self.quoted(), calls, flags }
+        Accepts {
+            what: self.quoted(),
+            calls,
+            flags,
+        }
     }
 
     fn quoted(self) -> &'static str {
@@ -134,19 +138,36 @@ pub fn read_layer(book: &Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) -> Op
     read_shared_options(book, &opts, &mut layer, diags);
     if matches!(kind, LayerKind::Lines | LayerKind::Flows) && opts.call("by").is_none() {
         diags.push(
-            Diagnostic::error(codes::MISSING_STATEMENT, format!("{} needs `by(SUBJECT)`", kind.quoted()))
-                .with_label(p.head.span, "joins whose values?")
-                .with_help(format!("write `{} by(participant)`, naming the data's subject", kind.word())),
+            Diagnostic::error(
+                codes::MISSING_STATEMENT,
+                format!("{} needs `by(SUBJECT)`", kind.quoted()),
+            )
+            .with_label(p.head.span, "joins whose values?")
+            .with_help(format!(
+                "write `{} by(participant)`, naming the data's subject",
+                kind.word()
+            )),
         );
     }
     (diags.len() == before).then_some(layer)
 }
 
-fn read_shared_options(book: &Codebook, opts: &Options, layer: &mut RawLayer, diags: &mut Vec<Diagnostic>) {
+fn read_shared_options(
+    book: &Codebook,
+    opts: &Options,
+    layer: &mut RawLayer,
+    diags: &mut Vec<Diagnostic>,
+) {
     if let Some(c) = opts.call("heights") {
-        let choices: &[&str] = if layer.kind == LayerKind::Histogram { &["count", "percent", "density"] } else { &["count", "percent"] };
+        let choices: &[&str] = if layer.kind == LayerKind::Histogram {
+            &["count", "percent", "density"]
+        } else {
+            &["count", "percent"]
+        };
         let shape = "heights(percent)";
-        if let Some(w) = terms::single(c, shape, diags).and_then(|t| terms::expect_choice(t, choices, shape, diags)) {
+        if let Some(w) = terms::single(c, shape, diags)
+            .and_then(|t| terms::expect_choice(t, choices, shape, diags))
+        {
             let h = match w.name.as_str() {
                 "percent" => Heights::Percent,
                 "density" => Heights::Density,
@@ -161,9 +182,12 @@ fn read_shared_options(book: &Codebook, opts: &Options, layer: &mut RawLayer, di
     if let Some(c) = opts.call("width") {
         if layer.bins.is_some() {
             diags.push(
-                Diagnostic::error(codes::BAD_ARGUMENT, "give either `bins(...)` or `width(...)`, not both")
-                    .with_label(c.span, "width")
-                    .with_help("`width(W)` fixes the bin width; `bins(...)` chooses one from the data"),
+                Diagnostic::error(
+                    codes::BAD_ARGUMENT,
+                    "give either `bins(...)` or `width(...)`, not both",
+                )
+                .with_label(c.span, "width")
+                .with_help("`width(W)` fixes the bin width; `bins(...)` chooses one from the data"),
             );
         } else if let Some(w) = positive(c, "width(5)", diags) {
             layer.bins = Some(BinRule::Width(w));
@@ -174,8 +198,14 @@ fn read_shared_options(book: &Codebook, opts: &Options, layer: &mut RawLayer, di
     }
     if let Some(c) = opts.call("whiskers") {
         let shape = "whiskers(tukey)";
-        if let Some(w) = terms::single(c, shape, diags).and_then(|t| terms::expect_choice(t, &["tukey", "range"], shape, diags)) {
-            layer.whiskers = if w.name == "range" { Whiskers::Range } else { Whiskers::Tukey };
+        if let Some(w) = terms::single(c, shape, diags)
+            .and_then(|t| terms::expect_choice(t, &["tukey", "range"], shape, diags))
+        {
+            layer.whiskers = if w.name == "range" {
+                Whiskers::Range
+            } else {
+                Whiskers::Tukey
+            };
         }
     }
     if let Some(c) = opts.call("error") {
@@ -183,7 +213,9 @@ fn read_shared_options(book: &Codebook, opts: &Options, layer: &mut RawLayer, di
     }
     if let Some(c) = opts.call("by") {
         let shape = "by(participant)";
-        if let Some(w) = terms::single(c, shape, diags).and_then(|t| terms::expect_word(t, shape, diags)) {
+        if let Some(w) =
+            terms::single(c, shape, diags).and_then(|t| terms::expect_word(t, shape, diags))
+        {
             layer.by = resolve(book, w, diags).map(|id| (id, w.span));
         }
     }
@@ -227,9 +259,12 @@ fn positive(c: &Call, shape: &str, diags: &mut Vec<Diagnostic>) -> Option<f64> {
         return Some(n.value);
     }
     diags.push(
-        Diagnostic::error(codes::BAD_ARGUMENT, format!("`{}` must be positive", c.name.name))
-            .with_label(n.span, "not positive")
-            .with_help(format!("write e.g. `{shape}`")),
+        Diagnostic::error(
+            codes::BAD_ARGUMENT,
+            format!("`{}` must be positive", c.name.name),
+        )
+        .with_label(n.span, "not positive")
+        .with_help(format!("write e.g. `{shape}`")),
     );
     None
 }
@@ -241,9 +276,12 @@ fn jitter(c: &Call, diags: &mut Vec<Diagnostic>) -> Option<f64> {
         return Some(n.value);
     }
     diags.push(
-        Diagnostic::error(codes::BAD_ARGUMENT, "jitter is a fraction of the band, from 0 to 1")
-            .with_label(n.span, "out of range")
-            .with_help("write e.g. `jitter(0.2)`: points spread over a fifth of each level's band"),
+        Diagnostic::error(
+            codes::BAD_ARGUMENT,
+            "jitter is a fraction of the band, from 0 to 1",
+        )
+        .with_label(n.span, "out of range")
+        .with_help("write e.g. `jitter(0.2)`: points spread over a fifth of each level's band"),
     );
     None
 }
@@ -255,9 +293,15 @@ fn level(term: &Term, shape: &str, diags: &mut Vec<Diagnostic>) -> Option<f64> {
         return Some(n.value);
     }
     diags.push(
-        Diagnostic::error(codes::LEVEL_OUT_OF_RANGE, format!("an interval level must lie between 0 and 1, found {}", n.text))
-            .with_label(n.span, "not in (0, 1)")
-            .with_help("write the coverage as a fraction, e.g. 0.95 for a 95% interval"),
+        Diagnostic::error(
+            codes::LEVEL_OUT_OF_RANGE,
+            format!(
+                "an interval level must lie between 0 and 1, found {}",
+                n.text
+            ),
+        )
+        .with_label(n.span, "not in (0, 1)")
+        .with_help("write the coverage as a fraction, e.g. 0.95 for a 95% interval"),
     );
     None
 }
@@ -269,7 +313,11 @@ fn level_arg(c: &Call, shape: &str, diags: &mut Vec<Diagnostic>) -> Option<f64> 
 fn error_bar(c: &Call, kind: LayerKind, diags: &mut Vec<Diagnostic>) -> Option<ErrorBar> {
     let shape = "error(ci(0.95))";
     let term = terms::single(c, shape, diags)?;
-    let choices: &[&str] = if kind == LayerKind::Median { &["boot"] } else { &["sd", "se", "ci", "boot"] };
+    let choices: &[&str] = if kind == LayerKind::Median {
+        &["boot"]
+    } else {
+        &["sd", "se", "ci", "boot"]
+    };
     let (name, args): (&Ident, Option<&Call>) = match term {
         Term::Word(w) => (w, None),
         Term::Call(inner) => (&inner.name, Some(inner)),
@@ -283,7 +331,9 @@ fn error_bar(c: &Call, kind: LayerKind, diags: &mut Vec<Diagnostic>) -> Option<E
         ("sd", None) => Some(ErrorBar::Sd),
         ("se", None) => Some(ErrorBar::Se),
         ("ci", Some(call)) => ci(call, diags),
-        ("boot", Some(call)) => level_arg(call, "boot(0.95)", diags).map(|level| ErrorBar::Bootstrap { level }),
+        ("boot", Some(call)) => {
+            level_arg(call, "boot(0.95)", diags).map(|level| ErrorBar::Bootstrap { level })
+        }
         (word, _) => {
             let fix = match word {
                 "ci" => "ci(0.95)",
@@ -291,9 +341,12 @@ fn error_bar(c: &Call, kind: LayerKind, diags: &mut Vec<Diagnostic>) -> Option<E
                 _ => word,
             };
             diags.push(
-                Diagnostic::error(codes::BAD_ARGUMENT, format!("`{word}` is written `{fix}` here"))
-                    .with_label(term.span(), "malformed")
-                    .with_help(format!("write `error({fix})`")),
+                Diagnostic::error(
+                    codes::BAD_ARGUMENT,
+                    format!("`{word}` is written `{fix}` here"),
+                )
+                .with_label(term.span(), "malformed")
+                .with_help(format!("write `error({fix})`")),
             );
             None
         }
@@ -322,7 +375,11 @@ fn bandwidth(c: &Call, diags: &mut Vec<Diagnostic>) -> Option<Bandwidth> {
         Term::Num(_) => positive(c, "bandwidth(2.5)", diags).map(Bandwidth::Fixed),
         t => {
             let w = terms::expect_choice(t, &["silverman", "scott"], shape, diags)?;
-            Some(if w.name == "scott" { Bandwidth::Scott } else { Bandwidth::Silverman })
+            Some(if w.name == "scott" {
+                Bandwidth::Scott
+            } else {
+                Bandwidth::Silverman
+            })
         }
     }
 }
@@ -359,16 +416,22 @@ pub fn frame(book: &Codebook, input: FrameInput, diags: &mut Vec<Diagnostic>) ->
 }
 
 fn y_missing(layer: &RawLayer) -> Diagnostic {
-    Diagnostic::error(codes::Y_MISSING, format!("{} needs a `y` variable", layer.kind.quoted()))
-        .with_label(layer.head, "shows values on y")
-        .with_help("add `y VARIABLE` naming the measure to show")
+    Diagnostic::error(
+        codes::Y_MISSING,
+        format!("{} needs a `y` variable", layer.kind.quoted()),
+    )
+    .with_label(layer.head, "shows values on y")
+    .with_help("add `y VARIABLE` naming the measure to show")
 }
 
 fn y_not_used(layer: &RawLayer, y: &AxisVar) -> Diagnostic {
-    Diagnostic::error(codes::Y_NOT_USED, format!("{} has no `y`: it counts rows of x", layer.kind.quoted()))
-        .with_label(layer.head, "draws its own heights")
-        .with_label(y.name_span, "y given here")
-        .with_help("remove `y`, or choose a layer that shows y values (points, box, mean, ...)")
+    Diagnostic::error(
+        codes::Y_NOT_USED,
+        format!("{} has no `y`: it counts rows of x", layer.kind.quoted()),
+    )
+    .with_label(layer.head, "draws its own heights")
+    .with_label(y.name_span, "y given here")
+    .with_help("remove `y`, or choose a layer that shows y values (points, box, mean, ...)")
 }
 
 fn counts_frame(x: &AxisVar, layers: &[RawLayer], diags: &mut Vec<Diagnostic>) -> Option<Frame> {
@@ -382,7 +445,10 @@ fn counts_frame(x: &AxisVar, layers: &[RawLayer], diags: &mut Vec<Diagnostic>) -
             LayerKind::Histogram | LayerKind::Density => diags.push(
                 Diagnostic::error(
                     codes::HISTOGRAM_OF_CATEGORIES,
-                    format!("{} needs an interval or ratio variable", layer.kind.quoted()),
+                    format!(
+                        "{} needs an interval or ratio variable",
+                        layer.kind.quoted()
+                    ),
                 )
                 .with_label(x.name_span, format!("x is {}", x.scale.as_str()))
                 .with_label(layer.head, "needs numbers on x")
@@ -391,7 +457,10 @@ fn counts_frame(x: &AxisVar, layers: &[RawLayer], diags: &mut Vec<Diagnostic>) -
             _ => diags.push(y_missing(layer)),
         }
     }
-    Some(Frame::Counts { x: x.cat_axis(), layers: out })
+    Some(Frame::Counts {
+        x: x.cat_axis(),
+        layers: out,
+    })
 }
 
 fn dist_frame(x: &AxisVar, layers: &[RawLayer], diags: &mut Vec<Diagnostic>) -> Option<Frame> {
@@ -403,25 +472,43 @@ fn dist_frame(x: &AxisVar, layers: &[RawLayer], diags: &mut Vec<Diagnostic>) -> 
                 heights: layer.heights.map_or(Heights::Count, |h| h.0),
                 span: layer.span,
             }),
-            LayerKind::Density => out.push(DistLayer::Density { bandwidth: layer.bandwidth, span: layer.span }),
+            LayerKind::Density => out.push(DistLayer::Density {
+                bandwidth: layer.bandwidth,
+                span: layer.span,
+            }),
             LayerKind::Counts => diags.push(
-                Diagnostic::error(codes::COUNTS_OF_NUMBERS, "`counts` needs a nominal or ordinal variable")
-                    .with_label(x.name_span, format!("x is {}", x.scale.as_str()))
-                    .with_label(layer.head, "counts categories")
-                    .with_help("use `histogram` to show the distribution of a numeric variable"),
+                Diagnostic::error(
+                    codes::COUNTS_OF_NUMBERS,
+                    "`counts` needs a nominal or ordinal variable",
+                )
+                .with_label(x.name_span, format!("x is {}", x.scale.as_str()))
+                .with_label(layer.head, "counts categories")
+                .with_help("use `histogram` to show the distribution of a numeric variable"),
             ),
             _ => diags.push(y_missing(layer)),
         }
     }
-    Some(Frame::Dist { x: x.num_axis(), layers: out })
+    Some(Frame::Dist {
+        x: x.num_axis(),
+        layers: out,
+    })
 }
 
-fn xy_frame(book: &Codebook, x: &AxisVar, y: &AxisVar, layers: &[RawLayer], diags: &mut Vec<Diagnostic>) -> Option<Frame> {
+fn xy_frame(
+    book: &Codebook,
+    x: &AxisVar,
+    y: &AxisVar,
+    layers: &[RawLayer],
+    diags: &mut Vec<Diagnostic>,
+) -> Option<Frame> {
     if !y.scale.is_numeric() {
         diags.push(
-            Diagnostic::error(codes::LAYER_DOES_NOT_FIT, "with a numeric x, y must be numeric too")
-                .with_label(y.name_span, format!("y is {}", y.scale.as_str()))
-                .with_help("put the categorical variable on x and the numeric one on y"),
+            Diagnostic::error(
+                codes::LAYER_DOES_NOT_FIT,
+                "with a numeric x, y must be numeric too",
+            )
+            .with_label(y.name_span, format!("y is {}", y.scale.as_str()))
+            .with_help("put the categorical variable on x and the numeric one on y"),
         );
         return None;
     }
@@ -429,18 +516,37 @@ fn xy_frame(book: &Codebook, x: &AxisVar, y: &AxisVar, layers: &[RawLayer], diag
     for layer in layers {
         match layer.kind {
             LayerKind::Points => out.push(XyLayer::Points { span: layer.span }),
-            LayerKind::Fit => out.push(XyLayer::Fit { band: layer.band, span: layer.span }),
-            LayerKind::Counts | LayerKind::Histogram | LayerKind::Density => diags.push(y_not_used(layer, y)),
+            LayerKind::Fit => out.push(XyLayer::Fit {
+                band: layer.band,
+                span: layer.span,
+            }),
+            LayerKind::Counts | LayerKind::Histogram | LayerKind::Density => {
+                diags.push(y_not_used(layer, y))
+            }
             _ => diags.push(
-                not_categorical(book.var(x.var), x.name_span, &format!("{} groups by x and", layer.kind.quoted()))
-                    .with_label(layer.head, "needs categories on x"),
+                not_categorical(
+                    book.var(x.var),
+                    x.name_span,
+                    &format!("{} groups by x and", layer.kind.quoted()),
+                )
+                .with_label(layer.head, "needs categories on x"),
             ),
         }
     }
-    Some(Frame::Xy { x: x.num_axis(), y: y.num_axis(), layers: out })
+    Some(Frame::Xy {
+        x: x.num_axis(),
+        y: y.num_axis(),
+        layers: out,
+    })
 }
 
-fn cat_cat_frame(book: &Codebook, x: &AxisVar, y: &AxisVar, layers: &[RawLayer], diags: &mut Vec<Diagnostic>) -> Option<Frame> {
+fn cat_cat_frame(
+    book: &Codebook,
+    x: &AxisVar,
+    y: &AxisVar,
+    layers: &[RawLayer],
+    diags: &mut Vec<Diagnostic>,
+) -> Option<Frame> {
     let yvar = book.var(y.var);
     if y.scale == Scale::Id {
         diags.push(
@@ -482,55 +588,113 @@ fn cat_cat_frame(book: &Codebook, x: &AxisVar, y: &AxisVar, layers: &[RawLayer],
             ),
         }
     }
-    Some(Frame::CatOrd { x: x.cat_axis(), y: y.cat_axis(), layers: out })
+    Some(Frame::CatOrd {
+        x: x.cat_axis(),
+        y: y.cat_axis(),
+        layers: out,
+    })
 }
 
-fn flows_frame(book: &Codebook, x: &AxisVar, y: &AxisVar, flows: &RawLayer, layers: &[RawLayer], diags: &mut Vec<Diagnostic>) -> Option<Frame> {
+fn flows_frame(
+    book: &Codebook,
+    x: &AxisVar,
+    y: &AxisVar,
+    flows: &RawLayer,
+    layers: &[RawLayer],
+    diags: &mut Vec<Diagnostic>,
+) -> Option<Frame> {
     for other in layers.iter().filter(|l| l.kind != LayerKind::Flows) {
         diags.push(
-            Diagnostic::error(codes::LAYER_DOES_NOT_FIT, format!("{} cannot share a figure with `flows`", other.kind.quoted()))
-                .with_label(other.head, "does not fit")
-                .with_help("draw flows in a figure of their own"),
+            Diagnostic::error(
+                codes::LAYER_DOES_NOT_FIT,
+                format!("{} cannot share a figure with `flows`", other.kind.quoted()),
+            )
+            .with_label(other.head, "does not fit")
+            .with_help("draw flows in a figure of their own"),
         );
     }
     let (by, by_span) = flows.by?;
     check_by_subject(book, by, by_span, diags);
     if x.scale != Scale::Ordinal || !book.is_within(x.var) {
         diags.push(
-            Diagnostic::error(codes::LINES_ACROSS_SUBJECTS, "flows need x to be an ordinal within factor (the occasions)")
-                .with_label(x.name_span, "not ordered occasions measured on every subject")
-                .with_help("declare the occasions `ordinal levels(...)` and list them under `within`"),
+            Diagnostic::error(
+                codes::LINES_ACROSS_SUBJECTS,
+                "flows need x to be an ordinal within factor (the occasions)",
+            )
+            .with_label(
+                x.name_span,
+                "not ordered occasions measured on every subject",
+            )
+            .with_help("declare the occasions `ordinal levels(...)` and list them under `within`"),
         );
     }
-    Some(Frame::Flows { x: x.cat_axis(), y: y.cat_axis(), by, span: flows.span })
+    Some(Frame::Flows {
+        x: x.cat_axis(),
+        y: y.cat_axis(),
+        by,
+        span: flows.span,
+    })
 }
 
 fn check_by_subject(book: &Codebook, by: VarId, by_span: Span, diags: &mut Vec<Diagnostic>) {
     if book.subject != Some(by) {
         let help = match book.subject {
             Some(s) => format!("write `by({})`, the data's subject", book.var(s).name),
-            None => format!("declare `subject {}` in data `{}` if it identifies the observational unit", book.var(by).name, book.name),
+            None => format!(
+                "declare `subject {}` in data `{}` if it identifies the observational unit",
+                book.var(by).name,
+                book.name
+            ),
         };
         diags.push(
-            Diagnostic::error(codes::LINES_ACROSS_SUBJECTS, format!("`{}` is not the subject of data `{}`", book.var(by).name, book.name))
-                .with_label(by_span, "not the subject")
-                .with_help(help),
+            Diagnostic::error(
+                codes::LINES_ACROSS_SUBJECTS,
+                format!(
+                    "`{}` is not the subject of data `{}`",
+                    book.var(by).name,
+                    book.name
+                ),
+            )
+            .with_label(by_span, "not the subject")
+            .with_help(help),
         );
     }
 }
 
-fn cat_num_frame(book: &Codebook, x: &AxisVar, y: &AxisVar, layers: &[RawLayer], diags: &mut Vec<Diagnostic>) -> Option<Frame> {
+fn cat_num_frame(
+    book: &Codebook,
+    x: &AxisVar,
+    y: &AxisVar,
+    layers: &[RawLayer],
+    diags: &mut Vec<Diagnostic>,
+) -> Option<Frame> {
     let mut out = Vec::new();
     for layer in layers {
         let span = layer.span;
         match layer.kind {
-            LayerKind::Points => out.push(CatNumLayer::Points { jitter: layer.jitter, span }),
-            LayerKind::Box => out.push(CatNumLayer::Box { whiskers: layer.whiskers, span }),
-            LayerKind::Violin => out.push(CatNumLayer::Violin { bandwidth: layer.bandwidth, span }),
-            LayerKind::Median => out.push(CatNumLayer::Median { error: layer.error.map(|e| e.0), span }),
+            LayerKind::Points => out.push(CatNumLayer::Points {
+                jitter: layer.jitter,
+                span,
+            }),
+            LayerKind::Box => out.push(CatNumLayer::Box {
+                whiskers: layer.whiskers,
+                span,
+            }),
+            LayerKind::Violin => out.push(CatNumLayer::Violin {
+                bandwidth: layer.bandwidth,
+                span,
+            }),
+            LayerKind::Median => out.push(CatNumLayer::Median {
+                error: layer.error.map(|e| e.0),
+                span,
+            }),
             LayerKind::Mean => {
                 check_mean(book, x, y, layer, diags);
-                out.push(CatNumLayer::Mean { error: layer.error.map(|e| e.0), bar: layer.bar.is_some(), span });
+                out.push(CatNumLayer::Mean {
+                    error: layer.error.map(|e| e.0),
+                    bar: layer.bar.is_some(),
+                    span,
+                });
             }
             LayerKind::Lines => {
                 let (by, by_span) = layer.by?;
@@ -542,24 +706,45 @@ fn cat_num_frame(book: &Codebook, x: &AxisVar, y: &AxisVar, layers: &[RawLayer],
                     .with_label(layer.head, "fits a line over numeric x"),
             ),
             LayerKind::Flows => diags.push(
-                Diagnostic::error(codes::LAYER_DOES_NOT_FIT, "`flows` needs a categorical y (the states)")
-                    .with_label(y.name_span, format!("y is {}", y.scale.as_str()))
-                    .with_help("put the nominal or ordinal state on y"),
+                Diagnostic::error(
+                    codes::LAYER_DOES_NOT_FIT,
+                    "`flows` needs a categorical y (the states)",
+                )
+                .with_label(y.name_span, format!("y is {}", y.scale.as_str()))
+                .with_help("put the nominal or ordinal state on y"),
             ),
-            LayerKind::Counts | LayerKind::Histogram | LayerKind::Density => diags.push(y_not_used(layer, y)),
+            LayerKind::Counts | LayerKind::Histogram | LayerKind::Density => {
+                diags.push(y_not_used(layer, y))
+            }
         }
     }
     warn_hidden_data(layers, diags);
-    Some(Frame::CatNum { x: x.cat_axis(), y: y.num_axis(), layers: out })
+    Some(Frame::CatNum {
+        x: x.cat_axis(),
+        y: y.num_axis(),
+        layers: out,
+    })
 }
 
-fn check_mean(book: &Codebook, x: &AxisVar, y: &AxisVar, layer: &RawLayer, diags: &mut Vec<Diagnostic>) {
+fn check_mean(
+    book: &Codebook,
+    x: &AxisVar,
+    y: &AxisVar,
+    layer: &RawLayer,
+    diags: &mut Vec<Diagnostic>,
+) {
     if let (Some(bar), Scale::Interval) = (layer.bar, y.scale) {
         diags.push(
-            Diagnostic::error(codes::BAR_WITHOUT_ZERO, format!("a bar from zero is meaningless: `{}` is interval, with no true zero", book.var(y.var).name))
-                .with_label(bar, "bar drawn from zero")
-                .with_label(y.name_span, "y is interval")
-                .with_help("remove `bar` and show the mean as a point with an interval"),
+            Diagnostic::error(
+                codes::BAR_WITHOUT_ZERO,
+                format!(
+                    "a bar from zero is meaningless: `{}` is interval, with no true zero",
+                    book.var(y.var).name
+                ),
+            )
+            .with_label(bar, "bar drawn from zero")
+            .with_label(y.name_span, "y is interval")
+            .with_help("remove `bar` and show the mean as a point with an interval"),
         );
     }
     if let Some((ErrorBar::CiWithin { .. }, span)) = layer.error {
@@ -580,7 +765,13 @@ fn check_mean(book: &Codebook, x: &AxisVar, y: &AxisVar, layer: &RawLayer, diags
     }
 }
 
-fn check_lines(book: &Codebook, x: &AxisVar, by: VarId, by_span: Span, diags: &mut Vec<Diagnostic>) {
+fn check_lines(
+    book: &Codebook,
+    x: &AxisVar,
+    by: VarId,
+    by_span: Span,
+    diags: &mut Vec<Diagnostic>,
+) {
     check_by_subject(book, by, by_span, diags);
     let xvar = book.var(x.var);
     if book.is_between(x.var) {
@@ -600,21 +791,32 @@ fn check_lines(book: &Codebook, x: &AxisVar, by: VarId, by_span: Span, diags: &m
 
 /// The two warnings of §4: a mean with nothing that shows spread or values; bars without points.
 fn warn_hidden_data(layers: &[RawLayer], diags: &mut Vec<Diagnostic>) {
-    let shows_values = |k: LayerKind| matches!(k, LayerKind::Points | LayerKind::Box | LayerKind::Violin | LayerKind::Lines);
+    let shows_values = |k: LayerKind| {
+        matches!(
+            k,
+            LayerKind::Points | LayerKind::Box | LayerKind::Violin | LayerKind::Lines
+        )
+    };
     let has_points = layers.iter().any(|l| l.kind == LayerKind::Points);
     for layer in layers.iter().filter(|l| l.kind == LayerKind::Mean) {
         if !layers.iter().any(|l| shows_values(l.kind)) {
             diags.push(
-                Diagnostic::warning(codes::MEAN_ALONE, "a mean alone hides how the values spread")
-                    .with_label(layer.head, "only the mean is shown")
-                    .with_help("add `points`, `box` or `violin` so readers see the distribution and n"),
+                Diagnostic::warning(
+                    codes::MEAN_ALONE,
+                    "a mean alone hides how the values spread",
+                )
+                .with_label(layer.head, "only the mean is shown")
+                .with_help("add `points`, `box` or `violin` so readers see the distribution and n"),
             );
         }
         if let (Some(bar), false) = (layer.bar, has_points) {
             diags.push(
-                Diagnostic::warning(codes::BAR_WITHOUT_POINTS, "bars of means hide the distribution")
-                    .with_label(bar, "bar without points")
-                    .with_help("add `points jitter(0.2)` to show the individual values"),
+                Diagnostic::warning(
+                    codes::BAR_WITHOUT_POINTS,
+                    "bars of means hide the distribution",
+                )
+                .with_label(bar, "bar without points")
+                .with_help("add `points jitter(0.2)` to show the individual values"),
             );
         }
     }

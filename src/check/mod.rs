@@ -110,10 +110,13 @@ fn visible_books(
         Some(&first) => {
             if books_of_file[idx].contains(&b) {
                 diags.push(
-                    Diagnostic::error(codes::DUPLICATE_NAME, format!("two data blocks are named `{}`", books[b].name))
-                        .with_label(books[b].span, "named again here")
-                        .with_label(books[first].span, "first declared here")
-                        .with_help("give each data block its own name"),
+                    Diagnostic::error(
+                        codes::DUPLICATE_NAME,
+                        format!("two data blocks are named `{}`", books[b].name),
+                    )
+                    .with_label(books[b].span, "named again here")
+                    .with_label(books[first].span, "first declared here")
+                    .with_help("give each data block its own name"),
                 );
             }
             false

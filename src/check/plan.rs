@@ -210,11 +210,17 @@ pub enum Whiskers {
 pub enum ErrorBar {
     Sd,
     Se,
-    Ci { level: f64 },
+    Ci {
+        level: f64,
+    },
     /// Cousineau–Morey within-subject interval.
-    CiWithin { level: f64 },
+    CiWithin {
+        level: f64,
+    },
     /// Percentile bootstrap interval.
-    Bootstrap { level: f64 },
+    Bootstrap {
+        level: f64,
+    },
 }
 
 /// Kernel bandwidth rule.
@@ -234,12 +240,31 @@ pub enum CountLayer {
 /// A layer over a categorical x and a numeric y.
 #[derive(Debug, Clone, PartialEq)]
 pub enum CatNumLayer {
-    Points { jitter: f64, span: Span },
-    Box { whiskers: Whiskers, span: Span },
-    Mean { error: Option<ErrorBar>, bar: bool, span: Span },
-    Median { error: Option<ErrorBar>, span: Span },
-    Lines { by: VarId, span: Span },
-    Violin { bandwidth: Bandwidth, span: Span },
+    Points {
+        jitter: f64,
+        span: Span,
+    },
+    Box {
+        whiskers: Whiskers,
+        span: Span,
+    },
+    Mean {
+        error: Option<ErrorBar>,
+        bar: bool,
+        span: Span,
+    },
+    Median {
+        error: Option<ErrorBar>,
+        span: Span,
+    },
+    Lines {
+        by: VarId,
+        span: Span,
+    },
+    Violin {
+        bandwidth: Bandwidth,
+        span: Span,
+    },
 }
 
 /// A layer over a categorical x and an ordinal y.
@@ -251,8 +276,15 @@ pub enum CatOrdLayer {
 /// A layer over a numeric x and no y.
 #[derive(Debug, Clone, PartialEq)]
 pub enum DistLayer {
-    Histogram { rule: BinRule, heights: Heights, span: Span },
-    Density { bandwidth: Bandwidth, span: Span },
+    Histogram {
+        rule: BinRule,
+        heights: Heights,
+        span: Span,
+    },
+    Density {
+        bandwidth: Bandwidth,
+        span: Span,
+    },
 }
 
 /// A layer over a numeric x and a numeric y.
@@ -268,15 +300,32 @@ pub enum Frame {
     /// `counts`: categorical x, bar heights on y.
     Counts { x: CatAxis, layers: Vec<CountLayer> },
     /// Categorical x, numeric y: points, box, mean, median, lines, violin.
-    CatNum { x: CatAxis, y: NumAxis, layers: Vec<CatNumLayer> },
+    CatNum {
+        x: CatAxis,
+        y: NumAxis,
+        layers: Vec<CatNumLayer>,
+    },
     /// Categorical x, ordinal y: medians only.
-    CatOrd { x: CatAxis, y: CatAxis, layers: Vec<CatOrdLayer> },
+    CatOrd {
+        x: CatAxis,
+        y: CatAxis,
+        layers: Vec<CatOrdLayer>,
+    },
     /// Numeric x, no y: histogram, density.
     Dist { x: NumAxis, layers: Vec<DistLayer> },
     /// Numeric x and y: points, fit.
-    Xy { x: NumAxis, y: NumAxis, layers: Vec<XyLayer> },
+    Xy {
+        x: NumAxis,
+        y: NumAxis,
+        layers: Vec<XyLayer>,
+    },
     /// Ordinal x occasions, categorical y states: flows.
-    Flows { x: CatAxis, y: CatAxis, by: VarId, span: Span },
+    Flows {
+        x: CatAxis,
+        y: CatAxis,
+        by: VarId,
+        span: Span,
+    },
 }
 
 /// Output formats.
@@ -291,9 +340,16 @@ pub struct Formats {
 #[derive(Debug, Clone, PartialEq)]
 pub enum Filter {
     /// Keep rows whose categorical variable's level index is in the set.
-    Levels { var: VarId, keep: Vec<usize> },
+    Levels {
+        var: VarId,
+        keep: Vec<usize>,
+    },
     /// Compare a numeric variable with a constant.
-    Numeric { var: VarId, op: crate::syntax::ast::CompareOp, value: f64 },
+    Numeric {
+        var: VarId,
+        op: crate::syntax::ast::CompareOp,
+        value: f64,
+    },
     Not(Box<Filter>),
     And(Box<Filter>, Box<Filter>),
     Or(Box<Filter>, Box<Filter>),

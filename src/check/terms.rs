@@ -34,7 +34,11 @@ pub struct Accepts<'s> {
 }
 
 /// Sorts `terms` into options and flags, reporting unknown and repeated ones.
-pub fn options<'a>(terms: &'a [Term], accepts: &Accepts, diags: &mut Vec<Diagnostic>) -> Options<'a> {
+pub fn options<'a>(
+    terms: &'a [Term],
+    accepts: &Accepts,
+    diags: &mut Vec<Diagnostic>,
+) -> Options<'a> {
     let mut out = Options::default();
     for term in terms {
         match term {
@@ -58,18 +62,27 @@ pub fn options<'a>(terms: &'a [Term], accepts: &Accepts, diags: &mut Vec<Diagnos
                     }
                 } else if accepts.calls.contains(&name) {
                     diags.push(
-                        Diagnostic::error(codes::BAD_ARGUMENT, format!("`{name}` needs a value in parentheses"))
-                            .with_label(word.span, "no value given")
-                            .with_help(format!("write `{name}(...)`; see the language reference for {}", accepts.what)),
+                        Diagnostic::error(
+                            codes::BAD_ARGUMENT,
+                            format!("`{name}` needs a value in parentheses"),
+                        )
+                        .with_label(word.span, "no value given")
+                        .with_help(format!(
+                            "write `{name}(...)`; see the language reference for {}",
+                            accepts.what
+                        )),
                     );
                 } else {
                     diags.push(unknown_option(word, accepts));
                 }
             }
             other => diags.push(
-                Diagnostic::error(codes::BAD_ARGUMENT, format!("unexpected value after {}", accepts.what))
-                    .with_label(other.span(), "not expected here")
-                    .with_help(option_list_help(accepts)),
+                Diagnostic::error(
+                    codes::BAD_ARGUMENT,
+                    format!("unexpected value after {}", accepts.what),
+                )
+                .with_label(other.span(), "not expected here")
+                .with_help(option_list_help(accepts)),
             ),
         }
     }
@@ -77,7 +90,11 @@ pub fn options<'a>(terms: &'a [Term], accepts: &Accepts, diags: &mut Vec<Diagnos
 }
 
 fn option_list_help(accepts: &Accepts) -> String {
-    let mut all: Vec<String> = accepts.calls.iter().map(|c| format!("`{c}(...)`")).collect();
+    let mut all: Vec<String> = accepts
+        .calls
+        .iter()
+        .map(|c| format!("`{c}(...)`"))
+        .collect();
     all.extend(accepts.flags.iter().map(|f| format!("`{f}`")));
     if all.is_empty() {
         format!("{} takes no options", accepts.what)
@@ -107,7 +124,12 @@ fn repeated(word: &Ident, first: Span) -> Diagnostic {
 }
 
 /// Exactly `n` arguments, or a diagnostic.
-pub fn arity<'a>(call: &'a Call, n: usize, shape: &str, diags: &mut Vec<Diagnostic>) -> Option<&'a [Term]> {
+pub fn arity<'a>(
+    call: &'a Call,
+    n: usize,
+    shape: &str,
+    diags: &mut Vec<Diagnostic>,
+) -> Option<&'a [Term]> {
     if call.args.items.len() == n {
         Some(&call.args.items)
     } else {
@@ -153,7 +175,11 @@ pub fn expect_num<'a>(term: &'a Term, shape: &str, diags: &mut Vec<Diagnostic>) 
     }
 }
 
-pub fn expect_word<'a>(term: &'a Term, shape: &str, diags: &mut Vec<Diagnostic>) -> Option<&'a Ident> {
+pub fn expect_word<'a>(
+    term: &'a Term,
+    shape: &str,
+    diags: &mut Vec<Diagnostic>,
+) -> Option<&'a Ident> {
     match term {
         Term::Word(w) => Some(w),
         other => {
@@ -174,28 +200,42 @@ pub fn expect_choice<'a>(
     if choices.contains(&word.name.as_str()) {
         return Some(word);
     }
-    let list = choices.iter().map(|c| format!("`{c}`")).collect::<Vec<_>>().join(", ");
+    let list = choices
+        .iter()
+        .map(|c| format!("`{c}`"))
+        .collect::<Vec<_>>()
+        .join(", ");
     let help = match did_you_mean(&word.name, choices.iter().copied()) {
         Some(s) => format!("did you mean `{s}`? the choices are {list}"),
         None => format!("the choices are {list}"),
     };
     diags.push(
-        Diagnostic::error(codes::BAD_ARGUMENT, format!("`{}` is not one of the choices here", word.name))
-            .with_label(word.span, "unknown choice")
-            .with_help(help),
+        Diagnostic::error(
+            codes::BAD_ARGUMENT,
+            format!("`{}` is not one of the choices here", word.name),
+        )
+        .with_label(word.span, "unknown choice")
+        .with_help(help),
     );
     None
 }
 
 /// A statement's terms after its head must be exactly one word (e.g. `from reading`).
-pub fn one_word<'a>(stmt: &'a Plain, shape: &str, diags: &mut Vec<Diagnostic>) -> Option<&'a Ident> {
+pub fn one_word<'a>(
+    stmt: &'a Plain,
+    shape: &str,
+    diags: &mut Vec<Diagnostic>,
+) -> Option<&'a Ident> {
     match stmt.terms.as_slice() {
         [Term::Word(w)] => Some(w),
         [] => {
             diags.push(
-                Diagnostic::error(codes::BAD_ARGUMENT, format!("`{}` needs a name", stmt.head.name))
-                    .with_label(stmt.head.span, "name missing")
-                    .with_help(format!("write `{shape}`")),
+                Diagnostic::error(
+                    codes::BAD_ARGUMENT,
+                    format!("`{}` needs a name", stmt.head.name),
+                )
+                .with_label(stmt.head.span, "name missing")
+                .with_help(format!("write `{shape}`")),
             );
             None
         }
@@ -207,14 +247,21 @@ pub fn one_word<'a>(stmt: &'a Plain, shape: &str, diags: &mut Vec<Diagnostic>) -
 }
 
 /// A statement's terms after its head must be exactly one string (e.g. `title "..."`).
-pub fn one_string<'a>(stmt: &'a Plain, shape: &str, diags: &mut Vec<Diagnostic>) -> Option<&'a Str> {
+pub fn one_string<'a>(
+    stmt: &'a Plain,
+    shape: &str,
+    diags: &mut Vec<Diagnostic>,
+) -> Option<&'a Str> {
     match stmt.terms.as_slice() {
         [Term::Str(s)] => Some(s),
         [] => {
             diags.push(
-                Diagnostic::error(codes::BAD_ARGUMENT, format!("`{}` needs a text", stmt.head.name))
-                    .with_label(stmt.head.span, "text missing")
-                    .with_help(format!("write `{shape}`")),
+                Diagnostic::error(
+                    codes::BAD_ARGUMENT,
+                    format!("`{}` needs a text", stmt.head.name),
+                )
+                .with_label(stmt.head.span, "text missing")
+                .with_help(format!("write `{shape}`")),
             );
             None
         }
@@ -226,7 +273,11 @@ pub fn one_string<'a>(stmt: &'a Plain, shape: &str, diags: &mut Vec<Diagnostic>)
 }
 
 /// Level names: strings, or numbers written as in the data (`levels(1, 2, 3)`).
-pub fn level_list(args: &Args, shape: &str, diags: &mut Vec<Diagnostic>) -> Option<Vec<(String, Span)>> {
+pub fn level_list(
+    args: &Args,
+    shape: &str,
+    diags: &mut Vec<Diagnostic>,
+) -> Option<Vec<(String, Span)>> {
     let mut out = Vec::new();
     for term in &args.items {
         match term {
@@ -259,7 +310,10 @@ fn wrong_kind(term: &Term, wanted: &str, shape: &str) -> Diagnostic {
         Term::Length(_) => "a length",
         Term::Call(_) => "an option",
     };
-    Diagnostic::error(codes::BAD_ARGUMENT, format!("expected {wanted}, found {found}"))
-        .with_label(term.span(), format!("expected {wanted}"))
-        .with_help(format!("write `{shape}`"))
+    Diagnostic::error(
+        codes::BAD_ARGUMENT,
+        format!("expected {wanted}, found {found}"),
+    )
+    .with_label(term.span(), format!("expected {wanted}"))
+    .with_help(format!("write `{shape}`"))
 }

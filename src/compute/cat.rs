@@ -3,21 +3,27 @@
 
 use std::collections::BTreeMap;
 
-use crate::check::plan::{CatAxis, CatNumLayer, CatOrdLayer, CountLayer, ErrorBar, Heights, NumAxis, Whiskers};
+use crate::check::plan::{
+    CatAxis, CatNumLayer, CatOrdLayer, CountLayer, ErrorBar, Heights, NumAxis, Whiskers,
+};
 use crate::stats;
 
 use super::rows::{self, Cell, Levels, Obs, Placed};
 use super::summary::RowKey;
 use super::{
-    Bar, BoxMark, CatPoint, ComputeError, Context, Estimate, EstimateKind, FigureData, LayerMarks, LevelMark, NumScale,
-    PanelData, SubjectPath, XScale, YScale,
+    Bar, BoxMark, CatPoint, ComputeError, Context, Estimate, EstimateKind, FigureData, LayerMarks,
+    LevelMark, NumScale, PanelData, SubjectPath, XScale, YScale,
 };
 
 /// Seed mixed into every jitter key, so figures of the same data jitter alike (documented).
 const JITTER_SEED: u64 = 0x5eed_f16a;
 
 /// `counts`: how many kept rows fall in each level of x (per panel and colour group).
-pub fn counts(ctx: &Context, x: &CatAxis, layers: &[CountLayer]) -> Result<FigureData, ComputeError> {
+pub fn counts(
+    ctx: &Context,
+    x: &CatAxis,
+    layers: &[CountLayer],
+) -> Result<FigureData, ComputeError> {
     let levels = rows::axis_levels(ctx.table, ctx.book, x, &ctx.keep)?;
     let (codes, _) = rows::codes(ctx.table, ctx.book, x.var.var)?;
     let ones: Vec<Option<f64>> = vec![Some(1.0); ctx.table.n_rows()];
@@ -39,33 +45,53 @@ pub fn counts(ctx: &Context, x: &CatAxis, layers: &[CountLayer]) -> Result<Figur
             for g in 0..ctx.groups.len() {
                 let total: usize = (0..levels.len()).map(|xi| tally[xi][g]).sum();
                 summary.push(key(ctx, p, "counts", g, "").count("n", total));
-                summary.push(key(ctx, p, "counts", g, "").count("n_missing", placed.unplaced_in(p, g)));
+                summary.push(
+                    key(ctx, p, "counts", g, "").count("n_missing", placed.unplaced_in(p, g)),
+                );
                 for (xi, name) in levels.names.iter().enumerate() {
                     let count = tally[xi][g];
                     let k = key(ctx, p, "counts", g, name);
                     summary.push(k.count("count", count));
                     let height = match heights {
                         Heights::Percent => {
-                            let pct = if total > 0 { 100.0 * count as f64 / total as f64 } else { 0.0 };
+                            let pct = if total > 0 {
+                                100.0 * count as f64 / total as f64
+                            } else {
+                                0.0
+                            };
                             summary.push(k.number("percent", pct));
                             pct
                         }
                         _ => count as f64,
                     };
                     y_max = y_max.max(height);
-                    bars.push(Bar { x: xi, group: g, height });
+                    bars.push(Bar {
+                        x: xi,
+                        group: g,
+                        height,
+                    });
                 }
             }
             layers_out.push(LayerMarks::Bars(bars));
         }
         let n_by_x = (0..levels.len()).map(|xi| tally[xi].iter().sum()).collect();
-        panels.push(PanelData { label: ctx.panels.labels[p].clone(), layers: layers_out, n_by_x });
+        panels.push(PanelData {
+            label: ctx.panels.labels[p].clone(),
+            layers: layers_out,
+            n_by_x,
+        });
     }
     let title = ctx.title(x.var.var, &x.title);
     let y_title = if any_percent { "Percent" } else { "Count" }.to_string();
     Ok(FigureData {
         x: XScale::Categories { title, levels },
-        y: YScale::Numbers(NumScale { title: y_title, extent: (0.0, y_max), range: None, log: false, include_zero: true }),
+        y: YScale::Numbers(NumScale {
+            title: y_title,
+            extent: (0.0, y_max),
+            range: None,
+            log: false,
+            include_zero: true,
+        }),
         legend: ctx.legend(),
         panels,
         summary,
@@ -88,18 +114,32 @@ fn tally(placed: &Placed, panel: usize, n_x: usize, n_groups: usize) -> Vec<Vec<
 }
 
 fn key(ctx: &Context, panel: usize, layer: &'static str, group: usize, x: &str) -> RowKey {
-    RowKey { panel: ctx.panel_name(panel), layer, group: ctx.group_name(group), x: x.to_string() }
+    RowKey {
+        panel: ctx.panel_name(panel),
+        layer,
+        group: ctx.group_name(group),
+        x: x.to_string(),
+    }
 }
 
 /// Values of one cell, sorted.
 fn cell_values(obs: &[Obs], cell: Cell) -> Vec<f64> {
-    let mut v: Vec<f64> = obs.iter().filter(|o| o.cell == cell).map(|o| o.value).collect();
+    let mut v: Vec<f64> = obs
+        .iter()
+        .filter(|o| o.cell == cell)
+        .map(|o| o.value)
+        .collect();
     v.sort_by(f64::total_cmp);
     v
 }
 
 /// Categorical x, numeric y.
-pub fn cat_num(ctx: &Context, x: &CatAxis, y: &NumAxis, layers: &[CatNumLayer]) -> Result<FigureData, ComputeError> {
+pub fn cat_num(
+    ctx: &Context,
+    x: &CatAxis,
+    y: &NumAxis,
+    layers: &[CatNumLayer],
+) -> Result<FigureData, ComputeError> {
     let levels = rows::axis_levels(ctx.table, ctx.book, x, &ctx.keep)?;
     let (codes, _) = rows::codes(ctx.table, ctx.book, x.var.var)?;
     let values = rows::numbers(ctx.table, ctx.book, y.var.var)?;
@@ -119,14 +159,22 @@ pub fn cat_num(ctx: &Context, x: &CatAxis, y: &NumAxis, layers: &[CatNumLayer]) 
         let mut out = Vec::new();
         for layer in layers {
             let marks = match layer {
-                CatNumLayer::Points { jitter, .. } => points(ctx, &placed, p, &levels, *jitter, &mut summary),
-                CatNumLayer::Box { whiskers, .. } => boxes(ctx, &placed, p, &levels, *whiskers, &mut summary)?,
+                CatNumLayer::Points { jitter, .. } => {
+                    points(ctx, &placed, p, &levels, *jitter, &mut summary)
+                }
+                CatNumLayer::Box { whiskers, .. } => {
+                    boxes(ctx, &placed, p, &levels, *whiskers, &mut summary)?
+                }
                 CatNumLayer::Mean { error, bar, .. } => {
                     include_zero |= *bar;
                     means(ctx, &placed, p, &levels, *error, *bar, &mut summary)?
                 }
-                CatNumLayer::Median { error, .. } => medians(ctx, &placed, p, &levels, *error, &mut summary)?,
-                CatNumLayer::Lines { .. } => lines(ctx, &placed, p, points_jitter(layers), &mut summary),
+                CatNumLayer::Median { error, .. } => {
+                    medians(ctx, &placed, p, &levels, *error, &mut summary)?
+                }
+                CatNumLayer::Lines { .. } => {
+                    lines(ctx, &placed, p, points_jitter(layers), &mut summary)
+                }
                 CatNumLayer::Violin { span, .. } => return Err(unavailable(*span, "violin")),
             };
             for m in &marks {
@@ -134,13 +182,18 @@ pub fn cat_num(ctx: &Context, x: &CatAxis, y: &NumAxis, layers: &[CatNumLayer]) 
             }
             out.extend(marks);
         }
-        let n_by_x = (0..levels.len())
-            .map(|xi| placed.obs.iter().filter(|o| o.cell.panel == p && o.cell.x == xi).count())
-            .collect();
-        panels.push(PanelData { label: ctx.panels.labels[p].clone(), layers: out, n_by_x });
+        let n_by_x = n_by_x(&placed, p, levels.len());
+        panels.push(PanelData {
+            label: ctx.panels.labels[p].clone(),
+            layers: out,
+            n_by_x,
+        });
     }
     Ok(FigureData {
-        x: XScale::Categories { title: ctx.title(x.var.var, &x.title), levels },
+        x: XScale::Categories {
+            title: ctx.title(x.var.var, &x.title),
+            levels,
+        },
         y: YScale::Numbers(NumScale {
             title: ctx.title(y.var.var, &y.title),
             extent: extent.get(),
@@ -152,6 +205,26 @@ pub fn cat_num(ctx: &Context, x: &CatAxis, y: &NumAxis, layers: &[CatNumLayer]) 
         panels,
         summary,
     })
+}
+
+/// How many observational units each x slot of a panel shows: distinct subjects when the
+/// data declare one (a subject seen in two colour groups counts once), else values.
+fn n_by_x(placed: &Placed, panel: usize, n_levels: usize) -> Vec<usize> {
+    (0..n_levels)
+        .map(|xi| {
+            let here = placed
+                .obs
+                .iter()
+                .filter(|o| o.cell.panel == panel && o.cell.x == xi);
+            let mut subjects: Vec<u32> = here.clone().filter_map(|o| o.subject).collect();
+            if subjects.is_empty() {
+                return here.count();
+            }
+            subjects.sort_unstable();
+            subjects.dedup();
+            subjects.len() + here.filter(|o| o.subject.is_none()).count()
+        })
+        .collect()
 }
 
 fn unavailable(span: crate::diag::Span, what: &str) -> ComputeError {
@@ -204,19 +277,36 @@ impl Extent {
                     self.add(hi);
                 }
             }),
-            LayerMarks::Lines(paths) => paths.iter().flat_map(|p| &p.points).for_each(|(_, _, y)| self.add(*y)),
-            LayerMarks::Bins(_) | LayerMarks::XyPoints(_) | LayerMarks::Levels(_) | LayerMarks::Curves(_) => {}
+            LayerMarks::Lines(paths) => paths
+                .iter()
+                .flat_map(|p| &p.points)
+                .for_each(|(_, _, y)| self.add(*y)),
+            LayerMarks::Bins(_)
+            | LayerMarks::XyPoints(_)
+            | LayerMarks::Levels(_)
+            | LayerMarks::Curves(_) => {}
         }
     }
 }
 
-fn check_one_value_per_subject(ctx: &Context, placed: &Placed, levels: &Levels, layers: &[CatNumLayer]) -> Result<(), ComputeError> {
+fn check_one_value_per_subject(
+    ctx: &Context,
+    placed: &Placed,
+    levels: &Levels,
+    layers: &[CatNumLayer],
+) -> Result<(), ComputeError> {
     let per_subject = layers.iter().find_map(|l| match l {
         CatNumLayer::Lines { span, .. } => Some(*span),
-        CatNumLayer::Mean { error: Some(ErrorBar::CiWithin { .. }), span, .. } => Some(*span),
+        CatNumLayer::Mean {
+            error: Some(ErrorBar::CiWithin { .. }),
+            span,
+            ..
+        } => Some(*span),
         _ => None,
     });
-    let Some(span) = per_subject else { return Ok(()) };
+    let Some(span) = per_subject else {
+        return Ok(());
+    };
     match rows::repeated_subject(placed) {
         None => Ok(()),
         Some((subject, cell, first, second)) => {
@@ -227,13 +317,22 @@ fn check_one_value_per_subject(ctx: &Context, placed: &Placed, levels: &Levels, 
             if ctx.plan.panels.is_some() {
                 parts.push(format!("panel = \"{}\"", ctx.panels.names[cell.panel]));
             }
-            Err(rows::repeated_subject_error(&ctx.subject_name(subject), &format!("({})", parts.join(", ")), (first, second), span).into())
+            Err(rows::repeated_subject_error(
+                &ctx.subject_name(subject),
+                &format!("({})", parts.join(", ")),
+                (first, second),
+                span,
+            )
+            .into())
         }
     }
 }
 
 fn check_log_axis(ctx: &Context, y: &NumAxis, placed: &Placed) -> Result<(), ComputeError> {
-    let (Some(span), Some(zero)) = (y.scale_span, placed.obs.iter().find(|o| o.value <= 0.0)) else { return Ok(()) };
+    let (Some(span), Some(zero)) = (y.scale_span, placed.obs.iter().find(|o| o.value <= 0.0))
+    else {
+        return Ok(());
+    };
     let var = ctx.book.var(y.var.var);
     Err(crate::diag::Diagnostic::error(
         crate::check::codes::LOG_OF_ZERO,
@@ -255,22 +354,53 @@ fn for_cells(ctx: &Context, panel: usize, levels: &Levels) -> Vec<(Cell, String)
     let mut out = Vec::new();
     for (xi, name) in levels.names.iter().enumerate() {
         for g in 0..ctx.groups.len() {
-            out.push((Cell { panel, x: xi, group: g }, name.clone()));
+            out.push((
+                Cell {
+                    panel,
+                    x: xi,
+                    group: g,
+                },
+                name.clone(),
+            ));
         }
     }
     out
 }
 
-fn n_rows(ctx: &Context, placed: &Placed, cell: Cell, k: &RowKey, n: usize, summary: &mut Vec<super::SummaryRow>) {
+fn n_rows(
+    ctx: &Context,
+    placed: &Placed,
+    cell: Cell,
+    k: &RowKey,
+    n: usize,
+    summary: &mut Vec<super::SummaryRow>,
+) {
     let _ = ctx;
     summary.push(k.count("n", n));
-    summary.push(k.count("n_missing", placed.missing_by_cell.get(&cell).copied().unwrap_or(0)));
+    summary.push(k.count(
+        "n_missing",
+        placed.missing_by_cell.get(&cell).copied().unwrap_or(0),
+    ));
 }
 
-fn points(ctx: &Context, placed: &Placed, p: usize, levels: &Levels, jitter: f64, summary: &mut Vec<super::SummaryRow>) -> Vec<LayerMarks> {
+fn points(
+    ctx: &Context,
+    placed: &Placed,
+    p: usize,
+    levels: &Levels,
+    jitter: f64,
+    summary: &mut Vec<super::SummaryRow>,
+) -> Vec<LayerMarks> {
     for (cell, name) in for_cells(ctx, p, levels) {
         let n = placed.obs.iter().filter(|o| o.cell == cell).count();
-        n_rows(ctx, placed, cell, &key(ctx, p, "points", cell.group, &name), n, summary);
+        n_rows(
+            ctx,
+            placed,
+            cell,
+            &key(ctx, p, "points", cell.group, &name),
+            n,
+            summary,
+        );
     }
     let pts = placed
         .obs
@@ -286,13 +416,22 @@ fn points(ctx: &Context, placed: &Placed, p: usize, levels: &Levels, jitter: f64
     vec![LayerMarks::CatPoints(pts)]
 }
 
-fn boxes(ctx: &Context, placed: &Placed, p: usize, levels: &Levels, whiskers: Whiskers, summary: &mut Vec<super::SummaryRow>) -> Result<Vec<LayerMarks>, ComputeError> {
+fn boxes(
+    ctx: &Context,
+    placed: &Placed,
+    p: usize,
+    levels: &Levels,
+    whiskers: Whiskers,
+    summary: &mut Vec<super::SummaryRow>,
+) -> Result<Vec<LayerMarks>, ComputeError> {
     let mut out = Vec::new();
     for (cell, name) in for_cells(ctx, p, levels) {
         let values = cell_values(&placed.obs, cell);
         let k = key(ctx, p, "box", cell.group, &name);
         n_rows(ctx, placed, cell, &k, values.len(), summary);
-        let Ok(b) = stats::box_summary(&values, whiskers_rule(whiskers)) else { continue };
+        let Ok(b) = stats::box_summary(&values, whiskers_rule(whiskers)) else {
+            continue;
+        };
         summary.push(k.number("q1", b.q1));
         summary.push(k.number("median", b.median));
         summary.push(k.number("q3", b.q3));
@@ -334,7 +473,9 @@ fn means(
     summary: &mut Vec<super::SummaryRow>,
 ) -> Result<Vec<LayerMarks>, ComputeError> {
     let within = match error {
-        Some(ErrorBar::CiWithin { level }) => Some(within_intervals(ctx, placed, p, levels, level)?),
+        Some(ErrorBar::CiWithin { level }) => {
+            Some(within_intervals(ctx, placed, p, levels, level)?)
+        }
         _ => None,
     };
     let mut marks = Vec::new();
@@ -343,7 +484,9 @@ fn means(
         let values = cell_values(&placed.obs, cell);
         let k = key(ctx, p, "mean", cell.group, &name);
         n_rows(ctx, placed, cell, &k, values.len(), summary);
-        let Ok(m) = stats::moments(&values) else { continue };
+        let Ok(m) = stats::moments(&values) else {
+            continue;
+        };
         summary.push(k.number("mean", m.mean));
         let interval = match error {
             None => None,
@@ -360,37 +503,66 @@ fn means(
                 summary.push(k.number("ci_high", ci.high));
                 (ci.low, ci.high)
             }),
-            Some(ErrorBar::CiWithin { .. }) => within.as_ref().and_then(|w| w.get(&cell)).map(|&(lo, hi)| {
-                summary.push(k.number("ci_low", lo));
-                summary.push(k.number("ci_high", hi));
-                (lo, hi)
-            }),
-            Some(ErrorBar::Bootstrap { level }) => stats::bootstrap::bootstrap_mean(&values, level).ok().map(|ci| {
-                summary.push(k.number("ci_low", ci.low));
-                summary.push(k.number("ci_high", ci.high));
-                (ci.low, ci.high)
-            }),
+            Some(ErrorBar::CiWithin { .. }) => {
+                within.as_ref().and_then(|w| w.get(&cell)).map(|&(lo, hi)| {
+                    summary.push(k.number("ci_low", lo));
+                    summary.push(k.number("ci_high", hi));
+                    (lo, hi)
+                })
+            }
+            Some(ErrorBar::Bootstrap { level }) => stats::bootstrap::bootstrap_mean(&values, level)
+                .ok()
+                .map(|ci| {
+                    summary.push(k.number("ci_low", ci.low));
+                    summary.push(k.number("ci_high", ci.high));
+                    (ci.low, ci.high)
+                }),
         };
         if bar {
-            bars.push(Bar { x: cell.x, group: cell.group, height: m.mean });
+            bars.push(Bar {
+                x: cell.x,
+                group: cell.group,
+                height: m.mean,
+            });
         }
-        marks.push(Estimate { x: cell.x, group: cell.group, centre: m.mean, interval });
+        marks.push(Estimate {
+            x: cell.x,
+            group: cell.group,
+            centre: m.mean,
+            interval,
+        });
     }
     let mut out = Vec::new();
     if bar {
         out.push(LayerMarks::Bars(bars));
     }
-    out.push(LayerMarks::Estimates { marks, kind: EstimateKind::Mean });
+    out.push(LayerMarks::Estimates {
+        marks,
+        kind: EstimateKind::Mean,
+    });
     Ok(out)
 }
 
 /// Cousineau–Morey intervals for every cell of one panel, keyed by cell.
-fn within_intervals(ctx: &Context, placed: &Placed, p: usize, levels: &Levels, level: f64) -> Result<BTreeMap<Cell, (f64, f64)>, ComputeError> {
-    let colour_within = ctx.plan.colour.as_ref().is_some_and(|c| ctx.book.is_within(c.var));
+fn within_intervals(
+    ctx: &Context,
+    placed: &Placed,
+    p: usize,
+    levels: &Levels,
+    level: f64,
+) -> Result<BTreeMap<Cell, (f64, f64)>, ComputeError> {
+    let colour_within = ctx
+        .plan
+        .colour
+        .as_ref()
+        .is_some_and(|c| ctx.book.is_within(c.var));
     // Between-subject parts of the cell (colour groups that are not within factors) are
     // normalised separately; within cells are x levels, and colour levels when colour is within.
-    let between_groups: Vec<Option<usize>> =
-        if colour_within || ctx.plan.colour.is_none() { vec![None] } else { (0..ctx.groups.len()).map(Some).collect() };
+    let between_groups: Vec<Option<usize>> = if colour_within || ctx.plan.colour.is_none() {
+        vec![None]
+    } else {
+        (0..ctx.groups.len()).map(Some).collect()
+    };
     let mut out = BTreeMap::new();
     for between in between_groups {
         let cells: Vec<Cell> = (0..levels.len())
@@ -399,7 +571,11 @@ fn within_intervals(ctx: &Context, placed: &Placed, p: usize, levels: &Levels, l
                     Some(g) => vec![g],
                     None => (0..ctx.groups.len()).collect(),
                 };
-                groups.into_iter().map(move |g| Cell { panel: p, x, group: g })
+                groups.into_iter().map(move |g| Cell {
+                    panel: p,
+                    x,
+                    group: g,
+                })
             })
             .collect();
         let mut by_subject: BTreeMap<u32, BTreeMap<Cell, f64>> = BTreeMap::new();
@@ -408,9 +584,14 @@ fn within_intervals(ctx: &Context, placed: &Placed, p: usize, levels: &Levels, l
                 by_subject.entry(s).or_default().insert(o.cell, o.value);
             }
         }
-        let matrix: Vec<Vec<Option<f64>>> =
-            by_subject.values().map(|m| cells.iter().map(|c| m.get(c).copied()).collect()).collect();
-        let Ok(result) = stats::within_subject_intervals(&matrix, stats::Spread::Ci { level }) else { continue };
+        let matrix: Vec<Vec<Option<f64>>> = by_subject
+            .values()
+            .map(|m| cells.iter().map(|c| m.get(c).copied()).collect())
+            .collect();
+        let Ok(result) = stats::within_subject_intervals(&matrix, stats::Spread::Ci { level })
+        else {
+            continue;
+        };
         for (c, interval) in cells.iter().zip(result.cells) {
             out.insert(*c, (interval.low, interval.high));
         }
@@ -431,34 +612,57 @@ fn medians(
         let values = cell_values(&placed.obs, cell);
         let k = key(ctx, p, "median", cell.group, &name);
         n_rows(ctx, placed, cell, &k, values.len(), summary);
-        let Ok(median) = stats::quantile_sorted(&values, 0.5) else { continue };
+        let Ok(median) = stats::quantile_sorted(&values, 0.5) else {
+            continue;
+        };
         summary.push(k.number("median", median));
         let interval = match error {
-            Some(ErrorBar::Bootstrap { level }) => stats::bootstrap::bootstrap_median(&values, level).ok().map(|ci| {
-                summary.push(k.number("ci_low", ci.low));
-                summary.push(k.number("ci_high", ci.high));
-                (ci.low, ci.high)
-            }),
+            Some(ErrorBar::Bootstrap { level }) => {
+                stats::bootstrap::bootstrap_median(&values, level)
+                    .ok()
+                    .map(|ci| {
+                        summary.push(k.number("ci_low", ci.low));
+                        summary.push(k.number("ci_high", ci.high));
+                        (ci.low, ci.high)
+                    })
+            }
             _ => None,
         };
-        marks.push(Estimate { x: cell.x, group: cell.group, centre: median, interval });
+        marks.push(Estimate {
+            x: cell.x,
+            group: cell.group,
+            centre: median,
+            interval,
+        });
     }
-    Ok(vec![LayerMarks::Estimates { marks, kind: EstimateKind::Median }])
+    Ok(vec![LayerMarks::Estimates {
+        marks,
+        kind: EstimateKind::Median,
+    }])
 }
 
 /// The jitter of the figure's points layer, so lines meet the points they join.
 fn points_jitter(layers: &[CatNumLayer]) -> f64 {
-    layers.iter().find_map(|l| match l {
-        CatNumLayer::Points { jitter, .. } => Some(*jitter),
-        _ => None,
-    }).unwrap_or(0.0)
+    layers
+        .iter()
+        .find_map(|l| match l {
+            CatNumLayer::Points { jitter, .. } => Some(*jitter),
+            _ => None,
+        })
+        .unwrap_or(0.0)
 }
 
 fn jittered(o: &Obs, jitter: f64) -> f64 {
     jitter * stats::jitter_offset(jitter_key(o), o.cell.x as u64)
 }
 
-fn lines(ctx: &Context, placed: &Placed, p: usize, jitter: f64, summary: &mut Vec<super::SummaryRow>) -> Vec<LayerMarks> {
+fn lines(
+    ctx: &Context,
+    placed: &Placed,
+    p: usize,
+    jitter: f64,
+    summary: &mut Vec<super::SummaryRow>,
+) -> Vec<LayerMarks> {
     let mut by_subject: BTreeMap<(usize, u32), Vec<&Obs>> = BTreeMap::new();
     for o in placed.obs.iter().filter(|o| o.cell.panel == p) {
         if let Some(s) = o.subject {
@@ -470,7 +674,13 @@ fn lines(ctx: &Context, placed: &Placed, p: usize, jitter: f64, summary: &mut Ve
     for ((group, _), mut obs) in by_subject {
         obs.sort_by_key(|o| o.cell.x);
         n_by_group[group] += 1;
-        paths.push(SubjectPath { group, points: obs.iter().map(|o| (o.cell.x, jittered(o, jitter), o.value)).collect() });
+        paths.push(SubjectPath {
+            group,
+            points: obs
+                .iter()
+                .map(|o| (o.cell.x, jittered(o, jitter), o.value))
+                .collect(),
+        });
     }
     for (g, n) in n_by_group.iter().enumerate() {
         summary.push(key(ctx, p, "lines", g, "").count("n", *n));
@@ -479,12 +689,20 @@ fn lines(ctx: &Context, placed: &Placed, p: usize, jitter: f64, summary: &mut Ve
 }
 
 /// Categorical x, ordinal y: the median level per cell, with quartile levels.
-pub fn cat_ord(ctx: &Context, x: &CatAxis, y: &CatAxis, layers: &[CatOrdLayer]) -> Result<FigureData, ComputeError> {
+pub fn cat_ord(
+    ctx: &Context,
+    x: &CatAxis,
+    y: &CatAxis,
+    layers: &[CatOrdLayer],
+) -> Result<FigureData, ComputeError> {
     let levels = rows::axis_levels(ctx.table, ctx.book, x, &ctx.keep)?;
     let y_levels = rows::axis_levels(ctx.table, ctx.book, y, &ctx.keep)?;
     let (codes, _) = rows::codes(ctx.table, ctx.book, x.var.var)?;
     let (y_codes, _) = rows::codes(ctx.table, ctx.book, y.var.var)?;
-    let y_values: Vec<Option<f64>> = y_codes.iter().map(|c| c.map(|c| y_levels.slot(c) as f64)).collect();
+    let y_values: Vec<Option<f64>> = y_codes
+        .iter()
+        .map(|c| c.map(|c| y_levels.slot(c) as f64))
+        .collect();
     let placement = ctx.placement(Some((codes, &levels)));
     let mut placed = rows::place(&y_values, &ctx.keep, &placement);
     if let Some(rep) = &ctx.book.replicates {
@@ -507,22 +725,38 @@ pub fn cat_ord(ctx: &Context, x: &CatAxis, y: &CatAxis, layers: &[CatOrdLayer]) 
                 let k = key(ctx, p, "median", cell.group, &name);
                 let n: u64 = counts.iter().sum();
                 n_rows(ctx, &placed, cell, &k, n as usize, &mut summary);
-                let Ok(q) = stats::ordinal_quartiles(&counts) else { continue };
+                let Ok(q) = stats::ordinal_quartiles(&counts) else {
+                    continue;
+                };
                 summary.push(k.level("median", &y_levels.names[q.median]));
                 summary.push(k.level("q1", &y_levels.names[q.q1]));
                 summary.push(k.level("q3", &y_levels.names[q.q3]));
-                marks.push(LevelMark { x: cell.x, group: cell.group, median: q.median, q1: q.q1, q3: q.q3 });
+                marks.push(LevelMark {
+                    x: cell.x,
+                    group: cell.group,
+                    median: q.median,
+                    q1: q.q1,
+                    q3: q.q3,
+                });
             }
             out.push(LayerMarks::Levels(marks));
         }
-        let n_by_x = (0..levels.len())
-            .map(|xi| placed.obs.iter().filter(|o| o.cell.panel == p && o.cell.x == xi).count())
-            .collect();
-        panels.push(PanelData { label: ctx.panels.labels[p].clone(), layers: out, n_by_x });
+        let n_by_x = n_by_x(&placed, p, levels.len());
+        panels.push(PanelData {
+            label: ctx.panels.labels[p].clone(),
+            layers: out,
+            n_by_x,
+        });
     }
     Ok(FigureData {
-        x: XScale::Categories { title: ctx.title(x.var.var, &x.title), levels },
-        y: YScale::Categories { title: ctx.title(y.var.var, &y.title), levels: y_levels },
+        x: XScale::Categories {
+            title: ctx.title(x.var.var, &x.title),
+            levels,
+        },
+        y: YScale::Categories {
+            title: ctx.title(y.var.var, &y.title),
+            levels: y_levels,
+        },
         legend: ctx.legend(),
         panels,
         summary,

@@ -6,23 +6,38 @@ use crate::stats;
 use super::cat::Extent;
 use super::rows::{self, Obs};
 use super::summary::{bin_label, RowKey};
-use super::{Bin, ComputeError, Context, Curve, FigureData, LayerMarks, NumScale, PanelData, XScale, YScale};
+use super::{
+    Bin, ComputeError, Context, Curve, FigureData, LayerMarks, NumScale, PanelData, XScale, YScale,
+};
 
 /// Points at which a density curve is evaluated, across the padded data range.
 const DENSITY_GRID: usize = 256;
 
 fn key(ctx: &Context, panel: usize, layer: &'static str, group: usize, x: String) -> RowKey {
-    RowKey { panel: ctx.panel_name(panel), layer, group: ctx.group_name(group), x }
+    RowKey {
+        panel: ctx.panel_name(panel),
+        layer,
+        group: ctx.group_name(group),
+        x,
+    }
 }
 
 fn values_of(obs: &[Obs], panel: usize, group: usize) -> Vec<f64> {
-    let mut v: Vec<f64> = obs.iter().filter(|o| o.cell.panel == panel && o.cell.group == group).map(|o| o.value).collect();
+    let mut v: Vec<f64> = obs
+        .iter()
+        .filter(|o| o.cell.panel == panel && o.cell.group == group)
+        .map(|o| o.value)
+        .collect();
     v.sort_by(f64::total_cmp);
     v
 }
 
 /// Histogram and density of a numeric x.
-pub fn distribution(ctx: &Context, x: &NumAxis, layers: &[DistLayer]) -> Result<FigureData, ComputeError> {
+pub fn distribution(
+    ctx: &Context,
+    x: &NumAxis,
+    layers: &[DistLayer],
+) -> Result<FigureData, ComputeError> {
     let values = rows::numbers(ctx.table, ctx.book, x.var.var)?;
     let placed = rows::place(values, &ctx.keep, &ctx.placement(None));
     let mut x_extent = Extent::default();
@@ -48,7 +63,9 @@ pub fn distribution(ctx: &Context, x: &NumAxis, layers: &[DistLayer]) -> Result<
                         let k = key(ctx, p, "histogram", g, String::new());
                         summary.push(k.count("n", v.len()));
                         summary.push(k.count("n_missing", missing(&placed, p, g)));
-                        let Ok(h) = stats::histogram(&v, bin_rule(*rule)) else { continue };
+                        let Ok(h) = stats::histogram(&v, bin_rule(*rule)) else {
+                            continue;
+                        };
                         let n_bins = h.counts.len();
                         for (i, &count) in h.counts.iter().enumerate() {
                             let (lo, hi) = (h.edges[i], h.edges[i + 1]);
@@ -70,7 +87,12 @@ pub fn distribution(ctx: &Context, x: &NumAxis, layers: &[DistLayer]) -> Result<
                             x_extent.add(lo);
                             x_extent.add(hi);
                             y_extent.add(height);
-                            bins.push(Bin { lo, hi, group: g, height });
+                            bins.push(Bin {
+                                lo,
+                                hi,
+                                group: g,
+                                height,
+                            });
                         }
                     }
                     out.push(LayerMarks::Bins(bins));
@@ -83,21 +105,34 @@ pub fn distribution(ctx: &Context, x: &NumAxis, layers: &[DistLayer]) -> Result<
                         let k = key(ctx, p, "density", g, String::new());
                         summary.push(k.count("n", v.len()));
                         summary.push(k.count("n_missing", missing(&placed, p, g)));
-                        let Ok(h) = stats::bandwidth(&v, bandwidth_rule(*bandwidth)) else { continue };
+                        let Ok(h) = stats::bandwidth(&v, bandwidth_rule(*bandwidth)) else {
+                            continue;
+                        };
                         summary.push(k.number("bandwidth", h));
                         let (lo, hi) = (v[0] - 3.0 * h, v[v.len() - 1] + 3.0 * h);
-                        let grid: Vec<f64> = (0..DENSITY_GRID).map(|i| lo + (hi - lo) * i as f64 / (DENSITY_GRID - 1) as f64).collect();
-                        let Ok(ys) = stats::kde(&v, h, &grid) else { continue };
+                        let grid: Vec<f64> = (0..DENSITY_GRID)
+                            .map(|i| lo + (hi - lo) * i as f64 / (DENSITY_GRID - 1) as f64)
+                            .collect();
+                        let Ok(ys) = stats::kde(&v, h, &grid) else {
+                            continue;
+                        };
                         x_extent.add(lo);
                         x_extent.add(hi);
                         ys.iter().for_each(|y| y_extent.add(*y));
-                        curves.push(Curve { group: g, points: grid.into_iter().zip(ys).collect() });
+                        curves.push(Curve {
+                            group: g,
+                            points: grid.into_iter().zip(ys).collect(),
+                        });
                     }
                     out.push(LayerMarks::Curves(curves));
                 }
             }
         }
-        panels.push(PanelData { label: ctx.panels.labels[p].clone(), layers: out, n_by_x: Vec::new() });
+        panels.push(PanelData {
+            label: ctx.panels.labels[p].clone(),
+            layers: out,
+            n_by_x: Vec::new(),
+        });
     }
     Ok(FigureData {
         x: XScale::Numbers(NumScale {
@@ -107,7 +142,13 @@ pub fn distribution(ctx: &Context, x: &NumAxis, layers: &[DistLayer]) -> Result<
             log: false,
             include_zero: false,
         }),
-        y: YScale::Numbers(NumScale { title: y_title.to_string(), extent: y_extent.get(), range: None, log: false, include_zero: true }),
+        y: YScale::Numbers(NumScale {
+            title: y_title.to_string(),
+            extent: y_extent.get(),
+            range: None,
+            log: false,
+            include_zero: true,
+        }),
         legend: ctx.legend(),
         panels,
         summary,
@@ -115,7 +156,12 @@ pub fn distribution(ctx: &Context, x: &NumAxis, layers: &[DistLayer]) -> Result<
 }
 
 fn missing(placed: &rows::Placed, panel: usize, group: usize) -> usize {
-    placed.missing_by_cell.iter().filter(|(c, _)| c.panel == panel && c.group == group).map(|(_, n)| n).sum()
+    placed
+        .missing_by_cell
+        .iter()
+        .filter(|(c, _)| c.panel == panel && c.group == group)
+        .map(|(_, n)| n)
+        .sum()
 }
 
 fn bin_rule(rule: BinRule) -> stats::BinRule {
@@ -137,11 +183,20 @@ fn bandwidth_rule(b: Bandwidth) -> stats::BandwidthRule {
 }
 
 /// Points (and fitted lines) of y against a numeric x.
-pub fn xy(ctx: &Context, x: &NumAxis, y: &NumAxis, layers: &[XyLayer]) -> Result<FigureData, ComputeError> {
+pub fn xy(
+    ctx: &Context,
+    x: &NumAxis,
+    y: &NumAxis,
+    layers: &[XyLayer],
+) -> Result<FigureData, ComputeError> {
     let xs = rows::numbers(ctx.table, ctx.book, x.var.var)?;
     let ys = rows::numbers(ctx.table, ctx.book, y.var.var)?;
     // A pair is missing when either value is.
-    let pairs: Vec<Option<f64>> = xs.iter().zip(ys).map(|(a, b)| a.and(*b).map(|_| 0.0)).collect();
+    let pairs: Vec<Option<f64>> = xs
+        .iter()
+        .zip(ys)
+        .map(|(a, b)| a.and(*b).map(|_| 0.0))
+        .collect();
     let placed = rows::place(&pairs, &ctx.keep, &ctx.placement(None));
     let mut x_extent = Extent::default();
     let mut y_extent = Extent::default();
@@ -155,7 +210,11 @@ pub fn xy(ctx: &Context, x: &NumAxis, y: &NumAxis, layers: &[XyLayer]) -> Result
                     let mut pts = Vec::new();
                     for g in 0..ctx.groups.len() {
                         let k = key(ctx, p, "points", g, String::new());
-                        let obs: Vec<&Obs> = placed.obs.iter().filter(|o| o.cell.panel == p && o.cell.group == g).collect();
+                        let obs: Vec<&Obs> = placed
+                            .obs
+                            .iter()
+                            .filter(|o| o.cell.panel == p && o.cell.group == g)
+                            .collect();
                         summary.push(k.count("n", obs.len()));
                         summary.push(k.count("n_missing", missing(&placed, p, g)));
                         for o in obs {
@@ -177,7 +236,11 @@ pub fn xy(ctx: &Context, x: &NumAxis, y: &NumAxis, layers: &[XyLayer]) -> Result
                 }
             }
         }
-        panels.push(PanelData { label: ctx.panels.labels[p].clone(), layers: out, n_by_x: Vec::new() });
+        panels.push(PanelData {
+            label: ctx.panels.labels[p].clone(),
+            layers: out,
+            n_by_x: Vec::new(),
+        });
     }
     Ok(FigureData {
         x: XScale::Numbers(NumScale {

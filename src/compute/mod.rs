@@ -19,7 +19,7 @@ use crate::data::Table;
 use crate::diag::Diagnostic;
 
 pub use rows::Levels;
-pub use summary::{SummaryRow, StatValue};
+pub use summary::{StatValue, SummaryRow};
 
 /// Why a figure's numbers could not be computed.
 #[derive(Debug)]
@@ -153,7 +153,10 @@ pub enum LayerMarks {
     XyPoints(Vec<(f64, f64, usize)>),
     Boxes(Vec<BoxMark>),
     /// Means or medians; `dot` is false when the mean is drawn as a bar (already in `Bars`).
-    Estimates { marks: Vec<Estimate>, kind: EstimateKind },
+    Estimates {
+        marks: Vec<Estimate>,
+        kind: EstimateKind,
+    },
     Lines(Vec<SubjectPath>),
     Levels(Vec<LevelMark>),
     Curves(Vec<Curve>),
@@ -187,7 +190,11 @@ pub struct FigureData {
 }
 
 /// Computes a figure's numbers from its data table.
-pub fn compute(plan: &FigurePlan, book: &Codebook, table: &Table) -> Result<FigureData, ComputeError> {
+pub fn compute(
+    plan: &FigurePlan,
+    book: &Codebook,
+    table: &Table,
+) -> Result<FigureData, ComputeError> {
     let ctx = Context::new(plan, book, table)?;
     match &plan.frame {
         Frame::Counts { x, layers } => cat::counts(&ctx, x, layers),
@@ -218,18 +225,34 @@ pub(crate) struct Context<'a> {
 }
 
 impl<'a> Context<'a> {
-    fn new(plan: &'a FigurePlan, book: &'a Codebook, table: &'a Table) -> Result<Self, ComputeError> {
+    fn new(
+        plan: &'a FigurePlan,
+        book: &'a Codebook,
+        table: &'a Table,
+    ) -> Result<Self, ComputeError> {
         let keep = rows::filter_rows(table, book, plan.filter.as_ref())?;
         let (panels, panel_codes) = match &plan.panels {
             Some(v) => (
-                rows::levels(table, book, v, crate::check::plan::LevelOrder::Levels, &keep)?,
+                rows::levels(
+                    table,
+                    book,
+                    v,
+                    crate::check::plan::LevelOrder::Levels,
+                    &keep,
+                )?,
                 Some(rows::codes(table, book, v.var)?.0),
             ),
             None => (Levels::single(), None),
         };
         let (groups, group_codes) = match &plan.colour {
             Some(v) => (
-                rows::levels(table, book, v, crate::check::plan::LevelOrder::Levels, &keep)?,
+                rows::levels(
+                    table,
+                    book,
+                    v,
+                    crate::check::plan::LevelOrder::Levels,
+                    &keep,
+                )?,
                 Some(rows::codes(table, book, v.var)?.0),
             ),
             None => (Levels::single(), None),
@@ -238,7 +261,17 @@ impl<'a> Context<'a> {
             Some(s) => Some(rows::codes(table, book, s)?),
             None => None,
         };
-        Ok(Context { plan, book, table, keep, panels, groups, panel_codes, group_codes, subject_codes })
+        Ok(Context {
+            plan,
+            book,
+            table,
+            keep,
+            panels,
+            groups,
+            panel_codes,
+            group_codes,
+            subject_codes,
+        })
     }
 
     pub fn title(&self, var: VarId, given: &Option<String>) -> String {
@@ -246,10 +279,16 @@ impl<'a> Context<'a> {
     }
 
     pub fn legend(&self) -> Option<Legend> {
-        self.plan.colour.as_ref().map(|c| Legend { title: self.book.var(c.var).title(), levels: self.groups.clone() })
+        self.plan.colour.as_ref().map(|c| Legend {
+            title: self.book.var(c.var).title(),
+            levels: self.groups.clone(),
+        })
     }
 
-    pub fn placement<'p>(&'p self, x: Option<(&'p [Option<u32>], &'p Levels)>) -> rows::Placement<'p> {
+    pub fn placement<'p>(
+        &'p self,
+        x: Option<(&'p [Option<u32>], &'p Levels)>,
+    ) -> rows::Placement<'p> {
         rows::Placement {
             panel: self.panel_codes.map(|c| (c, &self.panels)),
             x,
@@ -259,14 +298,24 @@ impl<'a> Context<'a> {
     }
 
     pub fn panel_name(&self, p: usize) -> String {
-        if self.plan.panels.is_some() { self.panels.names[p].clone() } else { String::new() }
+        if self.plan.panels.is_some() {
+            self.panels.names[p].clone()
+        } else {
+            String::new()
+        }
     }
 
     pub fn group_name(&self, g: usize) -> String {
-        if self.plan.colour.is_some() { self.groups.names[g].clone() } else { String::new() }
+        if self.plan.colour.is_some() {
+            self.groups.names[g].clone()
+        } else {
+            String::new()
+        }
     }
 
     pub fn subject_name(&self, code: u32) -> String {
-        self.subject_codes.map(|(_, names)| names[code as usize].clone()).unwrap_or_default()
+        self.subject_codes
+            .map(|(_, names)| names[code as usize].clone())
+            .unwrap_or_default()
     }
 }

@@ -34,7 +34,11 @@ impl Levels {
 
     /// A single unnamed level, for a figure without panels or colour.
     pub fn single() -> Levels {
-        Levels { names: vec![String::new()], labels: vec![String::new()], slot_of_code: vec![0] }
+        Levels {
+            names: vec![String::new()],
+            labels: vec![String::new()],
+            slot_of_code: vec![0],
+        }
     }
 
     pub fn slot(&self, code: u32) -> usize {
@@ -43,26 +47,51 @@ impl Levels {
 }
 
 /// Codes of a categorical column, or an error naming the variable.
-pub fn codes<'t>(table: &'t Table, book: &Codebook, var: VarId) -> Result<(&'t [Option<u32>], &'t [String]), ComputeError> {
+pub fn codes<'t>(
+    table: &'t Table,
+    book: &Codebook,
+    var: VarId,
+) -> Result<(&'t [Option<u32>], &'t [String]), ComputeError> {
     let name = &book.var(var).name;
     match table.column(name) {
-        Some(Column::Categorical { codes, levels }) | Some(Column::Id { codes, values: levels }) => Ok((codes, levels)),
-        _ => Err(ComputeError::Internal(format!("column `{name}` is not categorical in the table"))),
+        Some(Column::Categorical { codes, levels })
+        | Some(Column::Id {
+            codes,
+            values: levels,
+        }) => Ok((codes, levels)),
+        _ => Err(ComputeError::Internal(format!(
+            "column `{name}` is not categorical in the table"
+        ))),
     }
 }
 
 /// Values of a numeric column.
-pub fn numbers<'t>(table: &'t Table, book: &Codebook, var: VarId) -> Result<&'t [Option<f64>], ComputeError> {
+pub fn numbers<'t>(
+    table: &'t Table,
+    book: &Codebook,
+    var: VarId,
+) -> Result<&'t [Option<f64>], ComputeError> {
     let name = &book.var(var).name;
-    table.numeric(name).ok_or_else(|| ComputeError::Internal(format!("column `{name}` is not numeric in the table")))
+    table.numeric(name).ok_or_else(|| {
+        ComputeError::Internal(format!("column `{name}` is not numeric in the table"))
+    })
 }
 
 /// Display order of a categorical variable's levels, counting only the kept rows.
-pub fn levels(table: &Table, book: &Codebook, var: &CatVar, order: LevelOrder, keep: &[bool]) -> Result<Levels, ComputeError> {
+pub fn levels(
+    table: &Table,
+    book: &Codebook,
+    var: &CatVar,
+    order: LevelOrder,
+    keep: &[bool],
+) -> Result<Levels, ComputeError> {
     let (codes, names) = codes(table, book, var.var)?;
     let decl = book.var(var.var);
     let label_of = |i: usize| -> String {
-        decl.labels.as_ref().and_then(|l| l.get(i).cloned()).unwrap_or_else(|| names[i].clone())
+        decl.labels
+            .as_ref()
+            .and_then(|l| l.get(i).cloned())
+            .unwrap_or_else(|| names[i].clone())
     };
     let mut order_codes: Vec<usize> = (0..names.len()).collect();
     match order {
@@ -90,21 +119,37 @@ pub fn levels(table: &Table, book: &Codebook, var: &CatVar, order: LevelOrder, k
 }
 
 /// Levels of an axis.
-pub fn axis_levels(table: &Table, book: &Codebook, axis: &CatAxis, keep: &[bool]) -> Result<Levels, ComputeError> {
+pub fn axis_levels(
+    table: &Table,
+    book: &Codebook,
+    axis: &CatAxis,
+    keep: &[bool],
+) -> Result<Levels, ComputeError> {
     levels(table, book, &axis.var, axis.order, keep)
 }
 
 /// Which rows pass the figure's filter. Missing values never satisfy a comparison.
-pub fn filter_rows(table: &Table, book: &Codebook, filter: Option<&Filter>) -> Result<Vec<bool>, ComputeError> {
+pub fn filter_rows(
+    table: &Table,
+    book: &Codebook,
+    filter: Option<&Filter>,
+) -> Result<Vec<bool>, ComputeError> {
     let n = table.n_rows();
     match filter {
         None => Ok(vec![true; n]),
-        Some(f) => (0..n).map(|row| eval(table, book, f, row).map(|v| v == Some(true))).collect(),
+        Some(f) => (0..n)
+            .map(|row| eval(table, book, f, row).map(|v| v == Some(true)))
+            .collect(),
     }
 }
 
 /// Three-valued: `None` when a value the test needs is missing (`not` of missing stays missing).
-fn eval(table: &Table, book: &Codebook, f: &Filter, row: usize) -> Result<Option<bool>, ComputeError> {
+fn eval(
+    table: &Table,
+    book: &Codebook,
+    f: &Filter,
+    row: usize,
+) -> Result<Option<bool>, ComputeError> {
     Ok(match f {
         Filter::Levels { var, keep } => {
             let (codes, _) = codes(table, book, *var)?;
@@ -183,7 +228,11 @@ impl Placement<'_> {
                 Some((codes, levels)) => codes[row].map(|c| levels.slot(c)),
             }
         };
-        Some(Cell { panel: slot(&self.panel)?, x: slot(&self.x)?, group: slot(&self.group)? })
+        Some(Cell {
+            panel: slot(&self.panel)?,
+            x: slot(&self.x)?,
+            group: slot(&self.group)?,
+        })
     }
 }
 
@@ -199,7 +248,12 @@ pub fn place(values: &[Option<f64>], keep: &[bool], placement: &Placement) -> Pl
             continue;
         };
         match value {
-            Some(v) => out.obs.push(Obs { cell, row, subject: placement.subject.and_then(|s| s[row]), value: *v }),
+            Some(v) => out.obs.push(Obs {
+                cell,
+                row,
+                subject: placement.subject.and_then(|s| s[row]),
+                value: *v,
+            }),
             None => *out.missing_by_cell.entry(cell).or_default() += 1,
         }
     }
@@ -248,7 +302,12 @@ pub fn repeated_subject(placed: &Placed) -> Option<(u32, Cell, usize, usize)> {
 }
 
 /// A diagnostic for a subject with two values in one cell (rule 7, found in the data).
-pub fn repeated_subject_error(subject: &str, cell: &str, rows: (usize, usize), layer_span: crate::diag::Span) -> Diagnostic {
+pub fn repeated_subject_error(
+    subject: &str,
+    cell: &str,
+    rows: (usize, usize),
+    layer_span: crate::diag::Span,
+) -> Diagnostic {
     Diagnostic::error(
         crate::check::codes::SUBJECT_REPEATED_IN_CELL,
         format!("subject \"{subject}\" has more than one value in cell {cell} (data rows {} and {})", rows.0 + 2, rows.1 + 2),

@@ -119,8 +119,16 @@ mod tests {
 
     #[test]
     fn fields_with_commas_are_quoted() {
-        let key = RowKey { panel: String::new(), layer: "histogram", group: String::new(), x: bin_label(0.0, 2.5, false) };
+        let key = RowKey {
+            panel: String::new(),
+            layer: "histogram",
+            group: String::new(),
+            x: bin_label(0.0, 2.5, false),
+        };
         let csv = to_csv(&[key.count("count", 3)]);
-        assert_eq!(csv, "panel,layer,group,x,stat,value\n,histogram,,\"[0,2.5)\",count,3\n");
+        assert_eq!(
+            csv,
+            "panel,layer,group,x,stat,value\n,histogram,,\"[0,2.5)\",count,3\n"
+        );
     }
 }

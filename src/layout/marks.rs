@@ -23,7 +23,10 @@ pub fn layers(frame: &PanelFrame, panel: &PanelData) -> Vec<Mark> {
                         y: y_top.min(y_zero),
                         width,
                         height: (y_zero - y_top).abs(),
-                        fill: Some(Fill { colour, opacity: 0.75 }),
+                        fill: Some(Fill {
+                            colour,
+                            opacity: 0.75,
+                        }),
                         stroke: None,
                     });
                 }
@@ -39,24 +42,38 @@ pub fn layers(frame: &PanelFrame, panel: &PanelData) -> Vec<Mark> {
                         y: y_top,
                         width: x1 - x0,
                         height: y_zero - y_top,
-                        fill: Some(Fill { colour, opacity: if overlay { 0.45 } else { 0.8 } }),
-                        stroke: Some(Stroke::solid(if overlay { colour } else { Colour::WHITE }, 0.2)),
+                        fill: Some(Fill {
+                            colour,
+                            opacity: if overlay { 0.45 } else { 0.8 },
+                        }),
+                        stroke: Some(Stroke::solid(
+                            if overlay { colour } else { Colour::WHITE },
+                            0.2,
+                        )),
                     });
                 }
             }
             LayerMarks::CatPoints(points) => {
                 for p in points {
                     let (cx, gw) = frame.group_slot(p.x, p.group);
-                    out.push(dot(Point::new(cx + p.offset * gw, frame.y(p.y)), group_colour(p.group, frame.n_groups)));
+                    out.push(dot(
+                        Point::new(cx + p.offset * gw, frame.y(p.y)),
+                        group_colour(p.group, frame.n_groups),
+                    ));
                 }
             }
             LayerMarks::XyPoints(points) => {
                 for (x, y, g) in points {
-                    out.push(dot(Point::new(frame.x_num(*x), frame.y(*y)), group_colour(*g, frame.n_groups)));
+                    out.push(dot(
+                        Point::new(frame.x_num(*x), frame.y(*y)),
+                        group_colour(*g, frame.n_groups),
+                    ));
                 }
             }
             LayerMarks::Boxes(boxes) => boxes.iter().for_each(|b| draw_box(&mut out, frame, b)),
-            LayerMarks::Estimates { marks, kind } => marks.iter().for_each(|e| draw_estimate(&mut out, frame, e, *kind)),
+            LayerMarks::Estimates { marks, kind } => marks
+                .iter()
+                .for_each(|e| draw_estimate(&mut out, frame, e, *kind)),
             LayerMarks::Lines(paths) => {
                 for path in paths {
                     let points = path
@@ -67,7 +84,10 @@ pub fn layers(frame: &PanelFrame, panel: &PanelData) -> Vec<Mark> {
                             Point::new(cx + offset * gw, frame.y(*y))
                         })
                         .collect();
-                    let stroke = Stroke { opacity: LINE_OPACITY, ..Stroke::solid(group_colour(path.group, frame.n_groups), LINE_WIDTH_MM) };
+                    let stroke = Stroke {
+                        opacity: LINE_OPACITY,
+                        ..Stroke::solid(group_colour(path.group, frame.n_groups), LINE_WIDTH_MM)
+                    };
                     out.push(Mark::Line { points, stroke });
                 }
             }
@@ -76,7 +96,10 @@ pub fn layers(frame: &PanelFrame, panel: &PanelData) -> Vec<Mark> {
                     let (cx, _) = frame.group_slot(l.x, l.group);
                     let colour = group_colour(l.group, frame.n_groups);
                     out.push(Mark::Line {
-                        points: vec![Point::new(cx, frame.y(l.q1 as f64)), Point::new(cx, frame.y(l.q3 as f64))],
+                        points: vec![
+                            Point::new(cx, frame.y(l.q1 as f64)),
+                            Point::new(cx, frame.y(l.q3 as f64)),
+                        ],
                         stroke: Stroke::solid(colour, ERROR_LINE_MM * 2.0),
                     });
                     out.push(Mark::Circle {
@@ -90,14 +113,28 @@ pub fn layers(frame: &PanelFrame, panel: &PanelData) -> Vec<Mark> {
             LayerMarks::Curves(curves) => {
                 for c in curves {
                     let colour = group_colour(c.group, frame.n_groups);
-                    let line: Vec<Point> = c.points.iter().map(|(x, y)| Point::new(frame.x_num(*x), frame.y(*y))).collect();
+                    let line: Vec<Point> = c
+                        .points
+                        .iter()
+                        .map(|(x, y)| Point::new(frame.x_num(*x), frame.y(*y)))
+                        .collect();
                     let mut area = line.clone();
                     if let (Some(first), Some(last)) = (line.first(), line.last()) {
                         area.push(Point::new(last.x, frame.y(0.0)));
                         area.push(Point::new(first.x, frame.y(0.0)));
                     }
-                    out.push(Mark::Polygon { points: area, fill: Some(Fill { colour, opacity: 0.15 }), stroke: None });
-                    out.push(Mark::Line { points: line, stroke: Stroke::solid(colour, 0.4) });
+                    out.push(Mark::Polygon {
+                        points: area,
+                        fill: Some(Fill {
+                            colour,
+                            opacity: 0.15,
+                        }),
+                        stroke: None,
+                    });
+                    out.push(Mark::Line {
+                        points: line,
+                        stroke: Stroke::solid(colour, 0.4),
+                    });
                 }
             }
         }
@@ -106,12 +143,24 @@ pub fn layers(frame: &PanelFrame, panel: &PanelData) -> Vec<Mark> {
 }
 
 fn dot(centre: Point, colour: Colour) -> Mark {
-    Mark::Circle { centre, radius: POINT_RADIUS_MM, fill: Some(Fill { colour, opacity: POINT_OPACITY }), stroke: None }
+    Mark::Circle {
+        centre,
+        radius: POINT_RADIUS_MM,
+        fill: Some(Fill {
+            colour,
+            opacity: POINT_OPACITY,
+        }),
+        stroke: None,
+    }
 }
 
 /// Summary marks use ink when there is one group, and the group's colour otherwise.
 fn summary_colour(group: usize, n_groups: usize) -> Colour {
-    if n_groups > 1 { group_colour(group, n_groups) } else { INK }
+    if n_groups > 1 {
+        group_colour(group, n_groups)
+    } else {
+        INK
+    }
 }
 
 fn draw_box(out: &mut Vec<Mark>, frame: &PanelFrame, b: &BoxMark) {
@@ -120,10 +169,26 @@ fn draw_box(out: &mut Vec<Mark>, frame: &PanelFrame, b: &BoxMark) {
     let half = (gw * 0.5).min(8.0) / 2.0;
     let (y1, y3, ym) = (frame.y(b.q1), frame.y(b.q3), frame.y(b.median));
     let line = Stroke::solid(colour, BOX_LINE_MM);
-    out.push(Mark::Line { points: vec![Point::new(cx, y1), Point::new(cx, frame.y(b.whisker_low))], stroke: line.clone() });
-    out.push(Mark::Line { points: vec![Point::new(cx, y3), Point::new(cx, frame.y(b.whisker_high))], stroke: line.clone() });
-    out.push(Mark::Rect { x: cx - half, y: y3, width: 2.0 * half, height: y1 - y3, fill: None, stroke: Some(line.clone()) });
-    out.push(Mark::Line { points: vec![Point::new(cx - half, ym), Point::new(cx + half, ym)], stroke: Stroke::solid(colour, MEDIAN_LINE_MM) });
+    out.push(Mark::Line {
+        points: vec![Point::new(cx, y1), Point::new(cx, frame.y(b.whisker_low))],
+        stroke: line.clone(),
+    });
+    out.push(Mark::Line {
+        points: vec![Point::new(cx, y3), Point::new(cx, frame.y(b.whisker_high))],
+        stroke: line.clone(),
+    });
+    out.push(Mark::Rect {
+        x: cx - half,
+        y: y3,
+        width: 2.0 * half,
+        height: y1 - y3,
+        fill: None,
+        stroke: Some(line.clone()),
+    });
+    out.push(Mark::Line {
+        points: vec![Point::new(cx - half, ym), Point::new(cx + half, ym)],
+        stroke: Stroke::solid(colour, MEDIAN_LINE_MM),
+    });
     for o in &b.outliers {
         out.push(Mark::Circle {
             centre: Point::new(cx, frame.y(*o)),
@@ -141,9 +206,15 @@ fn draw_estimate(out: &mut Vec<Mark>, frame: &PanelFrame, e: &Estimate, kind: Es
         let cap = CAP_MM.min(gw * 0.4) / 2.0;
         let stroke = Stroke::solid(colour, ERROR_LINE_MM);
         let (ylo, yhi) = (frame.y(lo), frame.y(hi));
-        out.push(Mark::Line { points: vec![Point::new(cx, ylo), Point::new(cx, yhi)], stroke: stroke.clone() });
+        out.push(Mark::Line {
+            points: vec![Point::new(cx, ylo), Point::new(cx, yhi)],
+            stroke: stroke.clone(),
+        });
         for y in [ylo, yhi] {
-            out.push(Mark::Line { points: vec![Point::new(cx - cap, y), Point::new(cx + cap, y)], stroke: stroke.clone() });
+            out.push(Mark::Line {
+                points: vec![Point::new(cx - cap, y), Point::new(cx + cap, y)],
+                stroke: stroke.clone(),
+            });
         }
     }
     let centre = Point::new(cx, frame.y(e.centre));
@@ -178,7 +249,13 @@ pub fn legend(marks: &mut Vec<Mark>, legend: &Legend, width: f64, top: f64) -> f
     let mut x = MARGIN_MM;
     let mut y = top;
     let heading = format!("{}:", legend.title);
-    marks.push(text::label(&heading, Point::new(x, y + lh / 2.0), axis_title(), TextAlign::Start, TextBaseline::Middle));
+    marks.push(text::label(
+        &heading,
+        Point::new(x, y + lh / 2.0),
+        axis_title(),
+        TextAlign::Start,
+        TextBaseline::Middle,
+    ));
     x += text::width(&heading, &axis_title()) + 2.0 * GAP_MM;
     let n = legend.levels.len();
     for (g, label) in legend.levels.labels.iter().enumerate() {
@@ -195,7 +272,13 @@ pub fn legend(marks: &mut Vec<Mark>, legend: &Legend, width: f64, top: f64) -> f
             fill: Some(Fill::solid(group_colour(g, n))),
             stroke: None,
         });
-        marks.push(text::label(label, Point::new(x + swatch + GAP_MM, y + lh / 2.0), style, TextAlign::Start, TextBaseline::Middle));
+        marks.push(text::label(
+            label,
+            Point::new(x + swatch + GAP_MM, y + lh / 2.0),
+            style,
+            TextAlign::Start,
+            TextBaseline::Middle,
+        ));
         x += item_w;
     }
     y + lh

@@ -20,9 +20,6 @@ use crate::scene::{Fill, Mark, Point, Rect, Scene, Stroke, TextAlign, TextBaseli
 pub use axis::{format_tick, NumAxisMap};
 use style::*;
 
-/// Panels per row before the grid wraps.
-const MAX_COLUMNS: usize = 4;
-
 /// How a figure maps data to one panel's rectangle.
 pub(crate) struct PanelFrame<'a> {
     pub rect: Rect,
@@ -46,7 +43,9 @@ pub(crate) enum YMap<'a> {
 impl PanelFrame<'_> {
     /// Centre of group `g` within category slot `slot`, and the width one group may use.
     pub fn group_slot(&self, slot: usize, g: usize) -> (f64, f64) {
-        let XMap::Bands { n } = self.x else { return (self.rect.x, 0.0) };
+        let XMap::Bands { n } = self.x else {
+            return (self.rect.x, 0.0);
+        };
         band_slot(self.rect, n, self.n_groups, slot, g)
     }
 
@@ -79,7 +78,14 @@ struct CategoryLabels {
 /// Lays out a figure.
 pub fn layout(plan: &FigurePlan, data: &FigureData) -> Scene {
     let (w, h) = (plan.width_mm, plan.height_mm);
-    let mut marks = vec![Mark::Rect { x: 0.0, y: 0.0, width: w, height: h, fill: Some(Fill::solid(crate::scene::Colour::WHITE)), stroke: None }];
+    let mut marks = vec![Mark::Rect {
+        x: 0.0,
+        y: 0.0,
+        width: w,
+        height: h,
+        fill: Some(Fill::solid(crate::scene::Colour::WHITE)),
+        stroke: None,
+    }];
     let inner_w = w - 2.0 * MARGIN_MM;
     let mut top = MARGIN_MM;
     if let Some(t) = &plan.title {
@@ -99,62 +105,29 @@ pub fn layout(plan: &FigurePlan, data: &FigureData) -> Scene {
         XScale::Categories { title, .. } => title,
         XScale::Numbers(s) => &s.title,
     };
-    let x_title_h = text::line_height(&axis_title());
     let x_title_baseline = bottom - font_descent(&axis_title());
-    bottom -= x_title_h + GAP_MM;
+    bottom -= text::line_height(&axis_title()) + GAP_MM;
 
-    let y_axis = match &data.y {
-        YScale::Numbers(s) => Some(NumAxisMap::new(s)),
-        YScale::Categories { .. } => None,
+    // Plan the grid twice: the number of y ticks depends on the panels' height, and the left
+    // margin on the width of the tick labels.
+    let area = Area {
+        top,
+        bottom,
+        width: w,
     };
-    let x_axis = match &data.x {
-        XScale::Numbers(s) => Some(NumAxisMap::new(s)),
-        XScale::Categories { .. } => None,
-    };
-    let (y_title, y_labels) = match (&data.y, &y_axis) {
-        (YScale::Numbers(s), Some(a)) => (s.title.clone(), a.labels.clone()),
-        (YScale::Categories { title, levels }, _) => (title.clone(), levels.labels.clone()),
-        _ => (String::new(), Vec::new()),
-    };
-    let tick_w = y_labels.iter().map(|l| text::width(l, &tick_label())).fold(0.0, f64::max);
-    let left = MARGIN_MM + text::line_height(&axis_title()) + GAP_MM * 1.5 + tick_w + GAP_MM + TICK_MM;
-    let right = w - MARGIN_MM - right_overhang(&x_axis);
-
-    let n_panels = data.panels.len().max(1);
-    let cols = n_panels.min(MAX_COLUMNS);
-    let rows = n_panels.div_ceil(cols);
-    let panel_w = (right - left - PANEL_GAP_MM * (cols - 1) as f64) / cols as f64;
-    let strip_h = if plan.panels.is_some() { text::line_height(&panel_label()) + GAP_MM } else { 0.0 };
-    let cat_labels = match &data.x {
-        XScale::Categories { levels, .. } => Some(category_labels(levels, panel_w)),
-        XScale::Numbers(_) => None,
-    };
-    let shows_n = matches!(data.x, XScale::Categories { .. }) && data.panels.iter().any(|p| !p.n_by_x.is_empty());
-    let x_labels_h = TICK_MM
-        + GAP_MM
-        + match &cat_labels {
-            Some(c) => c.height + if shows_n { text::line_height(&n_label()) + 0.3 } else { 0.0 },
-            None => text::line_height(&tick_label()),
-        };
-    let top_pad = text::line_height(&tick_label()) / 2.0;
-    let avail = bottom - top - top_pad - (rows - 1) as f64 * PANEL_GAP_MM;
-    let panel_h = (avail / rows as f64 - strip_h - x_labels_h).max(5.0);
-
-    let y_map = match &y_axis {
+    let first = Grid::plan(plan, data, &area, 5);
+    let grid = Grid::plan(plan, data, &area, first.y_tick_target());
+    let y_map = match &grid.y_axis {
         Some(a) => YMap::Numbers(a),
-        None => YMap::Levels { n: y_labels.len() },
+        None => YMap::Levels {
+            n: grid.y_labels.len(),
+        },
     };
-    let mut plot_top = 0.0;
     for (i, panel) in data.panels.iter().enumerate() {
-        let (row, col) = (i / cols, i % cols);
-        let x0 = left + col as f64 * (panel_w + PANEL_GAP_MM);
-        let y0 = top + top_pad + row as f64 * (strip_h + panel_h + x_labels_h + PANEL_GAP_MM) + strip_h;
-        if i == 0 {
-            plot_top = y0;
-        }
+        let rect = grid.panel_rect(i);
         let frame = PanelFrame {
-            rect: Rect::new(x0, y0, panel_w, panel_h),
-            x: match (&x_axis, &data.x) {
+            rect,
+            x: match (&grid.x_axis, &data.x) {
                 (Some(a), _) => XMap::Numbers(a),
                 (None, XScale::Categories { levels, .. }) => XMap::Bands { n: levels.len() },
                 (None, XScale::Numbers(_)) => XMap::Bands { n: 1 },
@@ -166,16 +139,191 @@ pub fn layout(plan: &FigurePlan, data: &FigureData) -> Scene {
             n_groups: data.legend.as_ref().map_or(1, |l| l.levels.len()),
         };
         if plan.panels.is_some() {
-            marks.push(text::label(&panel.label, Point::new(x0 + panel_w / 2.0, y0 - GAP_MM - font_descent(&panel_label())), panel_label(), TextAlign::Middle, TextBaseline::Alphabetic));
+            let at = Point::new(
+                rect.x + rect.width / 2.0,
+                rect.y - GAP_MM - font_descent(&panel_label()),
+            );
+            marks.push(text::label(
+                &panel.label,
+                at,
+                panel_label(),
+                TextAlign::Middle,
+                TextBaseline::Alphabetic,
+            ));
         }
-        draw_y_grid(&mut marks, &frame, &y_map, &y_labels, col == 0);
-        marks.push(Mark::Clip { rect: frame.rect, marks: marks::layers(&frame, panel) });
-        draw_x_axis(&mut marks, &frame, &x_axis, cat_labels.as_ref(), shows_n.then_some(&panel.n_by_x));
+        draw_y_grid(
+            &mut marks,
+            &frame,
+            &y_map,
+            &grid.y_labels,
+            i % grid.cols == 0,
+        );
+        marks.push(Mark::Clip {
+            rect: frame.rect,
+            marks: marks::layers(&frame, panel),
+        });
+        let n_by_x = grid.shows_n.then_some(&panel.n_by_x);
+        draw_x_axis(
+            &mut marks,
+            &frame,
+            &grid.x_axis,
+            grid.cat_labels.as_ref(),
+            n_by_x,
+        );
     }
-    let plot_bottom = top + top_pad + rows as f64 * (strip_h + panel_h + x_labels_h) + (rows - 1) as f64 * PANEL_GAP_MM - x_labels_h;
-    marks.push(text::upward(&y_title, Point::new(MARGIN_MM, (plot_top + plot_bottom) / 2.0), axis_title()));
-    marks.push(text::label(x_title, Point::new((left + right) / 2.0, x_title_baseline), axis_title(), TextAlign::Middle, TextBaseline::Alphabetic));
-    Scene { width_mm: w, height_mm: h, title: plan.title.clone(), description: plan.caption.clone(), marks }
+    let (plot_top, plot_bottom) = grid.plot_span();
+    marks.push(text::upward(
+        &grid.y_title,
+        Point::new(MARGIN_MM, (plot_top + plot_bottom) / 2.0),
+        axis_title(),
+    ));
+    let x_centre = (grid.left + grid.right) / 2.0;
+    marks.push(text::label(
+        x_title,
+        Point::new(x_centre, x_title_baseline),
+        axis_title(),
+        TextAlign::Middle,
+        TextBaseline::Alphabetic,
+    ));
+    Scene {
+        width_mm: w,
+        height_mm: h,
+        title: plan.title.clone(),
+        description: plan.caption.clone(),
+        marks,
+    }
+}
+
+/// The page area left for the panels and their axes.
+struct Area {
+    top: f64,
+    bottom: f64,
+    width: f64,
+}
+
+/// Where the panels go, and the axes they share.
+struct Grid {
+    y_axis: Option<NumAxisMap>,
+    x_axis: Option<NumAxisMap>,
+    y_title: String,
+    y_labels: Vec<String>,
+    cat_labels: Option<CategoryLabels>,
+    shows_n: bool,
+    left: f64,
+    right: f64,
+    top: f64,
+    cols: usize,
+    rows: usize,
+    panel_w: f64,
+    panel_h: f64,
+    strip_h: f64,
+    x_labels_h: f64,
+}
+
+/// Narrowest panel worth drawing before the grid wraps onto another row.
+const MIN_PANEL_MM: f64 = 24.0;
+/// Vertical room per y tick the axis aims for.
+const MM_PER_Y_TICK: f64 = 9.0;
+
+impl Grid {
+    fn plan(plan: &FigurePlan, data: &FigureData, area: &Area, y_ticks: usize) -> Grid {
+        let y_axis = match &data.y {
+            YScale::Numbers(s) => Some(NumAxisMap::new(s, y_ticks)),
+            YScale::Categories { .. } => None,
+        };
+        let x_axis = match &data.x {
+            XScale::Numbers(s) => Some(NumAxisMap::new(s, 5)),
+            XScale::Categories { .. } => None,
+        };
+        let (y_title, y_labels) = match (&data.y, &y_axis) {
+            (YScale::Numbers(s), Some(a)) => (s.title.clone(), a.labels.clone()),
+            (YScale::Categories { title, levels }, _) => (title.clone(), levels.labels.clone()),
+            _ => (String::new(), Vec::new()),
+        };
+        let tick_w = y_labels
+            .iter()
+            .map(|l| text::width(l, &tick_label()))
+            .fold(0.0, f64::max);
+        let left =
+            MARGIN_MM + text::line_height(&axis_title()) + GAP_MM * 1.5 + tick_w + GAP_MM + TICK_MM;
+        let right = area.width - MARGIN_MM - right_overhang(&x_axis);
+        let n_panels = data.panels.len().max(1);
+        let width_for =
+            |cols: usize| (right - left - PANEL_GAP_MM * (cols - 1) as f64) / cols as f64;
+        let cols = (1..=n_panels)
+            .rev()
+            .find(|&c| width_for(c) >= MIN_PANEL_MM)
+            .unwrap_or(1);
+        let rows = n_panels.div_ceil(cols);
+        let panel_w = width_for(cols);
+        let strip_h = if plan.panels.is_some() {
+            text::line_height(&panel_label()) + GAP_MM
+        } else {
+            0.0
+        };
+        let cat_labels = match &data.x {
+            XScale::Categories { levels, .. } => Some(category_labels(levels, panel_w)),
+            XScale::Numbers(_) => None,
+        };
+        let shows_n = cat_labels.is_some() && data.panels.iter().any(|p| !p.n_by_x.is_empty());
+        let x_labels_h = TICK_MM
+            + GAP_MM
+            + match &cat_labels {
+                Some(c) => {
+                    c.height
+                        + if shows_n {
+                            text::line_height(&n_label()) + 0.3
+                        } else {
+                            0.0
+                        }
+                }
+                None => text::line_height(&tick_label()),
+            };
+        let top = area.top + text::line_height(&tick_label()) / 2.0;
+        let avail = area.bottom - top - (rows - 1) as f64 * PANEL_GAP_MM;
+        let panel_h = (avail / rows as f64 - strip_h - x_labels_h).max(5.0);
+        Grid {
+            y_axis,
+            x_axis,
+            y_title,
+            y_labels,
+            cat_labels,
+            shows_n,
+            left,
+            right,
+            top,
+            cols,
+            rows,
+            panel_w,
+            panel_h,
+            strip_h,
+            x_labels_h,
+        }
+    }
+
+    /// Ticks the y axis should aim for, given the panels' height.
+    fn y_tick_target(&self) -> usize {
+        ((self.panel_h / MM_PER_Y_TICK).floor() as usize + 1).clamp(3, 7)
+    }
+
+    fn row_height(&self) -> f64 {
+        self.strip_h + self.panel_h + self.x_labels_h + PANEL_GAP_MM
+    }
+
+    fn panel_rect(&self, i: usize) -> Rect {
+        let (row, col) = (i / self.cols, i % self.cols);
+        let x0 = self.left + col as f64 * (self.panel_w + PANEL_GAP_MM);
+        let y0 = self.top + row as f64 * self.row_height() + self.strip_h;
+        Rect::new(x0, y0, self.panel_w, self.panel_h)
+    }
+
+    /// Top of the first row of plots and bottom of the last.
+    fn plot_span(&self) -> (f64, f64) {
+        let first = self.top + self.strip_h;
+        let last =
+            self.top + (self.rows - 1) as f64 * self.row_height() + self.strip_h + self.panel_h;
+        (first, last)
+    }
 }
 
 fn font_descent(style: &TextStyle) -> f64 {
@@ -200,7 +348,13 @@ fn stacked_text(marks: &mut Vec<Mark>, t: &str, style: TextStyle, width: f64, to
 fn stacked_lines(marks: &mut Vec<Mark>, lines: &[String], style: TextStyle, top: f64) {
     let lh = text::line_height(&style);
     for (i, line) in lines.iter().enumerate() {
-        marks.push(text::label(line, Point::new(MARGIN_MM, top + i as f64 * lh), style, TextAlign::Start, TextBaseline::Top));
+        marks.push(text::label(
+            line,
+            Point::new(MARGIN_MM, top + i as f64 * lh),
+            style,
+            TextAlign::Start,
+            TextBaseline::Top,
+        ));
     }
 }
 
@@ -208,44 +362,104 @@ fn stacked_lines(marks: &mut Vec<Mark>, lines: &[String], style: TextStyle, top:
 fn category_labels(levels: &Levels, panel_w: f64) -> CategoryLabels {
     let band = panel_w / levels.len().max(1) as f64 - 0.8;
     for style in [tick_label(), small_tick_label()] {
-        let lines: Vec<Vec<String>> = levels.labels.iter().map(|l| text::wrap(l, &style, band)).collect();
-        let fits = lines.iter().flatten().all(|l| text::width(l, &style) <= band);
+        let lines: Vec<Vec<String>> = levels
+            .labels
+            .iter()
+            .map(|l| text::wrap(l, &style, band))
+            .collect();
+        let fits = lines
+            .iter()
+            .flatten()
+            .all(|l| text::width(l, &style) <= band);
         let max_lines = lines.iter().map(Vec::len).max().unwrap_or(1);
         if fits && max_lines <= 2 {
-            return CategoryLabels { height: max_lines as f64 * text::line_height(&style), lines, style, upright: false };
+            return CategoryLabels {
+                height: max_lines as f64 * text::line_height(&style),
+                lines,
+                style,
+                upright: false,
+            };
         }
     }
     let style = small_tick_label();
-    let longest = levels.labels.iter().map(|l| text::width(l, &style)).fold(0.0, f64::max);
-    CategoryLabels { lines: levels.labels.iter().map(|l| vec![l.clone()]).collect(), style, upright: true, height: longest }
+    let longest = levels
+        .labels
+        .iter()
+        .map(|l| text::width(l, &style))
+        .fold(0.0, f64::max);
+    CategoryLabels {
+        lines: levels.labels.iter().map(|l| vec![l.clone()]).collect(),
+        style,
+        upright: true,
+        height: longest,
+    }
 }
 
-fn draw_y_grid(marks: &mut Vec<Mark>, frame: &PanelFrame, y_map: &YMap, labels: &[String], with_labels: bool) {
+fn draw_y_grid(
+    marks: &mut Vec<Mark>,
+    frame: &PanelFrame,
+    y_map: &YMap,
+    labels: &[String],
+    with_labels: bool,
+) {
     let r = frame.rect;
     let positions: Vec<f64> = match y_map {
         YMap::Numbers(a) => a.ticks.iter().map(|t| frame.y(*t)).collect(),
         YMap::Levels { n } => (0..*n).map(|i| frame.y(i as f64)).collect(),
     };
     for (pos, label) in positions.iter().zip(labels) {
-        marks.push(Mark::Line { points: vec![Point::new(r.x, *pos), Point::new(r.x + r.width, *pos)], stroke: Stroke::solid(GRID, GRID_WIDTH_MM) });
-        marks.push(Mark::Line { points: vec![Point::new(r.x - TICK_MM, *pos), Point::new(r.x, *pos)], stroke: Stroke::solid(INK, AXIS_WIDTH_MM) });
+        marks.push(Mark::Line {
+            points: vec![Point::new(r.x, *pos), Point::new(r.x + r.width, *pos)],
+            stroke: Stroke::solid(GRID, GRID_WIDTH_MM),
+        });
+        marks.push(Mark::Line {
+            points: vec![Point::new(r.x - TICK_MM, *pos), Point::new(r.x, *pos)],
+            stroke: Stroke::solid(INK, AXIS_WIDTH_MM),
+        });
         if with_labels {
-            marks.push(text::label(label, Point::new(r.x - TICK_MM - GAP_MM, *pos), tick_label(), TextAlign::End, TextBaseline::Middle));
+            marks.push(text::label(
+                label,
+                Point::new(r.x - TICK_MM - GAP_MM, *pos),
+                tick_label(),
+                TextAlign::End,
+                TextBaseline::Middle,
+            ));
         }
     }
-    marks.push(Mark::Line { points: vec![Point::new(r.x, r.y), Point::new(r.x, r.y + r.height)], stroke: Stroke::solid(INK, AXIS_WIDTH_MM) });
+    marks.push(Mark::Line {
+        points: vec![Point::new(r.x, r.y), Point::new(r.x, r.y + r.height)],
+        stroke: Stroke::solid(INK, AXIS_WIDTH_MM),
+    });
 }
 
-fn draw_x_axis(marks: &mut Vec<Mark>, frame: &PanelFrame, x_axis: &Option<NumAxisMap>, cats: Option<&CategoryLabels>, n_by_x: Option<&Vec<usize>>) {
+fn draw_x_axis(
+    marks: &mut Vec<Mark>,
+    frame: &PanelFrame,
+    x_axis: &Option<NumAxisMap>,
+    cats: Option<&CategoryLabels>,
+    n_by_x: Option<&Vec<usize>>,
+) {
     let r = frame.rect;
     let base = r.y + r.height;
-    marks.push(Mark::Line { points: vec![Point::new(r.x, base), Point::new(r.x + r.width, base)], stroke: Stroke::solid(INK, AXIS_WIDTH_MM) });
+    marks.push(Mark::Line {
+        points: vec![Point::new(r.x, base), Point::new(r.x + r.width, base)],
+        stroke: Stroke::solid(INK, AXIS_WIDTH_MM),
+    });
     let label_top = base + TICK_MM + GAP_MM;
     if let Some(a) = x_axis {
         for (t, l) in a.ticks.iter().zip(&a.labels) {
             let x = frame.x_num(*t);
-            marks.push(Mark::Line { points: vec![Point::new(x, base), Point::new(x, base + TICK_MM)], stroke: Stroke::solid(INK, AXIS_WIDTH_MM) });
-            marks.push(text::label(l, Point::new(x, label_top), tick_label(), TextAlign::Middle, TextBaseline::Top));
+            marks.push(Mark::Line {
+                points: vec![Point::new(x, base), Point::new(x, base + TICK_MM)],
+                stroke: Stroke::solid(INK, AXIS_WIDTH_MM),
+            });
+            marks.push(text::label(
+                l,
+                Point::new(x, label_top),
+                tick_label(),
+                TextAlign::Middle,
+                TextBaseline::Top,
+            ));
         }
         return;
     }
@@ -253,7 +467,10 @@ fn draw_x_axis(marks: &mut Vec<Mark>, frame: &PanelFrame, x_axis: &Option<NumAxi
     let lh = text::line_height(&cats.style);
     for (slot, lines) in cats.lines.iter().enumerate() {
         let (centre, _) = band_slot(r, cats.lines.len(), 1, slot, 0);
-        marks.push(Mark::Line { points: vec![Point::new(centre, base), Point::new(centre, base + TICK_MM)], stroke: Stroke::solid(INK, AXIS_WIDTH_MM) });
+        marks.push(Mark::Line {
+            points: vec![Point::new(centre, base), Point::new(centre, base + TICK_MM)],
+            stroke: Stroke::solid(INK, AXIS_WIDTH_MM),
+        });
         if cats.upright {
             marks.push(Mark::Text(crate::scene::TextMark {
                 at: Point::new(centre, label_top),
@@ -265,11 +482,23 @@ fn draw_x_axis(marks: &mut Vec<Mark>, frame: &PanelFrame, x_axis: &Option<NumAxi
             }));
         } else {
             for (i, line) in lines.iter().enumerate() {
-                marks.push(text::label(line, Point::new(centre, label_top + i as f64 * lh), cats.style, TextAlign::Middle, TextBaseline::Top));
+                marks.push(text::label(
+                    line,
+                    Point::new(centre, label_top + i as f64 * lh),
+                    cats.style,
+                    TextAlign::Middle,
+                    TextBaseline::Top,
+                ));
             }
         }
         if let Some(n) = n_by_x.and_then(|n| n.get(slot)) {
-            marks.push(text::label(&format!("n = {n}"), Point::new(centre, label_top + cats.height + 0.3), n_label(), TextAlign::Middle, TextBaseline::Top));
+            marks.push(text::label(
+                &format!("n = {n}"),
+                Point::new(centre, label_top + cats.height + 0.3),
+                n_label(),
+                TextAlign::Middle,
+                TextBaseline::Top,
+            ));
         }
     }
 }
@@ -279,5 +508,8 @@ fn band_slot(rect: Rect, n: usize, n_groups: usize, slot: usize, g: usize) -> (f
     let band = rect.width / n.max(1) as f64;
     let used = band * BAND_FILL;
     let gw = used / n_groups.max(1) as f64;
-    (rect.x + band * slot as f64 + (band - used) / 2.0 + gw * (g as f64 + 0.5), gw)
+    (
+        rect.x + band * slot as f64 + (band - used) / 2.0 + gw * (g as f64 + 0.5),
+        gw,
+    )
 }

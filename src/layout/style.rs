@@ -25,36 +25,59 @@ pub const LINE_OPACITY: f64 = 0.4;
 pub const LINE_WIDTH_MM: f64 = 0.25;
 pub const BOX_LINE_MM: f64 = 0.3;
 pub const MEDIAN_LINE_MM: f64 = 0.55;
-pub const ESTIMATE_RADIUS_MM: f64 = 0.95;
+pub const ESTIMATE_RADIUS_MM: f64 = 0.8;
 pub const ERROR_LINE_MM: f64 = 0.35;
-pub const CAP_MM: f64 = 1.4;
+pub const CAP_MM: f64 = 2.2;
 /// Share of a category's band that its groups use (the rest separates categories).
 pub const BAND_FILL: f64 = 0.8;
 /// Padding added beyond the data at each end of a numeric axis, as a share of its span.
 pub const AXIS_PAD: f64 = 0.04;
 
 pub fn title() -> TextStyle {
-    TextStyle { size_pt: 9.0, weight: Weight::Bold, colour: INK }
+    TextStyle {
+        size_pt: 9.0,
+        weight: Weight::Bold,
+        colour: INK,
+    }
 }
 
 pub fn panel_label() -> TextStyle {
-    TextStyle { size_pt: 8.0, weight: Weight::Bold, colour: INK }
+    TextStyle {
+        size_pt: 8.0,
+        weight: Weight::Bold,
+        colour: INK,
+    }
 }
 
 pub fn axis_title() -> TextStyle {
-    TextStyle { size_pt: 8.0, weight: Weight::Regular, colour: INK }
+    TextStyle {
+        size_pt: 8.0,
+        weight: Weight::Regular,
+        colour: INK,
+    }
 }
 
 pub fn tick_label() -> TextStyle {
-    TextStyle { size_pt: 7.0, weight: Weight::Regular, colour: INK }
+    TextStyle {
+        size_pt: 7.0,
+        weight: Weight::Regular,
+        colour: INK,
+    }
 }
 
 pub fn small_tick_label() -> TextStyle {
-    TextStyle { size_pt: 6.0, ..tick_label() }
+    TextStyle {
+        size_pt: 6.0,
+        ..tick_label()
+    }
 }
 
 pub fn n_label() -> TextStyle {
-    TextStyle { size_pt: 6.0, weight: Weight::Regular, colour: MUTED }
+    TextStyle {
+        size_pt: 6.0,
+        weight: Weight::Regular,
+        colour: MUTED,
+    }
 }
 
 pub fn legend_label() -> TextStyle {
@@ -62,10 +85,16 @@ pub fn legend_label() -> TextStyle {
 }
 
 pub fn caption() -> TextStyle {
-    TextStyle { size_pt: 7.0, weight: Weight::Regular, colour: MUTED }
+    TextStyle {
+        size_pt: 7.0,
+        weight: Weight::Regular,
+        colour: MUTED,
+    }
 }
 
 /// Colour of group `g` of `n`; a figure without colour groups uses the palette's first colour.
 pub fn group_colour(g: usize, n: usize) -> Colour {
-    palette::group_colours(n.max(1)).and_then(|c| c.get(g).copied()).unwrap_or(INK)
+    palette::group_colours(n.max(1))
+        .and_then(|c| c.get(g).copied())
+        .unwrap_or(INK)
 }

@@ -19,7 +19,11 @@ pub fn wrap(text: &str, style: &TextStyle, max_mm: f64) -> Vec<String> {
     let mut lines: Vec<String> = Vec::new();
     let mut current = String::new();
     for word in text.split_whitespace() {
-        let candidate = if current.is_empty() { word.to_string() } else { format!("{current} {word}") };
+        let candidate = if current.is_empty() {
+            word.to_string()
+        } else {
+            format!("{current} {word}")
+        };
         if current.is_empty() || width(&candidate, style) <= max_mm {
             current = candidate;
         } else {
@@ -34,8 +38,21 @@ pub fn wrap(text: &str, style: &TextStyle, max_mm: f64) -> Vec<String> {
 }
 
 /// A horizontal text mark.
-pub fn label(text: &str, at: Point, style: TextStyle, align: TextAlign, baseline: TextBaseline) -> Mark {
-    Mark::Text(TextMark { at, text: text.to_string(), style, align, baseline, rotation: TextRotation::Horizontal })
+pub fn label(
+    text: &str,
+    at: Point,
+    style: TextStyle,
+    align: TextAlign,
+    baseline: TextBaseline,
+) -> Mark {
+    Mark::Text(TextMark {
+        at,
+        text: text.to_string(),
+        style,
+        align,
+        baseline,
+        rotation: TextRotation::Horizontal,
+    })
 }
 
 /// A text mark reading upwards (y-axis titles), centred on `at`.

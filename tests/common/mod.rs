@@ -15,8 +15,12 @@ pub fn expect_file(path: &Path, actual: &str) {
         std::fs::write(path, actual).unwrap();
         return;
     }
-    let expected = std::fs::read_to_string(path)
-        .unwrap_or_else(|_| panic!("missing expected file {} (run with UPDATE_EXPECT=1 to create it)", path.display()));
+    let expected = std::fs::read_to_string(path).unwrap_or_else(|_| {
+        panic!(
+            "missing expected file {} (run with UPDATE_EXPECT=1 to create it)",
+            path.display()
+        )
+    });
     if expected != actual {
         panic!(
             "\n{} differs from the actual output.\n--- expected\n{expected}\n--- actual\n{actual}\n(run with UPDATE_EXPECT=1 to accept)",
