@@ -27,7 +27,7 @@ impl NumAxisMap {
         }
         let mut best = Self::linear(scale, target);
         for more in 1..=3 {
-            if best.ticks.len() + 1 >= target.min(4) {
+            if best.ticks.len() >= target.min(4) {
                 break;
             }
             best = Self::linear(scale, target + more);
