@@ -69,12 +69,11 @@ pub fn check_figure(
         return None;
     };
     let (data_idx, book) = resolve_data(from, visible, diags)?;
-    let mut plan_parts = Resolved::default();
-    plan_parts.title = parts
+    let title = parts
         .title
         .and_then(|p| terms::one_string(p, "title \"...\"", diags))
         .map(|s| s.value.clone());
-    plan_parts.caption = parts
+    let caption = parts
         .caption
         .and_then(|p| terms::one_string(p, "caption \"...\"", diags))
         .map(|s| s.value.clone());
@@ -143,8 +142,8 @@ pub fn check_figure(
         name_span: block.name.span,
         spec_path: spec_path.to_path_buf(),
         data: data_idx,
-        title: plan_parts.title,
-        caption: plan_parts.caption,
+        title,
+        caption,
         frame,
         colour,
         panels,
@@ -154,12 +153,6 @@ pub fn check_figure(
         formats,
         dpi,
     })
-}
-
-#[derive(Default)]
-struct Resolved {
-    title: Option<String>,
-    caption: Option<String>,
 }
 
 fn count_errors(diags: &[Diagnostic]) -> usize {

@@ -28,26 +28,23 @@ pub fn counts(
     let (codes, _) = rows::codes(ctx.table, ctx.book, x.var.var)?;
     let ones: Vec<Option<f64>> = vec![Some(1.0); ctx.table.n_rows()];
     let placement = ctx.placement(Some((codes, &levels)));
-    let mut placed = rows::place(&ones, &ctx.keep, &placement);
-    // For counts a missing x is a missing value of the counted variable itself.
-    placed.missing_by_cell.clear();
+    let placed = rows::place(&ones, &ctx.keep, &placement);
+    let missing_x = missing_x_by_panel_group(ctx, codes);
     let mut panels = Vec::new();
     let mut summary = Vec::new();
     let mut y_max: f64 = 0.0;
     let mut any_percent = false;
-    for p in 0..ctx.panels.len() {
+    for (p, missing_in_panel) in missing_x.iter().enumerate() {
         let tally = tally(&placed, p, levels.len(), ctx.groups.len());
         let mut layers_out = Vec::new();
         for layer in layers {
             let CountLayer::Counts { heights, .. } = layer;
             any_percent |= *heights == Heights::Percent;
             let mut bars = Vec::new();
-            for g in 0..ctx.groups.len() {
-                let total: usize = (0..levels.len()).map(|xi| tally[xi][g]).sum();
+            for (g, missing) in missing_in_panel.iter().enumerate() {
+                let total: usize = tally.iter().map(|by_group| by_group[g]).sum();
                 summary.push(key(ctx, p, "counts", g, "").count("n", total));
-                summary.push(
-                    key(ctx, p, "counts", g, "").count("n_missing", placed.unplaced_in(p, g)),
-                );
+                summary.push(key(ctx, p, "counts", g, "").count("n_missing", *missing));
                 for (xi, name) in levels.names.iter().enumerate() {
                     let count = tally[xi][g];
                     let k = key(ctx, p, "counts", g, name);
@@ -98,11 +95,23 @@ pub fn counts(
     })
 }
 
-impl Placed {
-    /// Kept rows of one panel and group that could not be placed (missing x).
-    fn unplaced_in(&self, _panel: usize, _group: usize) -> usize {
-        self.unplaced
+/// Kept rows whose x is missing, per panel and colour group (rows missing those too are not
+/// counted anywhere: they belong to no panel or group).
+fn missing_x_by_panel_group(ctx: &Context, x_codes: &[Option<u32>]) -> Vec<Vec<usize>> {
+    let mut out = vec![vec![0usize; ctx.groups.len()]; ctx.panels.len()];
+    let slot = |codes: Option<&[Option<u32>]>, levels: &Levels, row: usize| match codes {
+        None => Some(0),
+        Some(c) => c[row].map(|code| levels.slot(code)),
+    };
+    for row in (0..x_codes.len()).filter(|&r| ctx.keep[r] && x_codes[r].is_none()) {
+        if let (Some(p), Some(g)) = (
+            slot(ctx.panel_codes, &ctx.panels, row),
+            slot(ctx.group_codes, &ctx.groups, row),
+        ) {
+            out[p][g] += 1;
+        }
     }
+    out
 }
 
 fn tally(placed: &Placed, panel: usize, n_x: usize, n_groups: usize) -> Vec<Vec<usize>> {
