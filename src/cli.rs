@@ -29,6 +29,10 @@ enum Command {
     Build(BuildArgs),
     /// Parse, check and read the data of every figure; write nothing.
     Check(CommonArgs),
+    /// Rewrite specs in the canonical layout, keeping every comment.
+    Fmt(FmtArgs),
+    /// Compare the figures of two revisions or folders and write a review report.
+    Diff(DiffArgs),
 }
 
 #[derive(Args, Debug)]
@@ -79,6 +83,8 @@ pub fn run(args: impl IntoIterator<Item = OsString>) -> i32 {
     match cli.command {
         Command::Build(args) => run_build(&args.common, args.out, false),
         Command::Check(args) => run_build(&args, None, true),
+        Command::Fmt(args) => run_fmt(&args),
+        Command::Diff(args) => run_diff(&args),
     }
 }
 
@@ -138,5 +144,98 @@ fn exit_code(report: &BuildReport, deny_warnings: bool) -> i32 {
         EXIT_DIAGNOSTICS
     } else {
         EXIT_OK
+    }
+}
+
+#[derive(Args, Debug)]
+struct FmtArgs {
+    /// Spec files, or folders searched for *.figura (default: the current folder).
+    paths: Vec<PathBuf>,
+    /// Write nothing; list the files that would change and exit 1 if there are any.
+    #[arg(long)]
+    check: bool,
+}
+
+/// `figura fmt`: 0 when done (or, with `--check`, nothing would change); 1 when a file would
+/// change or does not parse; 2 on an I/O failure.
+fn run_fmt(args: &FmtArgs) -> i32 {
+    use crate::format::{self, Mode};
+    let paths = if args.paths.is_empty() {
+        vec![PathBuf::from(".")]
+    } else {
+        args.paths.clone()
+    };
+    let mode = if args.check { Mode::Check } else { Mode::Write };
+    let report = match format::format_paths(&paths, mode) {
+        Ok(r) => r,
+        Err(e) => {
+            eprintln!("error: {e}");
+            return EXIT_FAILURE;
+        }
+    };
+    let text = report::render_all(
+        &report.diagnostics,
+        &report.sources,
+        MessageFormat::Human {
+            colour: std::io::stderr().is_terminal(),
+        },
+    );
+    eprint!("{text}");
+    for path in &report.changed {
+        println!("{}", path.display());
+    }
+    let verb = if args.check { "would be reformatted" } else { "reformatted" };
+    eprintln!(
+        "{} file{} {verb}, {} already formatted",
+        report.changed.len(),
+        if report.changed.len() == 1 { "" } else { "s" },
+        report.unchanged.len()
+    );
+    let would_change = args.check && !report.changed.is_empty();
+    if would_change || !report.diagnostics.is_empty() {
+        EXIT_DIAGNOSTICS
+    } else {
+        EXIT_OK
+    }
+}
+
+#[derive(Args, Debug)]
+struct DiffArgs {
+    /// The old side: a git revision of the current repository, or a folder.
+    base: String,
+    /// The new side: a git revision or a folder (default: the working tree).
+    head: Option<String>,
+    /// Folder to write report.md, index.html and NAME.diff.png into.
+    #[arg(long)]
+    report: PathBuf,
+}
+
+/// `figura diff`: 0 when no figure changed, 1 when any was added, removed or changed, 2 on
+/// an error (a bad revision, a side that does not build, an I/O failure).
+fn run_diff(args: &DiffArgs) -> i32 {
+    use crate::review::{self, DiffOptions, ReviewError};
+    let options = DiffOptions {
+        base: args.base.clone(),
+        head: args.head.clone(),
+        report_dir: args.report.clone(),
+    };
+    match review::diff(&options) {
+        Ok(outcome) => {
+            print!("{}", outcome.summary_text());
+            if outcome.any_change() {
+                EXIT_DIAGNOSTICS
+            } else {
+                EXIT_OK
+            }
+        }
+        Err(ReviewError::Build { side, report: failed }) => {
+            print_diagnostics(&failed, Format::Human);
+            eprintln!("error: the {side} side does not build; fix it to compare figures");
+            EXIT_FAILURE
+        }
+        Err(e) => {
+            eprintln!("error: {e}");
+            EXIT_FAILURE
+        }
     }
 }

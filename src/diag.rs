@@ -74,6 +74,11 @@ impl SourceMap {
         id
     }
 
+    /// Every source text, in the order added.
+    pub fn files(&self) -> &[SourceFile] {
+        &self.files
+    }
+
     pub fn get(&self, id: SourceId) -> &SourceFile {
         &self.files[id.0 as usize]
     }

@@ -22,6 +22,7 @@ use crate::diag::{Diagnostic, Span};
 use crate::syntax::ast::{Item, SpecFile};
 
 pub use figure::{DEFAULT_DPI, DEFAULT_SIZE_MM, DPI_LIMITS, SIZE_LIMITS_MM};
+pub use layers::LayerKind;
 pub use plan::*;
 
 /// One parsed spec file, with the files it includes (indices into the same list).
