@@ -205,7 +205,8 @@ struct DiffArgs {
     base: String,
     /// The new side: a git revision or a folder (default: the working tree).
     head: Option<String>,
-    /// Folder to write report.md, index.html and NAME.diff.png into.
+    /// Folder to write report.md, index.html and NAME.diff.png into (picture diffs of an
+    /// earlier report there are replaced).
     #[arg(long)]
     report: PathBuf,
 }

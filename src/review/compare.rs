@@ -2,7 +2,10 @@
 //! which numbers of their summaries moved.
 //!
 //! A figure is *changed* when any of its output files differs in bytes (outputs are
-//! deterministic, so equal inputs give equal bytes). Its numbers are compared row by row on
+//! deterministic, so equal inputs give equal bytes), except the PDF, which is compared by
+//! presence only: it is drawn from the same drawing as the SVG, so it changes exactly when the
+//! SVG does, and the PDF writer does not order its resource dictionaries the same way in every
+//! process. Its numbers are compared row by row on
 //! the key `panel,layer,group,x,stat` (with a running count for keys that repeat, such as one
 //! `outliers` row per outlier), so rows that appear or disappear are reported too.
 
@@ -242,13 +245,22 @@ fn plain(name: &str, state: State) -> FigureDiff {
     }
 }
 
+/// Whether an output file differs between the sides (a PDF only by presence).
+fn file_differs(file: &str, old: &Outputs, new: &Outputs) -> bool {
+    if file.ends_with(".pdf") {
+        old.get(file).is_some() != new.get(file).is_some()
+    } else {
+        old.get(file) != new.get(file)
+    }
+}
+
 fn compare_one(name: &str, old: &Outputs, new: &Outputs) -> Result<FigureDiff, ReviewError> {
     let mut files: Vec<&String> = old.files.keys().chain(new.files.keys()).collect();
     files.sort();
     files.dedup();
     let differing: Vec<String> = files
         .into_iter()
-        .filter(|f| old.get(f) != new.get(f))
+        .filter(|f| file_differs(f, old, new))
         .map(|f| f.strip_prefix(name).unwrap_or(f).trim_start_matches('.').to_owned())
         .collect();
     let summary = format!("{name}{SUMMARY_SUFFIX}");

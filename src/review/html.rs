@@ -32,6 +32,7 @@ td.num { text-align: right; font-variant-numeric: tabular-nums; }
 .state { font-weight: bold; }
 .changed { color: #a04000; } .added { color: #006a4e; } .removed { color: #8b0000; } .unchanged { color: #666; }
 img { max-width: 100%; border: 1px solid #ddd; }
+img.single { max-width: min(100%, 520px); }
 pre.diff { background: #f7f7f7; padding: 0.6em; overflow-x: auto; font-size: 0.85em; }
 pre.diff .del { background: #fde2e1; display: block; }
 pre.diff .ins { background: #dcf5e3; display: block; }
@@ -148,7 +149,7 @@ fn figure_section(out: &mut String, f: &FigureReview) {
             );
         }
         Picture::Single(png) => {
-            let _ = writeln!(out, "<img src=\"{}\" alt=\"{name}\">", data_uri(png));
+            let _ = writeln!(out, "<img class=\"single\" src=\"{}\" alt=\"{name}\">", data_uri(png));
         }
         Picture::Unavailable => out.push_str("<p>This figure has no PNG or SVG output.</p>\n"),
         Picture::None => {}

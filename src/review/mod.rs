@@ -280,7 +280,7 @@ fn picture_of(diff: &FigureDiff, old: &Built, new: &Built) -> Result<Picture, Re
                 let composed = picture::compose(&decode(&before)?, &decode(&after)?)
                     .map_err(ReviewError::Picture)?;
                 Picture::Diff {
-                    file: format!("{name}.diff.png"),
+                    file: format!("{name}{DIFF_SUFFIX}"),
                     png: composed.png,
                     changed_pixels: composed.changed_pixels,
                     compared_pixels: composed.compared_pixels,
@@ -292,7 +292,25 @@ fn picture_of(diff: &FigureDiff, old: &Built, new: &Built) -> Result<Picture, Re
     Ok(picture)
 }
 
-/// Writes the pictures, `report.md` and `index.html`; returns the paths written.
+/// The suffix of picture diffs in the report folder.
+const DIFF_SUFFIX: &str = ".diff.png";
+
+/// Removes picture diffs of an earlier report that this one does not write again.
+fn remove_stale_pictures(dir: &Path, keep: &[String]) -> Result<(), ReviewError> {
+    let Ok(entries) = std::fs::read_dir(dir) else {
+        return Ok(());
+    };
+    for entry in entries.filter_map(|e| e.ok()) {
+        let name = entry.file_name().to_string_lossy().into_owned();
+        if name.ends_with(DIFF_SUFFIX) && !keep.contains(&name) && entry.path().is_file() {
+            std::fs::remove_file(entry.path()).map_err(|e| ReviewError::io(&entry.path(), e))?;
+        }
+    }
+    Ok(())
+}
+
+/// Writes the pictures, `report.md` and `index.html` (replacing the picture diffs of an
+/// earlier report); returns the paths written.
 fn write_report(review: &Review, dir: &Path) -> Result<Vec<PathBuf>, ReviewError> {
     let mut files: Vec<(String, Vec<u8>)> = Vec::new();
     for f in &review.figures {
@@ -300,6 +318,8 @@ fn write_report(review: &Review, dir: &Path) -> Result<Vec<PathBuf>, ReviewError
             files.push((file.clone(), png.clone()));
         }
     }
+    let pictures: Vec<String> = files.iter().map(|(name, _)| name.clone()).collect();
+    remove_stale_pictures(dir, &pictures)?;
     files.push(("report.md".to_owned(), markdown::report(review).into_bytes()));
     files.push(("index.html".to_owned(), html::page(review).into_bytes()));
     let mut written = Vec::new();

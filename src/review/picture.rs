@@ -221,7 +221,7 @@ fn draw_labels(pixmap: &mut tiny_skia::Pixmap, panel_width: u32, label_height: u
         pixmap.width()
     );
     for (i, label) in ["before", "after", "changed pixels"].iter().enumerate() {
-        let x = i as u32 * (panel_width + GAP);
+        let x = (i as u32 * (panel_width + GAP)) as f32 + size * 0.4;
         svg.push_str(&format!(
             r##"<text x="{x}" y="{baseline}" font-family="{}" font-size="{size}" fill="#333333">{label}</text>"##,
             font::FAMILY
@@ -245,7 +245,7 @@ pub struct Composed {
 pub fn compose(before: &Image, after: &Image) -> Result<Composed, String> {
     let (marks, changed_pixels) = highlight(before, after);
     let panel_width = marks.width;
-    let label_height = (panel_width / 28).clamp(20, 64);
+    let label_height = (panel_width / 16).clamp(24, 120);
     let width = panel_width * 3 + GAP * 2;
     let height = label_height + marks.height;
     let mut pixmap = new_pixmap(width, height)?;
