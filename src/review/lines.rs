@@ -65,12 +65,13 @@ fn middle<'a>(a: &[&'a str], b: &[&'a str]) -> Vec<Op<'a>> {
             ops.push(Op::Same(a[i]));
             i += 1;
             j += 1;
-        } else if j < m && (i == n || lcs[i * width + j + 1] >= lcs[(i + 1) * width + j]) {
-            ops.push(Op::Added(b[j]));
-            j += 1;
-        } else {
+        } else if i < n && (j == m || lcs[(i + 1) * width + j] >= lcs[i * width + j + 1]) {
+            // On a tie the old line goes first, so a replaced line reads `-` then `+`.
             ops.push(Op::Removed(a[i]));
             i += 1;
+        } else {
+            ops.push(Op::Added(b[j]));
+            j += 1;
         }
     }
     ops
