@@ -58,12 +58,13 @@ pub fn distribution(
                         Heights::Density => "Density",
                     };
                     let mut bins = Vec::new();
+                    let shared = shared_bins(&placed.obs, *rule);
                     for g in 0..ctx.groups.len() {
                         let v = values_of(&placed.obs, p, g);
                         let k = key(ctx, p, "histogram", g, String::new());
                         summary.push(k.count("n", v.len()));
                         summary.push(k.count("n_missing", missing(&placed, p, g)));
-                        let Ok(h) = stats::histogram(&v, bin_rule(*rule)) else {
+                        let Ok(h) = stats::histogram(&v, shared) else {
                             continue;
                         };
                         let n_bins = h.counts.len();
@@ -153,6 +154,18 @@ pub fn distribution(
         panels,
         summary,
     })
+}
+
+/// One bin width for every panel and colour group, so their bars can be compared: the rule
+/// is applied to all values together, and each group is binned with that width (edges are
+/// whole multiples of it, so they line up).
+fn shared_bins(obs: &[Obs], rule: BinRule) -> stats::BinRule {
+    let mut all: Vec<f64> = obs.iter().map(|o| o.value).collect();
+    all.sort_by(f64::total_cmp);
+    match stats::histogram(&all, bin_rule(rule)) {
+        Ok(h) => stats::BinRule::Width(h.width),
+        Err(_) => bin_rule(rule),
+    }
 }
 
 fn missing(placed: &rows::Placed, panel: usize, group: usize) -> usize {

@@ -4,7 +4,7 @@
 //! [`Table`] whose guarantees are listed on that type: exactly the declared columns,
 //! categorical cells within the declared levels, finite numbers, non-negative ratio values,
 //! no missing ids. Otherwise every data error of the file is returned (codes `D0001`–`D0016`,
-//! documented in `grammar/ERRORS-data.md`), the first [`MAX_DIAGNOSTICS`] in full and the
+//! documented in `grammar/README.md`, §13), the first [`MAX_DIAGNOSTICS`] in full and the
 //! rest summed up in one closing diagnostic.
 //!
 //! Reading rules: the first row is the header; a `.tsv` file is tab separated, any other file
@@ -36,7 +36,7 @@ pub use table::{Column, RowPlace, Table};
 
 use crate::diag::{Diagnostic, SourceMap};
 
-/// The stable codes of data errors (see `grammar/ERRORS-data.md`).
+/// The stable codes of data errors (see `grammar/README.md`, §13).
 pub mod codes {
     /// The file is missing, a folder, or cannot be read.
     pub const UNREADABLE: &str = "D0001";
