@@ -184,7 +184,11 @@ fn run_fmt(args: &FmtArgs) -> i32 {
     for path in &report.changed {
         println!("{}", path.display());
     }
-    let verb = if args.check { "would be reformatted" } else { "reformatted" };
+    let verb = if args.check {
+        "would be reformatted"
+    } else {
+        "reformatted"
+    };
     eprintln!(
         "{} file{} {verb}, {} already formatted",
         report.changed.len(),
@@ -229,7 +233,10 @@ fn run_diff(args: &DiffArgs) -> i32 {
                 EXIT_OK
             }
         }
-        Err(ReviewError::Build { side, report: failed }) => {
+        Err(ReviewError::Build {
+            side,
+            report: failed,
+        }) => {
             print_diagnostics(&failed, Format::Human);
             eprintln!("error: the {side} side does not build; fix it to compare figures");
             EXIT_FAILURE

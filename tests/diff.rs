@@ -30,8 +30,18 @@ fn root() -> PathBuf {
 
 fn git(dir: &Path, args: &[&str]) -> String {
     let out = Command::new("git")
-        .args(["-c", "user.name=Figura Test", "-c", "user.email=test@example.org"])
-        .args(["-c", "commit.gpgsign=false", "-c", "init.defaultBranch=main"])
+        .args([
+            "-c",
+            "user.name=Figura Test",
+            "-c",
+            "user.email=test@example.org",
+        ])
+        .args([
+            "-c",
+            "commit.gpgsign=false",
+            "-c",
+            "init.defaultBranch=main",
+        ])
         .args(args)
         .current_dir(dir)
         .output()
@@ -81,7 +91,10 @@ fn two_commits() -> (tempfile::TempDir, PathBuf) {
     edit(&repo.join("seedlings.figura"), |t| {
         without_figure(&t, "height_distribution") + ADDED_FIGURE
     });
-    git(&repo, &["commit", "-q", "-a", "-m", "correct T017, new box figure"]);
+    git(
+        &repo,
+        &["commit", "-q", "-a", "-m", "correct T017, new box figure"],
+    );
     (tmp, repo)
 }
 
@@ -107,7 +120,9 @@ fn figura(dir: &Path, args: &[&str]) -> Run {
 /// The cells of the Markdown table rows of `text` that follow `heading` (up to a blank line
 /// after the table).
 fn table_after(text: &str, heading: &str) -> Vec<Vec<String>> {
-    let start = text.find(heading).unwrap_or_else(|| panic!("no {heading} in\n{text}"));
+    let start = text
+        .find(heading)
+        .unwrap_or_else(|| panic!("no {heading} in\n{text}"));
     text[start..]
         .lines()
         .skip_while(|l| !l.starts_with('|'))
@@ -152,11 +167,24 @@ fn two_commits_report_the_changed_added_and_removed_figures_and_the_moved_number
     let status_before = git(&repo, &["status", "--porcelain", "--ignored"]);
     let run = figura(
         &repo,
-        &["diff", "HEAD~1", "HEAD", "--report", report.to_str().unwrap()],
+        &[
+            "diff",
+            "HEAD~1",
+            "HEAD",
+            "--report",
+            report.to_str().unwrap(),
+        ],
     );
-    assert_eq!(run.code, 1, "stdout:\n{}\nstderr:\n{}", run.stdout, run.stderr);
+    assert_eq!(
+        run.code, 1,
+        "stdout:\n{}\nstderr:\n{}",
+        run.stdout, run.stderr
+    );
     // The repository is only read: no output folders, no changed files.
-    assert_eq!(git(&repo, &["status", "--porcelain", "--ignored"]), status_before);
+    assert_eq!(
+        git(&repo, &["status", "--porcelain", "--ignored"]),
+        status_before
+    );
     assert!(git(&repo, &["worktree", "list"]).lines().count() == 1);
 
     let md = std::fs::read_to_string(report.join("report.md")).unwrap();
@@ -190,14 +218,18 @@ fn two_commits_report_the_changed_added_and_removed_figures_and_the_moved_number
     }
 
     // height_bars: the shade mean and its standard error moved, nothing else.
-    let old_data = std::fs::read_to_string(root().join("specs-examples/data/seedlings.csv")).unwrap();
+    let old_data =
+        std::fs::read_to_string(root().join("specs-examples/data/seedlings.csv")).unwrap();
     let new_data = old_data.replace(OLD_LINE, NEW_LINE);
     let (old, new) = (shade_heights(&old_data), shade_heights(&new_data));
     assert_eq!(old.len(), 20);
     let rows = table_after(&md, "### `height_bars`");
     assert_eq!(rows.len(), 2, "{md}");
     assert_eq!(&rows[0][..5], ["", "mean", "", "shade", "mean"]);
-    assert!(close(&rows[0][5], mean(&old)) && close(&rows[0][6], mean(&new)), "{md}");
+    assert!(
+        close(&rows[0][5], mean(&old)) && close(&rows[0][6], mean(&new)),
+        "{md}"
+    );
     // (95.5 − 88.5) / 20 = 0.35.
     assert_eq!(rows[0][7], "+0.35");
     assert_eq!(&rows[1][..5], ["", "mean", "", "shade", "se"]);
@@ -205,8 +237,18 @@ fn two_commits_report_the_changed_added_and_removed_figures_and_the_moved_number
     assert!(close(&rows[1][6], standard_error(&new)), "{md}");
 
     // The terminal summary agrees.
-    assert!(run.stdout.contains("changed   height_by_light (2 numbers moved)"), "{}", run.stdout);
-    assert!(run.stdout.contains("2 changed, 1 added, 1 removed, 4 unchanged"), "{}", run.stdout);
+    assert!(
+        run.stdout
+            .contains("changed   height_by_light (2 numbers moved)"),
+        "{}",
+        run.stdout
+    );
+    assert!(
+        run.stdout
+            .contains("2 changed, 1 added, 1 removed, 4 unchanged"),
+        "{}",
+        run.stdout
+    );
 
     picture_diffs_have_three_panels(&report);
     page_renders_in_chromium(&report, tmp.path());
@@ -220,7 +262,10 @@ fn picture_diffs_have_three_panels(report: &Path) {
         .filter(|n| n.ends_with(".diff.png"))
         .collect();
     pictures.sort();
-    assert_eq!(pictures, ["height_bars.diff.png", "height_by_light.diff.png"]);
+    assert_eq!(
+        pictures,
+        ["height_bars.diff.png", "height_by_light.diff.png"]
+    );
 
     let bytes = std::fs::read(report.join("height_by_light.diff.png")).unwrap();
     let mut reader = png::Decoder::new(bytes.as_slice()).read_info().unwrap();
@@ -234,7 +279,11 @@ fn picture_diffs_have_three_panels(report: &Path) {
         "width {}",
         info.width
     );
-    assert!(info.height >= h && info.height < h + 200, "height {}", info.height);
+    assert!(
+        info.height >= h && info.height < h + 200,
+        "height {}",
+        info.height
+    );
     assert_eq!(info.color_type, png::ColorType::Rgb);
     // Changed pixels are painted vermillion (213, 94, 0), only in the right-hand third.
     let channels = 3;
@@ -278,7 +327,11 @@ fn page_renders_in_chromium(report: &Path, tmp: &Path) {
         .arg(format!("file://{}", page.display()))
         .output()
         .expect("chromium runs");
-    assert!(out.status.success(), "{}", String::from_utf8_lossy(&out.stderr));
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
     let dom = String::from_utf8_lossy(&out.stdout);
     for name in [
         "height_bars",
@@ -287,17 +340,26 @@ fn page_renders_in_chromium(report: &Path, tmp: &Path) {
         "height_distribution",
         "times_by_mode",
     ] {
-        assert!(dom.contains(&format!("<td>{name}</td>")) || dom.contains(&format!(">{name}</a>")), "{name} not in the page");
+        assert!(
+            dom.contains(&format!("<td>{name}</td>")) || dom.contains(&format!(">{name}</a>")),
+            "{name} not in the page"
+        );
     }
     for name in ["height_bars", "height_by_light", "height_box_only"] {
-        assert!(dom.contains(&format!("id=\"figure-{name}\"")), "no section for {name}");
+        assert!(
+            dom.contains(&format!("id=\"figure-{name}\"")),
+            "no section for {name}"
+        );
     }
     assert!(dom.contains("changed") && dom.contains("added") && dom.contains("removed"));
     // Pictures are inlined; the page refers to no other file.
     assert_eq!(dom.matches("src=\"data:image/png;base64,").count(), 4);
     assert!(!dom.contains("src=\"http") && !dom.contains("src=\"file"));
     // The spec diff shows the removed figure's header as a removed line.
-    assert!(dom.contains("- figure height_distribution {"), "no spec diff");
+    assert!(
+        dom.contains("- figure height_distribution {"),
+        "no spec diff"
+    );
     assert!(dom.contains("+ T017,shade,95.5"), "no data diff");
 }
 
@@ -305,10 +367,16 @@ fn page_renders_in_chromium(report: &Path, tmp: &Path) {
 fn nothing_changed_exits_zero() {
     let (tmp, repo) = two_commits();
     let report = tmp.path().join("same");
-    let run = figura(&repo, &["diff", "HEAD", "HEAD", "--report", report.to_str().unwrap()]);
+    let run = figura(
+        &repo,
+        &["diff", "HEAD", "HEAD", "--report", report.to_str().unwrap()],
+    );
     assert_eq!(run.code, 0, "{}{}", run.stdout, run.stderr);
     let md = std::fs::read_to_string(report.join("report.md")).unwrap();
-    assert!(md.contains("0 changed, 0 added, 0 removed, 7 unchanged"), "{md}");
+    assert!(
+        md.contains("0 changed, 0 added, 0 removed, 7 unchanged"),
+        "{md}"
+    );
 }
 
 #[test]
@@ -322,16 +390,34 @@ fn the_working_tree_is_the_default_head_and_folders_compare_too() {
         )
     });
     let report = tmp.path().join("work");
-    let run = figura(&repo, &["diff", "HEAD", "--report", report.to_str().unwrap()]);
+    let run = figura(
+        &repo,
+        &["diff", "HEAD", "--report", report.to_str().unwrap()],
+    );
     assert_eq!(run.code, 1, "{}{}", run.stdout, run.stderr);
     assert!(run.stdout.contains("head: working tree"), "{}", run.stdout);
-    assert!(run.stdout.contains("changed   satisfaction_by_mode\n"), "{}", run.stdout);
-    assert!(run.stdout.contains("1 changed, 0 added, 0 removed, 6 unchanged"), "{}", run.stdout);
+    assert!(
+        run.stdout.contains("changed   satisfaction_by_mode\n"),
+        "{}",
+        run.stdout
+    );
+    assert!(
+        run.stdout
+            .contains("1 changed, 0 added, 0 removed, 6 unchanged"),
+        "{}",
+        run.stdout
+    );
 
     // Two folders: the repository against itself.
     let run = figura(
         tmp.path(),
-        &["diff", "manuscript", "manuscript", "--report", report.to_str().unwrap()],
+        &[
+            "diff",
+            "manuscript",
+            "manuscript",
+            "--report",
+            report.to_str().unwrap(),
+        ],
     );
     assert_eq!(run.code, 0, "{}{}", run.stdout, run.stderr);
 }
@@ -340,7 +426,15 @@ fn the_working_tree_is_the_default_head_and_folders_compare_too() {
 fn an_unknown_revision_is_an_error() {
     let (tmp, repo) = two_commits();
     let report = tmp.path().join("bad");
-    let run = figura(&repo, &["diff", "no-such-branch", "--report", report.to_str().unwrap()]);
+    let run = figura(
+        &repo,
+        &[
+            "diff",
+            "no-such-branch",
+            "--report",
+            report.to_str().unwrap(),
+        ],
+    );
     assert_eq!(run.code, 2);
     assert!(run.stderr.contains("no-such-branch"), "{}", run.stderr);
     assert!(!report.exists());

@@ -58,12 +58,7 @@ fn formatting_is_idempotent() {
 fn every_comment_is_kept_in_order() {
     for path in all_cases() {
         let text = std::fs::read_to_string(&path).unwrap();
-        assert_eq!(
-            comments(&fmt(&text)),
-            comments(&text),
-            "{}",
-            path.display()
-        );
+        assert_eq!(comments(&fmt(&text)), comments(&text), "{}", path.display());
     }
 }
 
@@ -122,8 +117,13 @@ fn without_spans(debug: &str) -> String {
 /// The checked program of the spec files given, as text without spans or the path of `dir`.
 fn checked_plan(dir: &Path, specs: &[PathBuf]) -> String {
     let mut sources = SourceMap::new();
-    let loaded = load::load(&specs, &mut sources).unwrap();
-    assert!(loaded.diags.is_empty(), "{}: {:?}", dir.display(), loaded.diags);
+    let loaded = load::load(specs, &mut sources).unwrap();
+    assert!(
+        loaded.diags.is_empty(),
+        "{}: {:?}",
+        dir.display(),
+        loaded.diags
+    );
     let (program, diags) = check::check(&loaded.units);
     assert!(
         !diags.iter().any(|d| d.is_error()),
@@ -152,7 +152,7 @@ fn original_and_formatted(folder: &str) -> (tempfile::TempDir, PathBuf, PathBuf)
     let (a, b) = (tmp.path().join("a"), tmp.path().join("b"));
     copy_dir(&common::root().join(folder), &a);
     copy_dir(&common::root().join(folder), &b);
-    let report = format::format_paths(&[b.clone()], Mode::Write).unwrap();
+    let report = format::format_paths(std::slice::from_ref(&b), Mode::Write).unwrap();
     assert!(report.diagnostics.is_empty(), "{:?}", report.diagnostics);
     (tmp, a, b)
 }
@@ -163,19 +163,26 @@ fn the_checked_plan_is_the_same_after_formatting() {
     let (_tmp, a, b) = original_and_formatted("specs-examples");
     let all = |dir: &Path| load::find_specs(&[dir.to_path_buf()]).unwrap();
     let before = checked_plan(&a, &all(&a));
-    assert_eq!(before, checked_plan(&b, &all(&b)), "the examples' plan changed");
+    assert_eq!(
+        before,
+        checked_plan(&b, &all(&b)),
+        "the examples' plan changed"
+    );
     assert_eq!(before.matches("FigurePlan").count(), 15);
 
     let (_tmp, a, b) = original_and_formatted("tests/check/ok");
     for spec in all(&a) {
         let name = spec.file_name().unwrap();
-        let before = checked_plan(&a, &[spec.clone()]);
+        let before = checked_plan(&a, std::slice::from_ref(&spec));
         assert_eq!(
             before,
             checked_plan(&b, &[b.join(name)]),
             "{name:?}: the plan changed"
         );
-        assert!(before.contains("FigurePlan"), "{name:?}: no figure was checked");
+        assert!(
+            before.contains("FigurePlan"),
+            "{name:?}: no figure was checked"
+        );
     }
 }
 

@@ -36,7 +36,9 @@ pub struct FormatReport {
 pub fn format_paths(paths: &[PathBuf], mode: Mode) -> Result<FormatReport, BuildError> {
     let mut report = FormatReport::default();
     for path in load::find_specs(paths)? {
-        let size = fs::metadata(&path).map_err(|e| BuildError::io(&path, e))?.len();
+        let size = fs::metadata(&path)
+            .map_err(|e| BuildError::io(&path, e))?
+            .len();
         if size > load::MAX_SPEC_BYTES {
             return Err(BuildError::Limit(format!(
                 "{}: a spec file may hold at most {} bytes",
@@ -56,7 +58,10 @@ pub fn format_paths(paths: &[PathBuf], mode: Mode) -> Result<FormatReport, Build
             }
             Err(FormatError::Syntax(diags)) => report.diagnostics.extend(diags),
             Err(FormatError::Internal(message)) => {
-                return Err(BuildError::Internal(format!("{}: {message}", path.display())))
+                return Err(BuildError::Internal(format!(
+                    "{}: {message}",
+                    path.display()
+                )))
             }
         }
     }

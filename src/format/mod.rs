@@ -83,7 +83,10 @@ pub fn format_tree(tree: &SpecFile, text: &str) -> String {
             Item::Include(inc) => {
                 let inner: Vec<String> = placed.inside[i].iter().map(|c| trimmed(c)).collect();
                 w.group(around, forced, 0, &inner);
-                w.line(0, &with_trailing(print::include(inc), around.trailing.as_deref()));
+                w.line(
+                    0,
+                    &with_trailing(print::include(inc), around.trailing.as_deref()),
+                );
             }
             Item::Block(block) => {
                 w.group(around, forced, 0, &[]);
@@ -178,7 +181,10 @@ impl Writer {
             self.line(0, &with_trailing(format!("{header} {{}}"), trailing));
             return;
         }
-        self.line(0, &with_trailing(format!("{header} {{"), placed.header.as_deref()));
+        self.line(
+            0,
+            &with_trailing(format!("{header} {{"), placed.header.as_deref()),
+        );
         self.fresh = true;
         for (i, stmt) in b.statements.iter().enumerate() {
             let around = &placed.around[i];

@@ -222,7 +222,11 @@ mod tests {
     #[test]
     fn header_and_inside_comments() {
         let text = "{  # head\n  levels(\"a\",  # inside\n  )\n}";
-        let spans = [Span::new(SourceId(0), text.find("levels").unwrap(), text.find(")").unwrap() + 1)];
+        let spans = [Span::new(
+            SourceId(0),
+            text.find("levels").unwrap(),
+            text.find(")").unwrap() + 1,
+        )];
         let cs = [comment(text, "# head"), comment(text, "# inside")];
         let refs: Vec<&Comment> = cs.iter().collect();
         let placed = place(&Lines::new(text), &spans, &refs, Some(0));

@@ -49,7 +49,9 @@ fn value(v: &Value) -> String {
 /// left, so printing each node in place reads back as the same tree.
 pub fn expr(e: &Expr) -> String {
     match e {
-        Expr::Compare { var, op, value: v, .. } => {
+        Expr::Compare {
+            var, op, value: v, ..
+        } => {
             format!("{} {} {}", var.name, op.as_str(), value(v))
         }
         Expr::In { var, values, .. } => {

@@ -261,7 +261,12 @@ fn compare_one(name: &str, old: &Outputs, new: &Outputs) -> Result<FigureDiff, R
     let differing: Vec<String> = files
         .into_iter()
         .filter(|f| file_differs(f, old, new))
-        .map(|f| f.strip_prefix(name).unwrap_or(f).trim_start_matches('.').to_owned())
+        .map(|f| {
+            f.strip_prefix(name)
+                .unwrap_or(f)
+                .trim_start_matches('.')
+                .to_owned()
+        })
         .collect();
     let summary = format!("{name}{SUMMARY_SUFFIX}");
     let rows = |o: &Outputs| {
@@ -302,24 +307,26 @@ mod tests {
         let old = parse_summary(OLD.as_bytes()).unwrap();
         let new = parse_summary(NEW.as_bytes()).unwrap();
         let changes = compare_numbers(&old, &new);
-        let shown: Vec<(String, String, Option<&str>, Option<&str>, Option<String>)> = changes
+        // One line per change: x, stat, old → new (difference).
+        let shown: Vec<String> = changes
             .iter()
             .map(|c| {
-                (
-                    c.key.x.clone(),
+                format!(
+                    "{} {}: {:?} -> {:?} ({:?})",
+                    c.key.x,
                     c.key.stat_label(),
-                    c.old.as_deref(),
-                    c.new.as_deref(),
-                    c.difference(),
+                    c.old,
+                    c.new,
+                    c.difference()
                 )
             })
             .collect();
         assert_eq!(
             shown,
-            vec![
-                ("paper".into(), "median".into(), Some("210"), Some("212.5"), Some("+2.5".into())),
-                ("[2.5,5]".into(), "count".into(), None, Some("1"), None),
-                ("paper".into(), "outliers #2".into(), Some("400"), None, None),
+            [
+                "paper median: Some(\"210\") -> Some(\"212.5\") (Some(\"+2.5\"))",
+                "[2.5,5] count: None -> Some(\"1\") (None)",
+                "paper outliers #2: Some(\"400\") -> None (None)",
             ]
         );
     }

@@ -40,7 +40,9 @@ fn run(dir: &Path, args: &[&str]) -> Result<Vec<u8>, ReviewError> {
 }
 
 fn text(bytes: Vec<u8>) -> String {
-    String::from_utf8_lossy(&bytes).trim_end_matches('\n').to_owned()
+    String::from_utf8_lossy(&bytes)
+        .trim_end_matches('\n')
+        .to_owned()
 }
 
 impl Repo {
@@ -67,10 +69,19 @@ impl Repo {
             return None;
         }
         let spec = format!("{rev}^{{commit}}");
-        run(&self.top, &["rev-parse", "--verify", "--quiet", "--end-of-options", &spec])
-            .ok()
-            .map(text)
-            .filter(|id| !id.is_empty())
+        run(
+            &self.top,
+            &[
+                "rev-parse",
+                "--verify",
+                "--quiet",
+                "--end-of-options",
+                &spec,
+            ],
+        )
+        .ok()
+        .map(text)
+        .filter(|id| !id.is_empty())
     }
 
     /// Writes every file of `commit` into `dest` (which must exist). Submodules are skipped;
@@ -136,7 +147,10 @@ fn read_one_blob(reader: &mut impl BufRead, id: &str) -> Result<Vec<u8>, ReviewE
     let mut fields = header.split_whitespace();
     let (Some(got), Some("blob"), Some(size)) = (fields.next(), fields.next(), fields.next())
     else {
-        return Err(git_error("git cat-file", format!("cannot read object {id}")));
+        return Err(git_error(
+            "git cat-file",
+            format!("cannot read object {id}"),
+        ));
     };
     let size: usize = size
         .parse()
@@ -191,7 +205,10 @@ fn safe_relative(path: &str) -> Result<PathBuf, ReviewError> {
     if p.components().all(|c| matches!(c, Component::Normal(_))) {
         Ok(p.to_path_buf())
     } else {
-        Err(git_error("git ls-tree", format!("refusing the path `{path}`")))
+        Err(git_error(
+            "git ls-tree",
+            format!("refusing the path `{path}`"),
+        ))
     }
 }
 
@@ -212,7 +229,7 @@ mod tests {
 
     #[test]
     fn ls_tree_records_are_read() {
-        let out = b"100644 blob 0123abcd\tdata/a b.csv\0160000 commit 89ef\tsub\0";
+        let out = b"100644 blob 0123abcd\tdata/a b.csv\x00160000 commit 89ef\tsub\x00";
         let entries = parse_ls_tree(out).unwrap();
         assert_eq!(entries.len(), 2);
         assert_eq!(entries[0].path, "data/a b.csv");

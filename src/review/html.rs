@@ -79,7 +79,11 @@ pub fn page(review: &Review) -> String {
         review.count(State::Unchanged),
     );
     figure_table(&mut out, review);
-    for f in review.figures.iter().filter(|f| f.diff.state != State::Unchanged) {
+    for f in review
+        .figures
+        .iter()
+        .filter(|f| f.diff.state != State::Unchanged)
+    {
         figure_section(&mut out, f);
     }
     if !review.sources.is_empty() {
@@ -149,7 +153,11 @@ fn figure_section(out: &mut String, f: &FigureReview) {
             );
         }
         Picture::Single(png) => {
-            let _ = writeln!(out, "<img class=\"single\" src=\"{}\" alt=\"{name}\">", data_uri(png));
+            let _ = writeln!(
+                out,
+                "<img class=\"single\" src=\"{}\" alt=\"{name}\">",
+                data_uri(png)
+            );
         }
         Picture::Unavailable => out.push_str("<p>This figure has no PNG or SVG output.</p>\n"),
         Picture::None => {}
@@ -199,8 +207,15 @@ fn source_section(out: &mut String, s: &SourceChange) {
         (_, None) => " (removed)",
         _ => "",
     };
-    let _ = writeln!(out, "<h3>{}{what}</h3>\n<pre class=\"diff\">", escape(&s.path));
-    let ops = lines::diff(s.old.as_deref().unwrap_or(""), s.new.as_deref().unwrap_or(""));
+    let _ = writeln!(
+        out,
+        "<h3>{}{what}</h3>\n<pre class=\"diff\">",
+        escape(&s.path)
+    );
+    let ops = lines::diff(
+        s.old.as_deref().unwrap_or(""),
+        s.new.as_deref().unwrap_or(""),
+    );
     let mut shown = 0;
     'hunks: for hunk in lines::hunks(&ops, CONTEXT) {
         let _ = write!(
@@ -230,6 +245,9 @@ mod tests {
 
     #[test]
     fn text_is_escaped() {
-        assert_eq!(escape("<a href=\"x\">&'"), "&lt;a href=&quot;x&quot;&gt;&amp;&#39;");
+        assert_eq!(
+            escape("<a href=\"x\">&'"),
+            "&lt;a href=&quot;x&quot;&gt;&amp;&#39;"
+        );
     }
 }

@@ -33,7 +33,10 @@ pub fn diff<'a>(old: &'a str, new: &'a str) -> Vec<Op<'a>> {
         .take_while(|(x, y)| x == y)
         .count();
     let mut ops: Vec<Op> = a[..prefix].iter().map(|l| Op::Same(l)).collect();
-    ops.extend(middle(&a[prefix..a.len() - suffix], &b[prefix..b.len() - suffix]));
+    ops.extend(middle(
+        &a[prefix..a.len() - suffix],
+        &b[prefix..b.len() - suffix],
+    ));
     ops.extend(a[a.len() - suffix..].iter().map(|l| Op::Same(l)));
     ops
 }
@@ -103,7 +106,10 @@ pub fn hunks<'a>(ops: &[Op<'a>], context: usize) -> Vec<Hunk<'a>> {
         .map(|(start, end)| {
             let before = &ops[..start];
             let old_start = 1 + before.iter().filter(|o| !matches!(o, Op::Added(_))).count();
-            let new_start = 1 + before.iter().filter(|o| !matches!(o, Op::Removed(_))).count();
+            let new_start = 1 + before
+                .iter()
+                .filter(|o| !matches!(o, Op::Removed(_)))
+                .count();
             Hunk {
                 old_start,
                 new_start,
@@ -127,7 +133,12 @@ mod tests {
         assert_eq!(hs.len(), 2);
         assert_eq!(
             hs[0].ops,
-            vec![Op::Same("c"), Op::Removed("d"), Op::Added("D"), Op::Same("e")]
+            vec![
+                Op::Same("c"),
+                Op::Removed("d"),
+                Op::Added("D"),
+                Op::Same("e")
+            ]
         );
         assert_eq!((hs[0].old_start, hs[0].new_start), (3, 3));
         assert_eq!(hs[1].ops, vec![Op::Same("g"), Op::Added("h")]);

@@ -46,7 +46,11 @@ pub fn report(review: &Review) -> String {
         let files: Vec<String> = review.sources.iter().map(|s| code(&s.path)).collect();
         let _ = writeln!(out, "\nFiles that differ: {}.", files.join(", "));
     }
-    for f in review.figures.iter().filter(|f| f.diff.state == State::Changed) {
+    for f in review
+        .figures
+        .iter()
+        .filter(|f| f.diff.state == State::Changed)
+    {
         changed_figure(&mut out, f);
     }
     out
@@ -75,7 +79,11 @@ fn figure_table(out: &mut String, review: &Review) {
 
 fn changed_figure(out: &mut String, f: &FigureReview) {
     let _ = writeln!(out, "\n### {}\n", code(&f.diff.name));
-    let _ = writeln!(out, "Outputs that differ: {}.\n", f.diff.differing.join(", "));
+    let _ = writeln!(
+        out,
+        "Outputs that differ: {}.\n",
+        f.diff.differing.join(", ")
+    );
     if f.diff.numbers.is_empty() {
         out.push_str("No number of the summary moved.\n");
     } else {

@@ -29,8 +29,8 @@ use tempfile::TempDir;
 
 use crate::build::{self, write_atomic, BuildError, BuildOptions, BuildReport};
 
-pub use compare::{FigureDiff, StatChange, StatKey, State};
 use compare::Outputs;
+pub use compare::{FigureDiff, StatChange, StatKey, State};
 use side::{Side, SideSpec};
 use sources::{SourceChange, SourceText};
 
@@ -138,24 +138,37 @@ pub struct Review {
 
 impl Review {
     pub fn count(&self, state: State) -> usize {
-        self.figures.iter().filter(|f| f.diff.state == state).count()
+        self.figures
+            .iter()
+            .filter(|f| f.diff.state == state)
+            .count()
     }
 
     /// Whether any figure was added, removed or changed.
     pub fn any_change(&self) -> bool {
-        self.figures.iter().any(|f| f.diff.state != State::Unchanged)
+        self.figures
+            .iter()
+            .any(|f| f.diff.state != State::Unchanged)
     }
 
     /// A few lines for the terminal: each figure that differs, and the counts.
     pub fn summary_text(&self) -> String {
         let mut out = format!("base: {}\nhead: {}\n", self.base, self.head);
-        for f in self.figures.iter().filter(|f| f.diff.state != State::Unchanged) {
+        for f in self
+            .figures
+            .iter()
+            .filter(|f| f.diff.state != State::Unchanged)
+        {
             let numbers = match f.diff.numbers.len() {
                 0 => String::new(),
                 1 => " (1 number moved)".to_owned(),
                 n => format!(" ({n} numbers moved)"),
             };
-            out.push_str(&format!("{:<9} {}{numbers}\n", f.diff.state.as_str(), f.diff.name));
+            out.push_str(&format!(
+                "{:<9} {}{numbers}\n",
+                f.diff.state.as_str(),
+                f.diff.name
+            ));
         }
         out.push_str(&format!(
             "{} changed, {} added, {} removed, {} unchanged\n",
@@ -261,7 +274,9 @@ fn png_of(outputs: &Outputs, name: &str) -> Result<Option<Vec<u8>>, ReviewError>
         return Ok(None);
     };
     let image = picture::rasterize_svg(svg).map_err(ReviewError::Picture)?;
-    picture::encode(&image).map(Some).map_err(ReviewError::Picture)
+    picture::encode(&image)
+        .map(Some)
+        .map_err(ReviewError::Picture)
 }
 
 fn picture_of(diff: &FigureDiff, old: &Built, new: &Built) -> Result<Picture, ReviewError> {
@@ -320,7 +335,10 @@ fn write_report(review: &Review, dir: &Path) -> Result<Vec<PathBuf>, ReviewError
     }
     let pictures: Vec<String> = files.iter().map(|(name, _)| name.clone()).collect();
     remove_stale_pictures(dir, &pictures)?;
-    files.push(("report.md".to_owned(), markdown::report(review).into_bytes()));
+    files.push((
+        "report.md".to_owned(),
+        markdown::report(review).into_bytes(),
+    ));
     files.push(("index.html".to_owned(), html::page(review).into_bytes()));
     let mut written = Vec::new();
     for (name, bytes) in files {

@@ -100,7 +100,9 @@ const MAX_PIXELS: u64 = 200_000_000;
 
 fn new_pixmap(width: u32, height: u32) -> Result<tiny_skia::Pixmap, String> {
     if u64::from(width) * u64::from(height) > MAX_PIXELS {
-        return Err(format!("a {width} x {height} picture is too large to compare"));
+        return Err(format!(
+            "a {width} x {height} picture is too large to compare"
+        ));
     }
     let mut pixmap = tiny_skia::Pixmap::new(width.max(1), height.max(1))
         .ok_or_else(|| format!("cannot make a {width} x {height} picture"))?;
@@ -229,7 +231,11 @@ fn draw_labels(pixmap: &mut tiny_skia::Pixmap, panel_width: u32, label_height: u
     }
     svg.push_str("</svg>");
     if let Ok(tree) = usvg::Tree::from_str(&svg, &svg_options()) {
-        resvg::render(&tree, tiny_skia::Transform::identity(), &mut pixmap.as_mut());
+        resvg::render(
+            &tree,
+            tiny_skia::Transform::identity(),
+            &mut pixmap.as_mut(),
+        );
     }
 }
 
@@ -250,7 +256,12 @@ pub fn compose(before: &Image, after: &Image) -> Result<Composed, String> {
     let height = label_height + marks.height;
     let mut pixmap = new_pixmap(width, height)?;
     for (i, img) in [before, after, &marks].into_iter().enumerate() {
-        paste(&mut pixmap, img, i as u32 * (panel_width + GAP), label_height);
+        paste(
+            &mut pixmap,
+            img,
+            i as u32 * (panel_width + GAP),
+            label_height,
+        );
     }
     draw_labels(&mut pixmap, panel_width, label_height);
     let png = encode(&from_pixmap(&pixmap))?;

@@ -94,7 +94,10 @@ mod tests {
     fn data_paths_with_dots_line_up() {
         let root = Path::new("/tmp/side/figures");
         assert_eq!(
-            relative(Path::new("/tmp/side/figures/codebooks/../data/plots.csv"), root),
+            relative(
+                Path::new("/tmp/side/figures/codebooks/../data/plots.csv"),
+                root
+            ),
             "data/plots.csv"
         );
         assert_eq!(
@@ -109,8 +112,16 @@ mod tests {
             path: p.into(),
             text: t.into(),
         };
-        let old = [text("a.figura", "x"), text("b.csv", "1"), text("gone.figura", "")];
-        let new = [text("a.figura", "x"), text("b.csv", "2"), text("new.figura", "")];
+        let old = [
+            text("a.figura", "x"),
+            text("b.csv", "1"),
+            text("gone.figura", ""),
+        ];
+        let new = [
+            text("a.figura", "x"),
+            text("b.csv", "2"),
+            text("new.figura", ""),
+        ];
         let paths: Vec<String> = changes(&old, &new).into_iter().map(|c| c.path).collect();
         assert_eq!(paths, ["b.csv", "gone.figura", "new.figura"]);
     }
