@@ -274,3 +274,15 @@ fn check_mode_fails_on_syntax_errors_and_bad_paths() {
     let (code, _) = figura(tmp.path(), &["fmt", "--check", "no_such_folder"]);
     assert_eq!(code, 2);
 }
+
+#[test]
+fn the_examples_are_in_the_canonical_layout() {
+    let report =
+        format::format_paths(&[common::root().join("specs-examples")], Mode::Check).unwrap();
+    assert!(report.diagnostics.is_empty(), "{:?}", report.diagnostics);
+    assert!(
+        report.changed.is_empty(),
+        "run `figura fmt specs-examples`: {:?}",
+        report.changed
+    );
+}
