@@ -1,8 +1,9 @@
 //! `figura diff` in a real git repository: two commits of the seedlings and commute examples,
 //! where the second corrects one data value, adds a figure and removes one.
 //!
-//! Expected numbers are computed here from the data file with the textbook definitions (sample
-//! mean; standard error = sample standard deviation (n − 1) / √n), not read from Figura.
+//! Expected numbers are computed here from the data file with the usual definitions (common
+//! practice: sample mean; standard error = sample standard deviation (n − 1) / √n), not read
+//! from Figura.
 //! The page is loaded in headless Chromium (Debian's `chromium` package), which must be
 //! installed: the test fails without it.
 
