@@ -11,7 +11,10 @@
 
 mod cat;
 mod dist;
+mod flows;
 pub mod rows;
+mod violin;
+mod xy;
 pub mod summary;
 
 use crate::check::plan::{Codebook, FigurePlan, Frame, VarId};
@@ -61,6 +64,8 @@ pub enum XScale {
 pub enum YScale {
     Numbers(NumScale),
     Categories { title: String, levels: Levels },
+    /// No y axis: the marks show their own quantities (the stacked states of flows).
+    Hidden,
 }
 
 /// The colour legend.
@@ -144,6 +149,39 @@ pub struct Curve {
     pub points: Vec<(f64, f64)>,
 }
 
+/// A violin: the density of one cell's values, mirrored about the slot's centre.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ViolinMark {
+    pub x: usize,
+    pub group: usize,
+    /// (y, density) in ascending y, from the smallest to the largest value of the cell.
+    pub outline: Vec<(f64, f64)>,
+    pub q1: f64,
+    pub median: f64,
+    pub q3: f64,
+}
+
+/// A fitted line over the x range of its group's data, with its confidence band.
+#[derive(Debug, Clone, PartialEq)]
+pub struct FitMark {
+    pub group: usize,
+    /// (x, fitted y) in ascending x.
+    pub line: Vec<(f64, f64)>,
+    /// (x, low, high) of the band for the mean response, in ascending x; empty without a band.
+    pub band: Vec<(f64, f64, f64)>,
+}
+
+/// Subjects in each state at each occasion, and how many moved between consecutive occasions.
+#[derive(Debug, Clone, PartialEq)]
+pub struct FlowMarks {
+    /// `stacks[o][s]`: subjects in state slot `s` at occasion slot `o`.
+    pub stacks: Vec<Vec<usize>>,
+    /// `moves[o][s][t]`: subjects in state `s` at occasion `o` and state `t` at occasion `o + 1`.
+    pub moves: Vec<Vec<Vec<usize>>>,
+    /// The largest number of subjects at any occasion of any panel, so panels share a scale.
+    pub peak: usize,
+}
+
 /// What one layer draws in one panel.
 #[derive(Debug, Clone, PartialEq)]
 pub enum LayerMarks {
@@ -160,6 +198,14 @@ pub enum LayerMarks {
     Lines(Vec<SubjectPath>),
     Levels(Vec<LevelMark>),
     Curves(Vec<Curve>),
+    /// Violins; `peak` is the largest density of any violin of the layer in the figure, so
+    /// every violin is drawn on one width scale (equal areas).
+    Violins {
+        marks: Vec<ViolinMark>,
+        peak: f64,
+    },
+    Fits(Vec<FitMark>),
+    Flows(FlowMarks),
 }
 
 /// Which central value an [`LayerMarks::Estimates`] shows.
@@ -201,13 +247,8 @@ pub fn compute(
         Frame::CatNum { x, y, layers } => cat::cat_num(&ctx, x, y, layers),
         Frame::CatOrd { x, y, layers } => cat::cat_ord(&ctx, x, y, layers),
         Frame::Dist { x, layers } => dist::distribution(&ctx, x, layers),
-        Frame::Xy { x, y, layers } => dist::xy(&ctx, x, y, layers),
-        Frame::Flows { span, .. } => Err(ComputeError::Data(vec![Diagnostic::error(
-            crate::check::codes::LAYER_DOES_NOT_FIT,
-            "`flows` is not available in this version",
-        )
-        .with_label(*span, "not available")
-        .with_help("draw the states per occasion with `counts` and `panels` instead")])),
+        Frame::Xy { x, y, layers } => xy::xy(&ctx, x, y, layers),
+        Frame::Flows { x, y, span, .. } => flows::flows(&ctx, x, y, *span),
     }
 }
 
