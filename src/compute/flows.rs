@@ -35,12 +35,13 @@ pub fn flows(
     span: Span,
 ) -> Result<FigureData, ComputeError> {
     let occasions = rows::axis_levels(ctx.table, ctx.book, x, &ctx.keep)?;
-    let states = rows::axis_levels(ctx.table, ctx.book, y, &ctx.keep)?;
+    // Every state keeps its place and colour, even one the filter leaves empty.
+    let states = rows::levels(ctx.table, ctx.book, &y.var, y.order, &ctx.keep)?;
     let (occasion_codes, _) = rows::codes(ctx.table, ctx.book, x.var.var)?;
     let (state_codes, _) = rows::codes(ctx.table, ctx.book, y.var.var)?;
     let state_slots: Vec<Option<f64>> = state_codes
         .iter()
-        .map(|c| c.map(|c| states.slot(c) as f64))
+        .map(|c| c.and_then(|c| states.slot(c)).map(|s| s as f64))
         .collect();
     let placed = rows::place(
         &state_slots,

@@ -274,7 +274,7 @@ impl<'a> Context<'a> {
         let keep = rows::filter_rows(table, book, plan.filter.as_ref())?;
         let (panels, panel_codes) = match &plan.panels {
             Some(v) => (
-                rows::levels(
+                rows::shown_levels(
                     table,
                     book,
                     v,
@@ -287,7 +287,7 @@ impl<'a> Context<'a> {
         };
         let (groups, group_codes) = match &plan.colour {
             Some(v) => (
-                rows::levels(
+                rows::shown_levels(
                     table,
                     book,
                     v,
