@@ -101,7 +101,7 @@ fn missing_x_by_panel_group(ctx: &Context, x_codes: &[Option<u32>]) -> Vec<Vec<u
     let mut out = vec![vec![0usize; ctx.groups.len()]; ctx.panels.len()];
     let slot = |codes: Option<&[Option<u32>]>, levels: &Levels, row: usize| match codes {
         None => Some(0),
-        Some(c) => c[row].map(|code| levels.slot(code)),
+        Some(c) => c[row].and_then(|code| levels.slot(code)),
     };
     for row in (0..x_codes.len()).filter(|&r| ctx.keep[r] && x_codes[r].is_none()) {
         if let (Some(p), Some(g)) = (
