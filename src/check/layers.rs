@@ -425,9 +425,14 @@ fn y_missing(layer: &RawLayer) -> Diagnostic {
 }
 
 fn y_not_used(layer: &RawLayer, y: &AxisVar) -> Diagnostic {
+    let what = if layer.kind == LayerKind::Density {
+        "it shows how x is distributed"
+    } else {
+        "it counts rows of x"
+    };
     Diagnostic::error(
         codes::Y_NOT_USED,
-        format!("{} has no `y`: it counts rows of x", layer.kind.quoted()),
+        format!("{} has no `y`: {what}", layer.kind.quoted()),
     )
     .with_label(layer.head, "draws its own heights")
     .with_label(y.name_span, "y given here")
@@ -725,8 +730,17 @@ fn cat_num_frame(
                 out.push(CatNumLayer::Lines { by, span });
             }
             LayerKind::Fit => diags.push(
-                not_categorical(book.var(x.var), x.name_span, "`fit` needs a numeric x; x")
-                    .with_label(layer.head, "fits a line over numeric x"),
+                Diagnostic::error(
+                    codes::LAYER_DOES_NOT_FIT,
+                    format!(
+                        "`fit` needs a numeric x, and `{}` is {}",
+                        book.var(x.var).name,
+                        x.scale.as_str()
+                    ),
+                )
+                .with_label(x.name_span, format!("x is {}", x.scale.as_str()))
+                .with_label(layer.head, "fits a line of y on x")
+                .with_help("put an interval or ratio variable on x; to compare groups, use `points` with `box` or `mean`"),
             ),
             LayerKind::Flows => diags.push(
                 Diagnostic::error(
