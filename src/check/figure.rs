@@ -141,7 +141,9 @@ pub fn check_figure(
                 "flows are coloured by their states; `colour` cannot split them",
             )
             .with_label(c.span, "a second colouring")
-            .with_help("remove `colour`, or show each group's flows in its own panel with `panels`"),
+            .with_help(
+                "remove `colour`, or show each group's flows in its own panel with `panels`",
+            ),
         );
     }
     if count_errors(diags) > errors_before {
@@ -385,13 +387,13 @@ fn axis_var(book: &Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) -> Option<A
     if let (Some(log), Some((lo, _))) = (out.log_span, out.range) {
         if lo <= 0.0 {
             diags.push(
-                Diagnostic::error(
-                    codes::BAD_ARGUMENT,
-                    "a log axis cannot reach zero or below",
-                )
-                .with_label(log, "log scale")
-                .with_label(opts.call("range").map_or(log, |c| c.span), "range starts at or below zero")
-                .with_help("start the range above zero, e.g. `range(1, 1000)`"),
+                Diagnostic::error(codes::BAD_ARGUMENT, "a log axis cannot reach zero or below")
+                    .with_label(log, "log scale")
+                    .with_label(
+                        opts.call("range").map_or(log, |c| c.span),
+                        "range starts at or below zero",
+                    )
+                    .with_help("start the range above zero, e.g. `range(1, 1000)`"),
             );
             out.range = None;
         }

@@ -122,7 +122,13 @@ fn tally(placed: &Placed, panel: usize, n_x: usize, n_groups: usize) -> Vec<Vec<
     t
 }
 
-pub(super) fn key(ctx: &Context, panel: usize, layer: &'static str, group: usize, x: &str) -> RowKey {
+pub(super) fn key(
+    ctx: &Context,
+    panel: usize,
+    layer: &'static str,
+    group: usize,
+    x: &str,
+) -> RowKey {
     RowKey {
         panel: ctx.panel_name(panel),
         layer,

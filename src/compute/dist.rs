@@ -13,7 +13,13 @@ use super::{
 /// Points at which a density curve is evaluated, across the padded data range.
 const DENSITY_GRID: usize = 256;
 
-pub(super) fn key(ctx: &Context, panel: usize, layer: &'static str, group: usize, x: String) -> RowKey {
+pub(super) fn key(
+    ctx: &Context,
+    panel: usize,
+    layer: &'static str,
+    group: usize,
+    x: String,
+) -> RowKey {
     RowKey {
         panel: ctx.panel_name(panel),
         layer,

@@ -171,7 +171,9 @@ fn summarise(
             .filter(|(c, _)| c.panel == p && c.x == o)
             .map(|(_, n)| n)
             .sum::<usize>()
-            + here().filter(|ob| ob.cell.x == o && ob.subject.is_none()).count();
+            + here()
+                .filter(|ob| ob.cell.x == o && ob.subject.is_none())
+                .count();
         summary.push(k.count("n_missing", missing));
         for (s, state) in states.names.iter().enumerate() {
             summary.push(key(name.clone(), state.clone()).count("count", marks.stacks[o][s]));

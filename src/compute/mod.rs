@@ -13,9 +13,9 @@ mod cat;
 mod dist;
 mod flows;
 pub mod rows;
+pub mod summary;
 mod violin;
 mod xy;
-pub mod summary;
 
 use crate::check::plan::{Codebook, FigurePlan, Frame, VarId};
 use crate::data::Table;
@@ -63,7 +63,10 @@ pub enum XScale {
 #[derive(Debug, Clone, PartialEq)]
 pub enum YScale {
     Numbers(NumScale),
-    Categories { title: String, levels: Levels },
+    Categories {
+        title: String,
+        levels: Levels,
+    },
     /// No y axis: the marks show their own quantities (the stacked states of flows).
     Hidden,
 }

@@ -72,7 +72,13 @@ fn outline(values: &[f64], h: f64) -> Option<Vec<(f64, f64)>> {
     }
     let step = (hi - lo) / (VIOLIN_GRID - 1) as f64;
     let grid: Vec<f64> = (0..VIOLIN_GRID)
-        .map(|i| if i + 1 == VIOLIN_GRID { hi } else { lo + step * i as f64 })
+        .map(|i| {
+            if i + 1 == VIOLIN_GRID {
+                hi
+            } else {
+                lo + step * i as f64
+            }
+        })
         .collect();
     let density = stats::kde(values, h, &grid).ok()?;
     Some(grid.into_iter().zip(density).collect())

@@ -107,7 +107,12 @@ impl NumAxisMap {
             .map(|t| thin_decades(t, target))
             .unwrap_or_else(|| {
                 stats::nice_ticks(10f64.powf(dlo), 10f64.powf(dhi), target)
-                    .map(|t| t.values.into_iter().filter(|v| *v > 0.0 && inside(*v)).collect())
+                    .map(|t| {
+                        t.values
+                            .into_iter()
+                            .filter(|v| *v > 0.0 && inside(*v))
+                            .collect()
+                    })
                     .unwrap_or_default()
             });
         let labels = ticks.iter().map(|t| format_log_tick(*t)).collect();

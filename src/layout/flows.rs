@@ -87,7 +87,13 @@ pub fn draw(frame: &PanelFrame, flows: &FlowMarks) -> Vec<Mark> {
                 fill: Some(Fill::solid(colour(s))),
                 stroke: None,
             });
-            out.extend(count_label(flows.stacks[o][s], centre(o), *b, bar, colour(s)));
+            out.extend(count_label(
+                flows.stacks[o][s],
+                centre(o),
+                *b,
+                bar,
+                colour(s),
+            ));
         }
     }
     out

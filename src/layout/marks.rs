@@ -202,7 +202,10 @@ fn draw_violin(out: &mut Vec<Mark>, frame: &PanelFrame, v: &ViolinMark, peak: f6
 /// The outline's density at `y`, interpolated linearly between its grid points.
 fn density_at(outline: &[(f64, f64)], y: f64) -> f64 {
     let i = outline.partition_point(|(v, _)| *v < y);
-    match (i.checked_sub(1).and_then(|j| outline.get(j)), outline.get(i)) {
+    match (
+        i.checked_sub(1).and_then(|j| outline.get(j)),
+        outline.get(i),
+    ) {
         (Some(&(y0, d0)), Some(&(y1, d1))) if y1 > y0 => d0 + (d1 - d0) * (y - y0) / (y1 - y0),
         (_, Some(&(_, d))) | (Some(&(_, d)), None) => d,
         (None, None) => 0.0,
