@@ -836,12 +836,11 @@ fn filters_on_an_ordinal_follow_its_level_order() {
     let first = project.summary("within_0");
     // The kept sessions, collapsed per subject and condition, against numpy.
     check_collapsed(&first, &csv, "mean", &["second", "third"]);
-    for i in 1..filters.len() {
+    for (i, filter) in filters.iter().enumerate().skip(1) {
         assert_eq!(
             project.summary(&format!("within_{i}")).0,
             first.0,
-            "{}",
-            filters[i]
+            "{filter}"
         );
     }
     // A filter on x itself leaves only the kept levels on the axis.
