@@ -578,6 +578,37 @@ fn flows_name_a_subject_with_two_states_at_one_visit() {
     assert!(!project.out("out").join("moves.svg").exists());
 }
 
+#[test]
+fn more_states_or_groups_than_colours_is_a_located_error() {
+    // Nine states at two visits: the palette has eight colours (Okabe & Ito 2008).
+    let csv: String = std::iter::once("subject_id,visit,state,score\n".to_string())
+        .chain((1..=9).flat_map(|i| ["v1", "v2"].map(|v| format!("S{i},{v},state{i},{i}\n"))))
+        .collect();
+    let project = Project::new(
+        r#"
+data many "many.csv" {
+  subject_id: id
+  visit: ordinal levels("v1", "v2")
+  state: nominal
+  score: ratio
+  subject subject_id
+  within visit
+}
+figure moves { from many; x visit; y state; flows by(subject_id) }
+figure coloured { from many; x score; y score; colour state; points }
+"#,
+        &[("many.csv", &csv)],
+    );
+    let report = project.build_into("out");
+    let messages: Vec<(&str, &str)> = report
+        .diagnostics
+        .iter()
+        .map(|d| (d.code, d.message.as_str()))
+        .collect();
+    let expected = "`state` has 9 levels to tell apart by colour, more than the palette's 8";
+    assert_eq!(messages, [("F0119", expected), ("F0119", expected)]);
+}
+
 // ---------------------------------------------------------------------------------------------
 // Fit: NIST StRD Norris.
 

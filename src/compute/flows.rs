@@ -37,6 +37,7 @@ pub fn flows(
     let occasions = rows::axis_levels(ctx.table, ctx.book, x, &ctx.keep)?;
     // Every state keeps its place and colour, even one the filter leaves empty.
     let states = rows::levels(ctx.table, ctx.book, &y.var, y.order, &ctx.keep)?;
+    super::check_colours(&states, &ctx.book.var(y.var.var).name, y.var.span)?;
     let (occasion_codes, _) = rows::codes(ctx.table, ctx.book, x.var.var)?;
     let (state_codes, _) = rows::codes(ctx.table, ctx.book, y.var.var)?;
     let state_slots: Vec<Option<f64>> = state_codes

@@ -301,6 +301,9 @@ impl<'a> Context<'a> {
             ),
             None => (Levels::single(), None),
         };
+        if let Some(c) = &plan.colour {
+            check_colours(&groups, &book.var(c.var).name, c.span)?;
+        }
         let subject_codes = match book.subject {
             Some(s) => Some(rows::codes(table, book, s)?),
             None => None,
@@ -362,4 +365,27 @@ impl<'a> Context<'a> {
             .map(|(_, names)| names[code as usize].clone())
             .unwrap_or_default()
     }
+}
+
+/// Levels told apart by colour must not outnumber the palette's colours (no colour is ever
+/// used twice: see [`crate::palette`]).
+pub(crate) fn check_colours(
+    levels: &Levels,
+    var: &str,
+    span: crate::diag::Span,
+) -> Result<(), ComputeError> {
+    let most = crate::palette::MAX_GROUPS;
+    if levels.len() <= most {
+        return Ok(());
+    }
+    Err(Diagnostic::error(
+        crate::check::codes::TOO_MANY_COLOURS,
+        format!(
+            "`{var}` has {} levels to tell apart by colour, more than the palette's {most}",
+            levels.len()
+        ),
+    )
+    .with_label(span, "one colour per level")
+    .with_help("show this variable in `panels` instead, or keep fewer levels with `where`")
+    .into())
 }
