@@ -206,6 +206,13 @@ fn reference(mode: &str, request: Value) -> Value {
     serde_json::from_slice(&out.stdout).expect("end_to_end.py prints JSON")
 }
 
+/// The code and message of a build's only error.
+fn only_error(report: &BuildReport) -> (&'static str, String) {
+    let errors: Vec<_> = report.diagnostics.iter().filter(|d| d.is_error()).collect();
+    assert_eq!(errors.len(), 1, "{errors:#?}");
+    (errors[0].code, errors[0].message.clone())
+}
+
 fn bits(values: &[f64]) -> Vec<u64> {
     values.iter().map(|v| v.to_bits()).collect()
 }
@@ -567,12 +574,11 @@ fn flows_name_a_subject_with_two_states_at_one_visit() {
     let csv = format!("{VISITS_CSV}S2,v2,high\n");
     let project = flows_project("", &csv);
     let report = project.build_into("out");
-    let errors: Vec<_> = report.diagnostics.iter().filter(|d| d.is_error()).collect();
-    assert_eq!(errors.len(), 1, "{errors:#?}");
-    assert_eq!(errors[0].code, "F0109");
+    let (code, message) = only_error(&report);
+    assert_eq!(code, "F0109");
     // S2's second row at v2 is the file's last line: data row 22 (the header is row 1).
     assert_eq!(
-        errors[0].message,
+        message,
         "subject \"S2\" has more than one state at occasion \"v2\" (data rows 6 and 22)"
     );
     assert!(!project.out("out").join("moves.svg").exists());
@@ -832,13 +838,12 @@ fn per_subject_layers_without_replicates_name_the_subject_and_cell() {
     let csv = trial_csv(2024);
     let project = trials_project("", &WITHIN_FIGURE.replace("WHERE", ""), &csv);
     let report = project.build_into("out");
-    let errors: Vec<_> = report.diagnostics.iter().filter(|d| d.is_error()).collect();
-    assert_eq!(errors.len(), 1, "{errors:#?}");
-    assert_eq!(errors[0].code, "F0109");
+    let (code, message) = only_error(&report);
+    assert_eq!(code, "F0109");
     // numpy's CSV lists S01's trials first: rows 2 and 3 of the file are its first two trials
     // in condition a.
     assert_eq!(
-        errors[0].message,
+        message,
         "subject \"S01\" has more than one value in cell (x = \"a\") (data rows 2 and 3)"
     );
 }

@@ -721,17 +721,7 @@ pub fn cat_ord(
     y: &CatAxis,
     layers: &[CatOrdLayer],
 ) -> Result<FigureData, ComputeError> {
-    let levels = rows::axis_levels(ctx.table, ctx.book, x, &ctx.keep)?;
-    // An ordinal y keeps every level, so its spacing never changes with a filter.
-    let y_levels = rows::levels(ctx.table, ctx.book, &y.var, y.order, &ctx.keep)?;
-    let (codes, _) = rows::codes(ctx.table, ctx.book, x.var.var)?;
-    let (y_codes, _) = rows::codes(ctx.table, ctx.book, y.var.var)?;
-    let y_values: Vec<Option<f64>> = y_codes
-        .iter()
-        .map(|c| c.and_then(|c| y_levels.slot(c)).map(|s| s as f64))
-        .collect();
-    let placement = ctx.placement(Some((codes, &levels)));
-    let mut placed = rows::place(&y_values, &ctx.keep, &placement);
+    let (levels, y_levels, mut placed) = ctx.place_levels(x, y)?;
     if let Some(rep) = &ctx.book.replicates {
         if rep.collapse == crate::check::plan::Collapse::Median {
             rows::collapse(&mut placed, rep.collapse);

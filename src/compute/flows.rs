@@ -34,21 +34,8 @@ pub fn flows(
     y: &CatAxis,
     span: Span,
 ) -> Result<FigureData, ComputeError> {
-    let occasions = rows::axis_levels(ctx.table, ctx.book, x, &ctx.keep)?;
-    // Every state keeps its place and colour, even one the filter leaves empty.
-    let states = rows::levels(ctx.table, ctx.book, &y.var, y.order, &ctx.keep)?;
+    let (occasions, states, placed) = ctx.place_levels(x, y)?;
     super::check_colours(&states, &ctx.book.var(y.var.var).name, y.var.span)?;
-    let (occasion_codes, _) = rows::codes(ctx.table, ctx.book, x.var.var)?;
-    let (state_codes, _) = rows::codes(ctx.table, ctx.book, y.var.var)?;
-    let state_slots: Vec<Option<f64>> = state_codes
-        .iter()
-        .map(|c| c.and_then(|c| states.slot(c)).map(|s| s as f64))
-        .collect();
-    let placed = rows::place(
-        &state_slots,
-        &ctx.keep,
-        &ctx.placement(Some((occasion_codes, &occasions))),
-    );
     check_one_state(ctx, &placed, &occasions, span)?;
     let mut panels = Vec::new();
     let mut summary = Vec::new();

@@ -360,6 +360,31 @@ impl<'a> Context<'a> {
         }
     }
 
+    /// Levels of a categorical x (as shown) and y (every level), and y's level slot placed in
+    /// the cells of x: for frames whose y is categorical too (ordinal medians, flows).
+    pub fn place_levels(
+        &self,
+        x: &crate::check::plan::CatAxis,
+        y: &crate::check::plan::CatAxis,
+    ) -> Result<(Levels, Levels, rows::Placed), ComputeError> {
+        let x_levels = rows::axis_levels(self.table, self.book, x, &self.keep)?;
+        // y keeps every level, even one a filter leaves empty: an ordinal y keeps its spacing,
+        // and flow states keep their places and colours.
+        let y_levels = rows::levels(self.table, self.book, &y.var, y.order, &self.keep)?;
+        let (x_codes, _) = rows::codes(self.table, self.book, x.var.var)?;
+        let (y_codes, _) = rows::codes(self.table, self.book, y.var.var)?;
+        let y_slots: Vec<Option<f64>> = y_codes
+            .iter()
+            .map(|c| c.and_then(|c| y_levels.slot(c)).map(|s| s as f64))
+            .collect();
+        let placed = rows::place(
+            &y_slots,
+            &self.keep,
+            &self.placement(Some((x_codes, &x_levels))),
+        );
+        Ok((x_levels, y_levels, placed))
+    }
+
     pub fn subject_name(&self, code: u32) -> String {
         self.subject_codes
             .map(|(_, names)| names[code as usize].clone())
