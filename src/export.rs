@@ -243,8 +243,69 @@ impl Rendered {
             dpi: MM_PER_INCH as f32,
         };
         svg2pdf::to_pdf(&self.tree, svg2pdf::ConversionOptions::default(), page)
+            .map(canonical_resource_order)
             .map_err(|e| ExportError::Pdf(e.to_string()))
     }
+}
+
+/// Resource dictionaries whose entries the PDF writer emits in hash order.
+const RESOURCE_DICTS: [&[u8]; 6] = [
+    b"/ExtGState <<\n",
+    b"/XObject <<\n",
+    b"/Pattern <<\n",
+    b"/Shading <<\n",
+    b"/Font <<\n",
+    b"/ColorSpace <<\n",
+];
+
+/// Sorts the entries of every resource dictionary, so identical figures give identical bytes.
+///
+/// The PDF writer emits these entries (one `/name reference` per line) in an order that
+/// changes from run to run. Sorting the lines of each dictionary moves no byte outside it and
+/// keeps its length, so every offset in the cross-reference table stays right. Stream contents
+/// are skipped; a dictionary whose lines are not all single entries is left as it is.
+fn canonical_resource_order(mut pdf: Vec<u8>) -> Vec<u8> {
+    let mut at = 0;
+    while at < pdf.len() {
+        if pdf[at..].starts_with(b"\nstream\n") {
+            at = find(&pdf, b"\nendstream", at + 8).unwrap_or(pdf.len());
+            continue;
+        }
+        let Some(head) = RESOURCE_DICTS.iter().find(|h| pdf[at..].starts_with(h)) else {
+            at += 1;
+            continue;
+        };
+        let start = at + head.len();
+        let Some(end) = find(&pdf, b">>", start) else {
+            break;
+        };
+        // The block holds whole lines: from `start` to the line that closes the dictionary.
+        let block_end = pdf[start..end]
+            .iter()
+            .rposition(|&b| b == b'\n')
+            .map_or(start, |i| start + i + 1);
+        let block = &pdf[start..block_end];
+        let mut lines: Vec<&[u8]> = block.split_inclusive(|&b| b == b'\n').collect();
+        let single_entries = lines.iter().all(|l| {
+            let t = l.trim_ascii_start();
+            t.starts_with(b"/") && !t.contains(&b'<')
+        });
+        if single_entries {
+            lines.sort_unstable();
+            let sorted: Vec<u8> = lines.concat();
+            pdf[start..block_end].copy_from_slice(&sorted);
+        }
+        at = end;
+    }
+    pdf
+}
+
+/// The first position of `needle` in `hay` at or after `from`.
+fn find(hay: &[u8], needle: &[u8], from: usize) -> Option<usize> {
+    hay.get(from..)?
+        .windows(needle.len())
+        .position(|w| w == needle)
+        .map(|i| from + i)
 }
 
 fn encode_png(rgb: &[u8], width_px: u32, height_px: u32, dpi: f64) -> Result<Vec<u8>, ExportError> {
@@ -263,4 +324,26 @@ fn encode_png(rgb: &[u8], width_px: u32, height_px: u32, dpi: f64) -> Result<Vec
     writer.write_image_data(rgb).map_err(png_error)?;
     writer.finish().map_err(png_error)?;
     Ok(bytes)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn resource_entries_are_sorted_in_place() {
+        let pdf = b"3 0 obj\n<<\n  /ExtGState <<\n    /gs2 8 0 R\n    /gs10 16 0 R\n  >>\n>>\nstream\n/ExtGState <<\n /b\n /a\n>>\nendstream\n".to_vec();
+        let out = canonical_resource_order(pdf.clone());
+        assert_eq!(out.len(), pdf.len());
+        let text = String::from_utf8(out).unwrap();
+        assert!(
+            text.contains("    /gs10 16 0 R\n    /gs2 8 0 R\n  >>"),
+            "{text}"
+        );
+        // Stream contents are never touched.
+        assert!(
+            text.contains("stream\n/ExtGState <<\n /b\n /a\n>>"),
+            "{text}"
+        );
+    }
 }

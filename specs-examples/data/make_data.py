@@ -79,12 +79,76 @@ def plots(rng):
     write("plots.csv", ["plot", "mulch", "soil_temp", "beetles"], rows)
 
 
+def clinic(rng):
+    """A clinic follow-up: 64 patients in two arms, symptom severity at four visits.
+
+    Severity tends to ease over the visits, more so under the exercise programme. A few
+    patients miss a visit, and one severity was not recorded.
+    """
+    levels = ["none", "mild", "moderate", "severe"]
+    visits = ["baseline", "week 4", "week 12", "week 26"]
+    rows = []
+    for p in range(1, 65):
+        arm = "exercise" if p % 2 else "usual care"
+        state = rng.choices([1, 2, 3], [0.3, 0.45, 0.25])[0]
+        ease = 0.35 if arm == "exercise" else 0.2
+        for v, visit in enumerate(visits):
+            if v > 0:
+                u = rng.random()
+                if u < ease and state > 0:
+                    state -= 1
+                elif u > 0.9 and state < 3:
+                    state += 1
+            if (p, v) in ((9, 2), (23, 3), (40, 1), (51, 3)):
+                continue
+            severity = levels[state]
+            if (p, v) == (31, 2):
+                severity = ""
+            rows.append([f"P{p:03d}", arm, visit, severity])
+    write("clinic.csv", ["patient", "arm", "visit", "severity"], rows)
+
+
+def responses(rng):
+    """A response-time task: 28 participants, three cue conditions, three sessions, six trials each.
+
+    Times are right-skewed (log-normal); participants differ in speed and get faster over
+    sessions. Each row is one trial.
+    """
+    cues = {"valid": -0.08, "neutral": 0.0, "invalid": 0.1}
+    sessions = {"first": 0.06, "second": 0.0, "third": -0.04}
+    rows = []
+    for p in range(1, 29):
+        speed = rng.gauss(math.log(430), 0.16)
+        for cue, shift in cues.items():
+            for session, practice in sessions.items():
+                for trial in range(1, 7):
+                    ms = math.exp(speed + shift + practice + rng.gauss(0, 0.2))
+                    rows.append([f"S{p:02d}", cue, session, trial, f"{ms:.0f}"])
+    write("responses.csv", ["participant", "cue", "session", "trial", "ms"], rows)
+
+
+def leaves(rng):
+    """Leaves from two sites: dry mass and area, roughly proportional, with scatter."""
+    rows = []
+    for i in range(1, 61):
+        site = "valley" if i % 3 else "ridge"
+        mass = rng.uniform(0.15, 1.4)
+        sla = 190.0 if site == "valley" else 150.0
+        area = max(5.0, sla * mass + rng.gauss(0, 14))
+        rows.append([f"L{i:02d}", site, f"{mass:.3f}", f"{area:.1f}"])
+    write("leaves.csv", ["leaf", "site", "mass", "area"], rows)
+
+
 def main():
     rng = random.Random(20261202)
     reading(rng)
     seedlings(rng)
     commute(rng)
     plots(rng)
+    # Later datasets draw from their own generators, so adding one never changes another.
+    clinic(random.Random(31))
+    responses(random.Random(47))
+    leaves(random.Random(59))
 
 
 if __name__ == "__main__":

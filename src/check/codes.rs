@@ -39,6 +39,8 @@ pub const Y_NOT_USED: &str = "F0116";
 pub const Y_NOT_NUMERIC: &str = "F0117";
 /// A layer over a numeric `x` was given a second numeric `y` it cannot use, or vice versa.
 pub const LAYER_DOES_NOT_FIT: &str = "F0118";
+/// More levels to tell apart by colour than the palette has colours (found in the data).
+pub const TOO_MANY_COLOURS: &str = "F0119";
 
 /// A statement word that does not exist in this block.
 pub const UNKNOWN_STATEMENT: &str = "F0201";

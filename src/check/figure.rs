@@ -93,10 +93,10 @@ pub fn check_figure(
         |p| formats(p, diags),
     )?;
     let dpi = parts.dpi.map_or(Some(DEFAULT_DPI), |p| dpi(p, diags))?;
-    let filter: Option<Filter> = match parts.filter {
-        Some(w) => Some(check_filter(book, &w.expr, diags)?),
-        None => None,
-    };
+    // A filter with errors is reported, and the rest of the figure is still checked.
+    let filter: Option<Filter> = parts
+        .filter
+        .and_then(|w| check_filter(book, &w.expr, diags));
     let raw_layers: Vec<RawLayer> = parts
         .layers
         .iter()
@@ -134,6 +134,18 @@ pub fn check_figure(
         },
         diags,
     )?;
+    if let (super::plan::Frame::Flows { .. }, Some(c)) = (&frame, &colour) {
+        diags.push(
+            Diagnostic::error(
+                codes::LAYER_DOES_NOT_FIT,
+                "flows are coloured by their states; `colour` cannot split them",
+            )
+            .with_label(c.span, "a second colouring")
+            .with_help(
+                "remove `colour`, or show each group's flows in its own panel with `panels`",
+            ),
+        );
+    }
     if count_errors(diags) > errors_before {
         return None;
     }
@@ -371,6 +383,20 @@ fn axis_var(book: &Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) -> Option<A
     }
     if let Some(c) = opts.call("order") {
         out.order = order(var, c, diags).map(|o| (o, c.span));
+    }
+    if let (Some(log), Some((lo, _))) = (out.log_span, out.range) {
+        if lo <= 0.0 {
+            diags.push(
+                Diagnostic::error(codes::BAD_ARGUMENT, "a log axis cannot reach zero or below")
+                    .with_label(log, "log scale")
+                    .with_label(
+                        opts.call("range").map_or(log, |c| c.span),
+                        "range starts at or below zero",
+                    )
+                    .with_help("start the range above zero, e.g. `range(1, 1000)`"),
+            );
+            out.range = None;
+        }
     }
     Some(out)
 }

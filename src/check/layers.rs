@@ -425,9 +425,14 @@ fn y_missing(layer: &RawLayer) -> Diagnostic {
 }
 
 fn y_not_used(layer: &RawLayer, y: &AxisVar) -> Diagnostic {
+    let what = if layer.kind == LayerKind::Density {
+        "it shows how x is distributed"
+    } else {
+        "it counts rows of x"
+    };
     Diagnostic::error(
         codes::Y_NOT_USED,
-        format!("{} has no `y`: it counts rows of x", layer.kind.quoted()),
+        format!("{} has no `y`: {what}", layer.kind.quoted()),
     )
     .with_label(layer.head, "draws its own heights")
     .with_label(y.name_span, "y given here")
@@ -464,6 +469,20 @@ fn counts_frame(x: &AxisVar, layers: &[RawLayer], diags: &mut Vec<Diagnostic>) -
 }
 
 fn dist_frame(x: &AxisVar, layers: &[RawLayer], diags: &mut Vec<Diagnostic>) -> Option<Frame> {
+    if let (Some(log), Some(layer)) = (x.log_span, layers.first()) {
+        diags.push(
+            Diagnostic::error(
+                codes::LAYER_DOES_NOT_FIT,
+                format!(
+                    "{} works in equal steps of x, which a log axis would distort",
+                    layer.kind.quoted()
+                ),
+            )
+            .with_label(log, "log scale")
+            .with_label(layer.head, "bins and kernels have one width in data units")
+            .with_help("remove `scale(log)`; to show a skewed ratio variable, a log scale suits `points` against another variable"),
+        );
+    }
     let mut out = Vec::new();
     for layer in layers {
         match layer.kind {
@@ -562,7 +581,16 @@ fn cat_cat_frame(
     let mut out = Vec::new();
     for layer in layers {
         match (layer.kind, y.scale) {
-            (LayerKind::Median, Scale::Ordinal) => out.push(CatOrdLayer::Median { span: layer.span }),
+            (LayerKind::Median, Scale::Ordinal) => {
+                if let Some((_, span)) = layer.error {
+                    diags.push(
+                        Diagnostic::error(codes::BAD_ARGUMENT, "the median of an ordinal variable is a level; it has no bootstrap interval here")
+                            .with_label(span, "interval of a level")
+                            .with_help("remove `error(...)`: the drawn line already spans the quartile levels"),
+                    );
+                }
+                out.push(CatOrdLayer::Median { span: layer.span })
+            }
             (LayerKind::Mean, _) => diags.push(
                 Diagnostic::error(codes::MEAN_OF_CATEGORIES, format!("a mean of `{}` treats {} categories as numbers", yvar.name, y.scale.as_str()))
                     .with_label(y.name_span, format!("y is {}", y.scale.as_str()))
@@ -702,8 +730,17 @@ fn cat_num_frame(
                 out.push(CatNumLayer::Lines { by, span });
             }
             LayerKind::Fit => diags.push(
-                not_categorical(book.var(x.var), x.name_span, "`fit` needs a numeric x; x")
-                    .with_label(layer.head, "fits a line over numeric x"),
+                Diagnostic::error(
+                    codes::LAYER_DOES_NOT_FIT,
+                    format!(
+                        "`fit` needs a numeric x, and `{}` is {}",
+                        book.var(x.var).name,
+                        x.scale.as_str()
+                    ),
+                )
+                .with_label(x.name_span, format!("x is {}", x.scale.as_str()))
+                .with_label(layer.head, "fits a line of y on x")
+                .with_help("put an interval or ratio variable on x; to compare groups, use `points` with `box` or `mean`"),
             ),
             LayerKind::Flows => diags.push(
                 Diagnostic::error(
@@ -733,6 +770,17 @@ fn check_mean(
     layer: &RawLayer,
     diags: &mut Vec<Diagnostic>,
 ) {
+    if let (Some(bar), Some(log)) = (layer.bar, y.log_span) {
+        diags.push(
+            Diagnostic::error(
+                codes::LAYER_DOES_NOT_FIT,
+                "a bar from zero cannot be drawn on a log axis",
+            )
+            .with_label(bar, "bar drawn from zero")
+            .with_label(log, "log scale has no zero")
+            .with_help("remove `bar` and show the mean as a point, or use a linear scale"),
+        );
+    }
     if let (Some(bar), Scale::Interval) = (layer.bar, y.scale) {
         diags.push(
             Diagnostic::error(

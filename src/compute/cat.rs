@@ -101,7 +101,7 @@ fn missing_x_by_panel_group(ctx: &Context, x_codes: &[Option<u32>]) -> Vec<Vec<u
     let mut out = vec![vec![0usize; ctx.groups.len()]; ctx.panels.len()];
     let slot = |codes: Option<&[Option<u32>]>, levels: &Levels, row: usize| match codes {
         None => Some(0),
-        Some(c) => c[row].map(|code| levels.slot(code)),
+        Some(c) => c[row].and_then(|code| levels.slot(code)),
     };
     for row in (0..x_codes.len()).filter(|&r| ctx.keep[r] && x_codes[r].is_none()) {
         if let (Some(p), Some(g)) = (
@@ -122,7 +122,13 @@ fn tally(placed: &Placed, panel: usize, n_x: usize, n_groups: usize) -> Vec<Vec<
     t
 }
 
-fn key(ctx: &Context, panel: usize, layer: &'static str, group: usize, x: &str) -> RowKey {
+pub(super) fn key(
+    ctx: &Context,
+    panel: usize,
+    layer: &'static str,
+    group: usize,
+    x: &str,
+) -> RowKey {
     RowKey {
         panel: ctx.panel_name(panel),
         layer,
@@ -132,7 +138,7 @@ fn key(ctx: &Context, panel: usize, layer: &'static str, group: usize, x: &str) 
 }
 
 /// Values of one cell, sorted.
-fn cell_values(obs: &[Obs], cell: Cell) -> Vec<f64> {
+pub(super) fn cell_values(obs: &[Obs], cell: Cell) -> Vec<f64> {
     let mut v: Vec<f64> = obs
         .iter()
         .filter(|o| o.cell == cell)
@@ -184,7 +190,9 @@ pub fn cat_num(
                 CatNumLayer::Lines { .. } => {
                     lines(ctx, &placed, p, points_jitter(layers), &mut summary)
                 }
-                CatNumLayer::Violin { span, .. } => return Err(unavailable(*span, "violin")),
+                CatNumLayer::Violin { bandwidth, .. } => {
+                    super::violin::violins(ctx, &placed, p, &levels, *bandwidth, &mut summary)
+                }
             };
             for m in &marks {
                 extent.add_marks(m);
@@ -198,6 +206,7 @@ pub fn cat_num(
             n_by_x,
         });
     }
+    super::violin::share_peak(&mut panels);
     Ok(FigureData {
         x: XScale::Categories {
             title: ctx.title(x.var.var, &x.title),
@@ -234,15 +243,6 @@ fn n_by_x(placed: &Placed, panel: usize, n_levels: usize) -> Vec<usize> {
             subjects.len() + here.filter(|o| o.subject.is_none()).count()
         })
         .collect()
-}
-
-fn unavailable(span: crate::diag::Span, what: &str) -> ComputeError {
-    ComputeError::Data(vec![crate::diag::Diagnostic::error(
-        crate::check::codes::LAYER_DOES_NOT_FIT,
-        format!("`{what}` is not available in this version"),
-    )
-    .with_label(span, "not available")
-    .with_help("use `box` with `points` to show the distribution")])
 }
 
 /// Smallest and largest drawn value.
@@ -290,10 +290,16 @@ impl Extent {
                 .iter()
                 .flat_map(|p| &p.points)
                 .for_each(|(_, _, y)| self.add(*y)),
+            LayerMarks::Violins { marks, .. } => marks
+                .iter()
+                .flat_map(|v| &v.outline)
+                .for_each(|(y, _)| self.add(*y)),
             LayerMarks::Bins(_)
             | LayerMarks::XyPoints(_)
             | LayerMarks::Levels(_)
-            | LayerMarks::Curves(_) => {}
+            | LayerMarks::Curves(_)
+            | LayerMarks::Fits(_)
+            | LayerMarks::Flows(_) => {}
         }
     }
 }
@@ -338,14 +344,25 @@ fn check_one_value_per_subject(
 }
 
 fn check_log_axis(ctx: &Context, y: &NumAxis, placed: &Placed) -> Result<(), ComputeError> {
-    let (Some(span), Some(zero)) = (y.scale_span, placed.obs.iter().find(|o| o.value <= 0.0))
-    else {
+    check_log_values(ctx, y, placed.obs.iter().map(|o| (o.row, o.value)))
+}
+
+/// Rule 10 in the data: a value at or below zero on a log axis; `values` are (row, value).
+pub(super) fn check_log_values(
+    ctx: &Context,
+    axis: &NumAxis,
+    mut values: impl Iterator<Item = (usize, f64)>,
+) -> Result<(), ComputeError> {
+    let Some(span) = axis.scale_span else {
         return Ok(());
     };
-    let var = ctx.book.var(y.var.var);
+    let Some((row, _)) = values.find(|(_, v)| *v <= 0.0) else {
+        return Ok(());
+    };
+    let var = ctx.book.var(axis.var.var);
     Err(crate::diag::Diagnostic::error(
         crate::check::codes::LOG_OF_ZERO,
-        format!("`{}` has a zero (data row {}), and a log scale cannot show zero", var.name, zero.row + 2),
+        format!("`{}` has a zero (data row {}), and a log scale cannot show zero", var.name, row + 2),
     )
     .with_label(span, "log scale")
     .with_help("use a linear scale, or filter out the zeros with `where` if they are not part of the question")
@@ -359,7 +376,7 @@ fn jitter_key(o: &Obs) -> u64 {
     }
 }
 
-fn for_cells(ctx: &Context, panel: usize, levels: &Levels) -> Vec<(Cell, String)> {
+pub(super) fn for_cells(ctx: &Context, panel: usize, levels: &Levels) -> Vec<(Cell, String)> {
     let mut out = Vec::new();
     for (xi, name) in levels.names.iter().enumerate() {
         for g in 0..ctx.groups.len() {
@@ -376,7 +393,7 @@ fn for_cells(ctx: &Context, panel: usize, levels: &Levels) -> Vec<(Cell, String)
     out
 }
 
-fn n_rows(
+pub(super) fn n_rows(
     ctx: &Context,
     placed: &Placed,
     cell: Cell,
@@ -704,16 +721,7 @@ pub fn cat_ord(
     y: &CatAxis,
     layers: &[CatOrdLayer],
 ) -> Result<FigureData, ComputeError> {
-    let levels = rows::axis_levels(ctx.table, ctx.book, x, &ctx.keep)?;
-    let y_levels = rows::axis_levels(ctx.table, ctx.book, y, &ctx.keep)?;
-    let (codes, _) = rows::codes(ctx.table, ctx.book, x.var.var)?;
-    let (y_codes, _) = rows::codes(ctx.table, ctx.book, y.var.var)?;
-    let y_values: Vec<Option<f64>> = y_codes
-        .iter()
-        .map(|c| c.map(|c| y_levels.slot(c) as f64))
-        .collect();
-    let placement = ctx.placement(Some((codes, &levels)));
-    let mut placed = rows::place(&y_values, &ctx.keep, &placement);
+    let (levels, y_levels, mut placed) = ctx.place_levels(x, y)?;
     if let Some(rep) = &ctx.book.replicates {
         if rep.collapse == crate::check::plan::Collapse::Median {
             rows::collapse(&mut placed, rep.collapse);

@@ -1,6 +1,6 @@
-//! Frames over a numeric x: distributions (histogram, density) and relationships (points, fit).
+//! Frames over a numeric x and no y: distributions (histogram, density).
 
-use crate::check::plan::{Bandwidth, BinRule, DistLayer, Heights, NumAxis, XyLayer};
+use crate::check::plan::{Bandwidth, BinRule, DistLayer, Heights, NumAxis};
 use crate::stats;
 
 use super::cat::Extent;
@@ -13,7 +13,13 @@ use super::{
 /// Points at which a density curve is evaluated, across the padded data range.
 const DENSITY_GRID: usize = 256;
 
-fn key(ctx: &Context, panel: usize, layer: &'static str, group: usize, x: String) -> RowKey {
+pub(super) fn key(
+    ctx: &Context,
+    panel: usize,
+    layer: &'static str,
+    group: usize,
+    x: String,
+) -> RowKey {
     RowKey {
         panel: ctx.panel_name(panel),
         layer,
@@ -39,7 +45,10 @@ pub fn distribution(
     layers: &[DistLayer],
 ) -> Result<FigureData, ComputeError> {
     let values = rows::numbers(ctx.table, ctx.book, x.var.var)?;
-    let placed = rows::place(values, &ctx.keep, &ctx.placement(None));
+    let mut placed = rows::place(values, &ctx.keep, &ctx.placement(None));
+    if let Some(rep) = &ctx.book.replicates {
+        rows::collapse(&mut placed, rep.collapse);
+    }
     let mut x_extent = Extent::default();
     let mut y_extent = Extent::default();
     y_extent.add(0.0);
@@ -168,7 +177,7 @@ fn shared_bins(obs: &[Obs], rule: BinRule) -> stats::BinRule {
     }
 }
 
-fn missing(placed: &rows::Placed, panel: usize, group: usize) -> usize {
+pub(super) fn missing(placed: &rows::Placed, panel: usize, group: usize) -> usize {
     placed
         .missing_by_cell
         .iter()
@@ -187,91 +196,10 @@ fn bin_rule(rule: BinRule) -> stats::BinRule {
     }
 }
 
-fn bandwidth_rule(b: Bandwidth) -> stats::BandwidthRule {
+pub(super) fn bandwidth_rule(b: Bandwidth) -> stats::BandwidthRule {
     match b {
         Bandwidth::Silverman => stats::BandwidthRule::Silverman,
         Bandwidth::Scott => stats::BandwidthRule::Scott,
         Bandwidth::Fixed(h) => stats::BandwidthRule::Fixed(h),
     }
-}
-
-/// Points (and fitted lines) of y against a numeric x.
-pub fn xy(
-    ctx: &Context,
-    x: &NumAxis,
-    y: &NumAxis,
-    layers: &[XyLayer],
-) -> Result<FigureData, ComputeError> {
-    let xs = rows::numbers(ctx.table, ctx.book, x.var.var)?;
-    let ys = rows::numbers(ctx.table, ctx.book, y.var.var)?;
-    // A pair is missing when either value is.
-    let pairs: Vec<Option<f64>> = xs
-        .iter()
-        .zip(ys)
-        .map(|(a, b)| a.and(*b).map(|_| 0.0))
-        .collect();
-    let placed = rows::place(&pairs, &ctx.keep, &ctx.placement(None));
-    let mut x_extent = Extent::default();
-    let mut y_extent = Extent::default();
-    let mut panels = Vec::new();
-    let mut summary = Vec::new();
-    for p in 0..ctx.panels.len() {
-        let mut out = Vec::new();
-        for layer in layers {
-            match layer {
-                XyLayer::Points { .. } => {
-                    let mut pts = Vec::new();
-                    for g in 0..ctx.groups.len() {
-                        let k = key(ctx, p, "points", g, String::new());
-                        let obs: Vec<&Obs> = placed
-                            .obs
-                            .iter()
-                            .filter(|o| o.cell.panel == p && o.cell.group == g)
-                            .collect();
-                        summary.push(k.count("n", obs.len()));
-                        summary.push(k.count("n_missing", missing(&placed, p, g)));
-                        for o in obs {
-                            let (xv, yv) = (xs[o.row].unwrap_or(0.0), ys[o.row].unwrap_or(0.0));
-                            x_extent.add(xv);
-                            y_extent.add(yv);
-                            pts.push((xv, yv, g));
-                        }
-                    }
-                    out.push(LayerMarks::XyPoints(pts));
-                }
-                XyLayer::Fit { span, .. } => {
-                    return Err(ComputeError::Data(vec![crate::diag::Diagnostic::error(
-                        crate::check::codes::LAYER_DOES_NOT_FIT,
-                        "`fit` is not available in this version",
-                    )
-                    .with_label(*span, "not available")
-                    .with_help("show the relationship with `points`")]));
-                }
-            }
-        }
-        panels.push(PanelData {
-            label: ctx.panels.labels[p].clone(),
-            layers: out,
-            n_by_x: Vec::new(),
-        });
-    }
-    Ok(FigureData {
-        x: XScale::Numbers(NumScale {
-            title: ctx.title(x.var.var, &x.title),
-            extent: x_extent.get(),
-            range: x.range,
-            log: x.scale == crate::check::plan::AxisScale::Log,
-            include_zero: false,
-        }),
-        y: YScale::Numbers(NumScale {
-            title: ctx.title(y.var.var, &y.title),
-            extent: y_extent.get(),
-            range: y.range,
-            log: y.scale == crate::check::plan::AxisScale::Log,
-            include_zero: false,
-        }),
-        legend: ctx.legend(),
-        panels,
-        summary,
-    })
 }

@@ -11,8 +11,11 @@
 
 mod cat;
 mod dist;
+mod flows;
 pub mod rows;
 pub mod summary;
+mod violin;
+mod xy;
 
 use crate::check::plan::{Codebook, FigurePlan, Frame, VarId};
 use crate::data::Table;
@@ -60,7 +63,12 @@ pub enum XScale {
 #[derive(Debug, Clone, PartialEq)]
 pub enum YScale {
     Numbers(NumScale),
-    Categories { title: String, levels: Levels },
+    Categories {
+        title: String,
+        levels: Levels,
+    },
+    /// No y axis: the marks show their own quantities (the stacked states of flows).
+    Hidden,
 }
 
 /// The colour legend.
@@ -144,6 +152,39 @@ pub struct Curve {
     pub points: Vec<(f64, f64)>,
 }
 
+/// A violin: the density of one cell's values, mirrored about the slot's centre.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ViolinMark {
+    pub x: usize,
+    pub group: usize,
+    /// (y, density) in ascending y, from the smallest to the largest value of the cell.
+    pub outline: Vec<(f64, f64)>,
+    pub q1: f64,
+    pub median: f64,
+    pub q3: f64,
+}
+
+/// A fitted line over the x range of its group's data, with its confidence band.
+#[derive(Debug, Clone, PartialEq)]
+pub struct FitMark {
+    pub group: usize,
+    /// (x, fitted y) in ascending x.
+    pub line: Vec<(f64, f64)>,
+    /// (x, low, high) of the band for the mean response, in ascending x; empty without a band.
+    pub band: Vec<(f64, f64, f64)>,
+}
+
+/// Subjects in each state at each occasion, and how many moved between consecutive occasions.
+#[derive(Debug, Clone, PartialEq)]
+pub struct FlowMarks {
+    /// `stacks[o][s]`: subjects in state slot `s` at occasion slot `o`.
+    pub stacks: Vec<Vec<usize>>,
+    /// `moves[o][s][t]`: subjects in state `s` at occasion `o` and state `t` at occasion `o + 1`.
+    pub moves: Vec<Vec<Vec<usize>>>,
+    /// The largest number of subjects at any occasion of any panel, so panels share a scale.
+    pub peak: usize,
+}
+
 /// What one layer draws in one panel.
 #[derive(Debug, Clone, PartialEq)]
 pub enum LayerMarks {
@@ -160,6 +201,14 @@ pub enum LayerMarks {
     Lines(Vec<SubjectPath>),
     Levels(Vec<LevelMark>),
     Curves(Vec<Curve>),
+    /// Violins; `peak` is the largest density of any violin of the layer in the figure, so
+    /// every violin is drawn on one width scale (equal areas).
+    Violins {
+        marks: Vec<ViolinMark>,
+        peak: f64,
+    },
+    Fits(Vec<FitMark>),
+    Flows(FlowMarks),
 }
 
 /// Which central value an [`LayerMarks::Estimates`] shows.
@@ -201,13 +250,8 @@ pub fn compute(
         Frame::CatNum { x, y, layers } => cat::cat_num(&ctx, x, y, layers),
         Frame::CatOrd { x, y, layers } => cat::cat_ord(&ctx, x, y, layers),
         Frame::Dist { x, layers } => dist::distribution(&ctx, x, layers),
-        Frame::Xy { x, y, layers } => dist::xy(&ctx, x, y, layers),
-        Frame::Flows { span, .. } => Err(ComputeError::Data(vec![Diagnostic::error(
-            crate::check::codes::LAYER_DOES_NOT_FIT,
-            "`flows` is not available in this version",
-        )
-        .with_label(*span, "not available")
-        .with_help("draw the states per occasion with `counts` and `panels` instead")])),
+        Frame::Xy { x, y, layers } => xy::xy(&ctx, x, y, layers),
+        Frame::Flows { x, y, span, .. } => flows::flows(&ctx, x, y, *span),
     }
 }
 
@@ -233,7 +277,7 @@ impl<'a> Context<'a> {
         let keep = rows::filter_rows(table, book, plan.filter.as_ref())?;
         let (panels, panel_codes) = match &plan.panels {
             Some(v) => (
-                rows::levels(
+                rows::shown_levels(
                     table,
                     book,
                     v,
@@ -246,7 +290,7 @@ impl<'a> Context<'a> {
         };
         let (groups, group_codes) = match &plan.colour {
             Some(v) => (
-                rows::levels(
+                rows::shown_levels(
                     table,
                     book,
                     v,
@@ -257,6 +301,9 @@ impl<'a> Context<'a> {
             ),
             None => (Levels::single(), None),
         };
+        if let Some(c) = &plan.colour {
+            check_colours(&groups, &book.var(c.var).name, c.span)?;
+        }
         let subject_codes = match book.subject {
             Some(s) => Some(rows::codes(table, book, s)?),
             None => None,
@@ -313,9 +360,57 @@ impl<'a> Context<'a> {
         }
     }
 
+    /// Levels of a categorical x (as shown) and y (every level), and y's level slot placed in
+    /// the cells of x: for frames whose y is categorical too (ordinal medians, flows).
+    pub fn place_levels(
+        &self,
+        x: &crate::check::plan::CatAxis,
+        y: &crate::check::plan::CatAxis,
+    ) -> Result<(Levels, Levels, rows::Placed), ComputeError> {
+        let x_levels = rows::axis_levels(self.table, self.book, x, &self.keep)?;
+        // y keeps every level, even one a filter leaves empty: an ordinal y keeps its spacing,
+        // and flow states keep their places and colours.
+        let y_levels = rows::levels(self.table, self.book, &y.var, y.order, &self.keep)?;
+        let (x_codes, _) = rows::codes(self.table, self.book, x.var.var)?;
+        let (y_codes, _) = rows::codes(self.table, self.book, y.var.var)?;
+        let y_slots: Vec<Option<f64>> = y_codes
+            .iter()
+            .map(|c| c.and_then(|c| y_levels.slot(c)).map(|s| s as f64))
+            .collect();
+        let placed = rows::place(
+            &y_slots,
+            &self.keep,
+            &self.placement(Some((x_codes, &x_levels))),
+        );
+        Ok((x_levels, y_levels, placed))
+    }
+
     pub fn subject_name(&self, code: u32) -> String {
         self.subject_codes
             .map(|(_, names)| names[code as usize].clone())
             .unwrap_or_default()
     }
+}
+
+/// Levels told apart by colour must not outnumber the palette's colours (no colour is ever
+/// used twice: see [`crate::palette`]).
+pub(crate) fn check_colours(
+    levels: &Levels,
+    var: &str,
+    span: crate::diag::Span,
+) -> Result<(), ComputeError> {
+    let most = crate::palette::MAX_GROUPS;
+    if levels.len() <= most {
+        return Ok(());
+    }
+    Err(Diagnostic::error(
+        crate::check::codes::TOO_MANY_COLOURS,
+        format!(
+            "`{var}` has {} levels to tell apart by colour, more than the palette's {most}",
+            levels.len()
+        ),
+    )
+    .with_label(span, "one colour per level")
+    .with_help("show this variable in `panels` instead, or keep fewer levels with `where`")
+    .into())
 }

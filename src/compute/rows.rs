@@ -19,8 +19,8 @@ pub struct Levels {
     pub names: Vec<String>,
     /// Display text, in display order.
     pub labels: Vec<String>,
-    /// Slot (display position) of each data code.
-    slot_of_code: Vec<usize>,
+    /// Slot (display position) of each data code; `None` for a level not shown.
+    slot_of_code: Vec<Option<usize>>,
 }
 
 impl Levels {
@@ -37,12 +37,13 @@ impl Levels {
         Levels {
             names: vec![String::new()],
             labels: vec![String::new()],
-            slot_of_code: vec![0],
+            slot_of_code: vec![Some(0)],
         }
     }
 
-    pub fn slot(&self, code: u32) -> usize {
-        self.slot_of_code[code as usize]
+    /// The display slot of a data code; `None` when its level is not shown.
+    pub fn slot(&self, code: u32) -> Option<usize> {
+        self.slot_of_code.get(code as usize).copied().flatten()
     }
 }
 
@@ -77,13 +78,48 @@ pub fn numbers<'t>(
     })
 }
 
-/// Display order of a categorical variable's levels, counting only the kept rows.
+/// Every level of a categorical variable in display order (`order(count)` counts kept rows).
 pub fn levels(
     table: &Table,
     book: &Codebook,
     var: &CatVar,
     order: LevelOrder,
     keep: &[bool],
+) -> Result<Levels, ComputeError> {
+    ordered_levels(table, book, var, order, keep, |_| true)
+}
+
+/// The levels a figure shows on an axis, in panels or in its legend: every level except those
+/// the figure's filter empties (a level with rows in the data and none kept). A declared level
+/// with no rows at all stays, so an empty category is seen as empty.
+pub fn shown_levels(
+    table: &Table,
+    book: &Codebook,
+    var: &CatVar,
+    order: LevelOrder,
+    keep: &[bool],
+) -> Result<Levels, ComputeError> {
+    let (codes, names) = codes(table, book, var.var)?;
+    let mut rows_of = vec![(0usize, 0usize); names.len()];
+    for (code, kept) in codes.iter().zip(keep) {
+        if let Some(c) = code {
+            rows_of[*c as usize].0 += 1;
+            rows_of[*c as usize].1 += usize::from(*kept);
+        }
+    }
+    ordered_levels(table, book, var, order, keep, |code| {
+        let (all, kept) = rows_of[code];
+        all == 0 || kept > 0
+    })
+}
+
+fn ordered_levels(
+    table: &Table,
+    book: &Codebook,
+    var: &CatVar,
+    order: LevelOrder,
+    keep: &[bool],
+    shown: impl Fn(usize) -> bool,
 ) -> Result<Levels, ComputeError> {
     let (codes, names) = codes(table, book, var.var)?;
     let decl = book.var(var.var);
@@ -93,7 +129,7 @@ pub fn levels(
             .and_then(|l| l.get(i).cloned())
             .unwrap_or_else(|| names[i].clone())
     };
-    let mut order_codes: Vec<usize> = (0..names.len()).collect();
+    let mut order_codes: Vec<usize> = (0..names.len()).filter(|&c| shown(c)).collect();
     match order {
         LevelOrder::Levels => {}
         LevelOrder::Count => {
@@ -107,9 +143,9 @@ pub fn levels(
         }
         LevelOrder::Name => order_codes.sort_by_key(|&i| label_of(i).to_lowercase()),
     }
-    let mut slot_of_code = vec![0; names.len()];
+    let mut slot_of_code = vec![None; names.len()];
     for (slot, &code) in order_codes.iter().enumerate() {
-        slot_of_code[code] = slot;
+        slot_of_code[code] = Some(slot);
     }
     Ok(Levels {
         names: order_codes.iter().map(|&i| names[i].clone()).collect(),
@@ -118,14 +154,14 @@ pub fn levels(
     })
 }
 
-/// Levels of an axis.
+/// Levels shown on a categorical x axis (see [`shown_levels`]).
 pub fn axis_levels(
     table: &Table,
     book: &Codebook,
     axis: &CatAxis,
     keep: &[bool],
 ) -> Result<Levels, ComputeError> {
-    levels(table, book, &axis.var, axis.order, keep)
+    shown_levels(table, book, &axis.var, axis.order, keep)
 }
 
 /// Which rows pass the figure's filter. Missing values never satisfy a comparison.
@@ -225,7 +261,7 @@ impl Placement<'_> {
         let slot = |part: &Option<(&[Option<u32>], &Levels)>| -> Option<usize> {
             match part {
                 None => Some(0),
-                Some((codes, levels)) => codes[row].map(|c| levels.slot(c)),
+                Some((codes, levels)) => codes[row].and_then(|c| levels.slot(c)),
             }
         };
         Some(Cell {

@@ -23,7 +23,7 @@ impl NumAxisMap {
     /// the data allow: a step that leaves fewer inside the axis is passed over).
     pub fn new(scale: &NumScale, target: usize) -> NumAxisMap {
         if scale.log {
-            return Self::log(scale);
+            return Self::log(scale, target);
         }
         let mut best = Self::linear(scale, target);
         for more in 1..=3 {
@@ -83,50 +83,38 @@ impl NumAxisMap {
         }
     }
 
-    fn log(scale: &NumScale) -> NumAxisMap {
+    /// A log axis: the data's span padded in log units (or the given range), with ticks at
+    /// powers of ten, then 1-2-5, then 1-2-3-5 multiples, whichever is the coarsest to give
+    /// three ticks; many decades keep every k-th power of ten; a span too narrow for any of
+    /// these gets round linear ticks, which read as well on a short log axis.
+    fn log(scale: &NumScale, target: usize) -> NumAxisMap {
         let (lo, hi) = scale.range.unwrap_or(scale.extent);
-        let (lo, hi) = (lo.max(f64::MIN_POSITIVE), hi.max(f64::MIN_POSITIVE));
-        let (llo, lhi) = (
-            lo.log10().floor(),
-            hi.log10().ceil().max(lo.log10().floor() + 1.0),
-        );
-        let decades = (lhi - llo) as i32;
-        let multipliers: &[f64] = if decades <= 1 {
-            &[1.0, 2.0, 5.0]
-        } else if decades <= 3 {
-            &[1.0, 3.0]
-        } else {
-            &[1.0]
-        };
-        let mut ticks = Vec::new();
-        for d in (llo as i32)..=(lhi as i32) {
-            for m in multipliers {
-                let v = m * 10f64.powi(d);
-                if v >= lo * (1.0 - 1e-9) && v <= hi * (1.0 + 1e-9)
-                    || (scale.range.is_none() && (*m == 1.0))
-                {
-                    ticks.push(v);
-                }
-            }
-        }
+        let lo = lo.max(f64::MIN_POSITIVE);
+        let hi = hi.max(lo);
         let (dlo, dhi) = match scale.range {
-            Some((a, b)) => (a.log10(), b.log10()),
+            Some(_) => (lo.log10(), hi.log10()),
             None => {
-                let first = ticks
-                    .iter()
-                    .copied()
-                    .filter(|t| *t <= lo)
-                    .fold(lo, f64::min);
-                let last = ticks
-                    .iter()
-                    .copied()
-                    .filter(|t| *t >= hi)
-                    .fold(hi, f64::max);
-                (first.log10(), last.log10())
+                let (a, b) = (lo.log10(), hi.log10());
+                let pad = (b - a).max(0.1) * AXIS_PAD;
+                (a - pad, b + pad)
             }
         };
-        ticks.retain(|t| t.log10() >= dlo - 1e-9 && t.log10() <= dhi + 1e-9);
-        ticks.dedup();
+        let inside = |v: f64| v.log10() >= dlo - 1e-9 && v.log10() <= dhi + 1e-9;
+        let ticks = LOG_MULTIPLIERS
+            .iter()
+            .map(|set| log_ticks(dlo, dhi, set))
+            .find(|t| t.len() >= 3)
+            .map(|t| thin_decades(t, target))
+            .unwrap_or_else(|| {
+                stats::nice_ticks(10f64.powf(dlo), 10f64.powf(dhi), target)
+                    .map(|t| {
+                        t.values
+                            .into_iter()
+                            .filter(|v| *v > 0.0 && inside(*v))
+                            .collect()
+                    })
+                    .unwrap_or_default()
+            });
         let labels = ticks.iter().map(|t| format_log_tick(*t)).collect();
         NumAxisMap {
             lo: dlo,
@@ -178,14 +166,46 @@ fn decimals_for(step: f64) -> usize {
     12
 }
 
-/// A log-axis tick: plain numbers from 0.001 to 100 000, powers of ten beyond.
+/// Tick multipliers of a log axis, coarsest first.
+const LOG_MULTIPLIERS: [&[f64]; 3] = [&[1.0], &[1.0, 2.0, 5.0], &[1.0, 2.0, 3.0, 5.0]];
+
+/// Every `m × 10^k` with `m` in `multipliers` whose log10 lies in `[dlo, dhi]`, ascending.
+fn log_ticks(dlo: f64, dhi: f64, multipliers: &[f64]) -> Vec<f64> {
+    let mut out = Vec::new();
+    for k in (dlo.floor() as i32)..=(dhi.ceil() as i32) {
+        for m in multipliers {
+            let v = m * 10f64.powi(k);
+            let l = v.log10();
+            if l >= dlo - 1e-9 && l <= dhi + 1e-9 {
+                out.push(v);
+            }
+        }
+    }
+    out
+}
+
+/// Keeps every k-th power of ten when there are far more than `target`.
+fn thin_decades(ticks: Vec<f64>, target: usize) -> Vec<f64> {
+    let every = ticks.len().div_ceil(target.max(2) + 2).max(1);
+    if every == 1 {
+        return ticks;
+    }
+    ticks
+        .into_iter()
+        .filter(|t| (t.log10().round() as i64).rem_euclid(every as i64) == 0)
+        .collect()
+}
+
+/// A log-axis tick: plain numbers from 0.001 to 100 000 with the decimals the value needs,
+/// powers of ten beyond.
 fn format_log_tick(v: f64) -> String {
     if (1e-3..=1e5).contains(&v) {
-        let d = if v >= 1.0 {
-            0
-        } else {
-            (-v.log10().floor()) as usize
-        };
+        let d = (0..=6)
+            .find(|&d| {
+                let scaled = v * 10f64.powi(d);
+                (scaled - scaled.round()).abs() < 1e-6 * scaled.max(1.0)
+            })
+            .unwrap_or(6) as usize;
         format!("{:.*}", d, v)
     } else {
         format!("10^{}", v.log10().round() as i32)
@@ -225,6 +245,29 @@ mod tests {
         let mut s = scale(3.0, 4200.0);
         s.log = true;
         let axis = NumAxisMap::new(&s, 5);
-        assert!(axis.ticks.contains(&10.0) && axis.ticks.contains(&1000.0));
+        assert_eq!(axis.labels, ["10", "100", "1000"]);
+        assert!(axis.frac(3.0) >= 0.0 && axis.frac(4200.0) <= 1.0);
+    }
+
+    #[test]
+    fn short_log_axes_use_one_two_five_or_finer() {
+        let mut s = scale(0.15, 0.9);
+        s.log = true;
+        assert_eq!(NumAxisMap::new(&s, 5).labels, ["0.2", "0.3", "0.5"]);
+        let mut s = scale(330.0, 620.0);
+        s.log = true;
+        let axis = NumAxisMap::new(&s, 5);
+        // Less than a factor of two: round linear steps inside the span.
+        assert_eq!(axis.labels, ["400", "500", "600"]);
+        assert!(axis.frac(330.0) >= 0.0 && axis.frac(620.0) <= 1.0);
+    }
+
+    #[test]
+    fn many_decades_keep_every_other_power() {
+        let mut s = scale(1e-2, 1e9);
+        s.log = true;
+        let axis = NumAxisMap::new(&s, 5);
+        assert!(axis.ticks.len() <= 7, "{:?}", axis.labels);
+        assert!(axis.ticks.windows(2).all(|w| w[1] > w[0]));
     }
 }

@@ -1,6 +1,8 @@
 //! Drawing each layer's marks inside a panel, and the colour legend.
 
-use crate::compute::{BoxMark, Estimate, EstimateKind, LayerMarks, Legend, PanelData};
+use crate::compute::{
+    BoxMark, Estimate, EstimateKind, FitMark, LayerMarks, Legend, PanelData, ViolinMark,
+};
 use crate::scene::{Colour, Fill, Mark, Point, Stroke, TextAlign, TextBaseline};
 
 use super::style::*;
@@ -137,9 +139,109 @@ pub fn layers(frame: &PanelFrame, panel: &PanelData) -> Vec<Mark> {
                     });
                 }
             }
+            LayerMarks::Violins { marks, peak } => marks
+                .iter()
+                .for_each(|v| draw_violin(&mut out, frame, v, *peak)),
+            LayerMarks::Fits(fits) => fits.iter().for_each(|f| draw_fit(&mut out, frame, f)),
+            LayerMarks::Flows(flows) => out.extend(super::flows::draw(frame, flows)),
         }
     }
     out
+}
+
+/// Half the width of the widest violin, as a share of its group's slot, and at most this.
+const VIOLIN_HALF_SHARE: f64 = 0.45;
+const VIOLIN_HALF_MAX_MM: f64 = 9.0;
+
+/// A violin: the density mirrored about the slot's centre; lines across it at the quartiles
+/// (dashed) and the median (solid).
+fn draw_violin(out: &mut Vec<Mark>, frame: &PanelFrame, v: &ViolinMark, peak: f64) {
+    if peak <= 0.0 {
+        return;
+    }
+    let (cx, gw) = frame.group_slot(v.x, v.group);
+    let colour = group_colour(v.group, frame.n_groups);
+    let ink = summary_colour(v.group, frame.n_groups);
+    let half_max = (gw * VIOLIN_HALF_SHARE).min(VIOLIN_HALF_MAX_MM);
+    let half = |d: f64| half_max * d / peak;
+    let right = v
+        .outline
+        .iter()
+        .map(|(y, d)| Point::new(cx + half(*d), frame.y(*y)));
+    let left = v
+        .outline
+        .iter()
+        .rev()
+        .map(|(y, d)| Point::new(cx - half(*d), frame.y(*y)));
+    out.push(Mark::Polygon {
+        points: right.chain(left).collect(),
+        fill: Some(Fill {
+            colour,
+            opacity: 0.25,
+        }),
+        stroke: Some(Stroke::solid(colour, BOX_LINE_MM)),
+    });
+    for (q, solid) in [(v.q1, false), (v.median, true), (v.q3, false)] {
+        let w = half(density_at(&v.outline, q));
+        let y = frame.y(q);
+        let stroke = if solid {
+            Stroke::solid(ink, MEDIAN_LINE_MM)
+        } else {
+            Stroke {
+                dash: Some(vec![0.8, 0.5]),
+                ..Stroke::solid(ink, BOX_LINE_MM)
+            }
+        };
+        out.push(Mark::Line {
+            points: vec![Point::new(cx - w, y), Point::new(cx + w, y)],
+            stroke,
+        });
+    }
+}
+
+/// The outline's density at `y`, interpolated linearly between its grid points.
+fn density_at(outline: &[(f64, f64)], y: f64) -> f64 {
+    let i = outline.partition_point(|(v, _)| *v < y);
+    match (
+        i.checked_sub(1).and_then(|j| outline.get(j)),
+        outline.get(i),
+    ) {
+        (Some(&(y0, d0)), Some(&(y1, d1))) if y1 > y0 => d0 + (d1 - d0) * (y - y0) / (y1 - y0),
+        (_, Some(&(_, d))) | (Some(&(_, d)), None) => d,
+        (None, None) => 0.0,
+    }
+}
+
+/// A fitted line over its band.
+fn draw_fit(out: &mut Vec<Mark>, frame: &PanelFrame, f: &FitMark) {
+    let colour = summary_colour(f.group, frame.n_groups);
+    if !f.band.is_empty() {
+        let upper = f
+            .band
+            .iter()
+            .map(|(x, _, hi)| Point::new(frame.x_num(*x), frame.y(*hi)));
+        let lower = f
+            .band
+            .iter()
+            .rev()
+            .map(|(x, lo, _)| Point::new(frame.x_num(*x), frame.y(*lo)));
+        out.push(Mark::Polygon {
+            points: upper.chain(lower).collect(),
+            fill: Some(Fill {
+                colour,
+                opacity: 0.18,
+            }),
+            stroke: None,
+        });
+    }
+    out.push(Mark::Line {
+        points: f
+            .line
+            .iter()
+            .map(|(x, y)| Point::new(frame.x_num(*x), frame.y(*y)))
+            .collect(),
+        stroke: Stroke::solid(colour, MEDIAN_LINE_MM),
+    });
 }
 
 fn dot(centre: Point, colour: Colour) -> Mark {

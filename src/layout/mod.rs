@@ -9,6 +9,7 @@
 //! Invariant: no I/O and no statistics here — positions only.
 
 mod axis;
+mod flows;
 mod marks;
 mod style;
 mod text;
@@ -151,13 +152,15 @@ pub fn layout(plan: &FigurePlan, data: &FigureData) -> Scene {
                 TextBaseline::Alphabetic,
             ));
         }
-        draw_y_grid(
-            &mut marks,
-            &frame,
-            &y_map,
-            &grid.y_labels,
-            i % grid.cols == 0,
-        );
+        if !grid.y_hidden {
+            draw_y_grid(
+                &mut marks,
+                &frame,
+                &y_map,
+                &grid.y_labels,
+                i % grid.cols == 0,
+            );
+        }
         marks.push(Mark::Clip {
             rect: frame.rect,
             marks: marks::layers(&frame, panel),
@@ -168,15 +171,20 @@ pub fn layout(plan: &FigurePlan, data: &FigureData) -> Scene {
             &frame,
             &grid.x_axis,
             grid.cat_labels.as_ref(),
-            n_by_x,
+            XAxisExtras {
+                n_by_x,
+                axis_line: !grid.y_hidden,
+            },
         );
     }
     let (plot_top, plot_bottom) = grid.plot_span();
-    marks.push(text::upward(
-        &grid.y_title,
-        Point::new(MARGIN_MM, (plot_top + plot_bottom) / 2.0),
-        axis_title(),
-    ));
+    if !grid.y_hidden {
+        marks.push(text::upward(
+            &grid.y_title,
+            Point::new(MARGIN_MM, (plot_top + plot_bottom) / 2.0),
+            axis_title(),
+        ));
+    }
     let x_centre = (grid.left + grid.right) / 2.0;
     marks.push(text::label(
         x_title,
@@ -204,6 +212,8 @@ struct Area {
 /// Where the panels go, and the axes they share.
 struct Grid {
     y_axis: Option<NumAxisMap>,
+    /// No y axis at all (flows): no ticks, grid, axis lines or y title.
+    y_hidden: bool,
     x_axis: Option<NumAxisMap>,
     y_title: String,
     y_labels: Vec<String>,
@@ -229,7 +239,7 @@ impl Grid {
     fn plan(plan: &FigurePlan, data: &FigureData, area: &Area, y_ticks: usize) -> Grid {
         let y_axis = match &data.y {
             YScale::Numbers(s) => Some(NumAxisMap::new(s, y_ticks)),
-            YScale::Categories { .. } => None,
+            YScale::Categories { .. } | YScale::Hidden => None,
         };
         let x_axis = match &data.x {
             XScale::Numbers(s) => Some(NumAxisMap::new(s, 5)),
@@ -244,8 +254,12 @@ impl Grid {
             .iter()
             .map(|l| text::width(l, &tick_label()))
             .fold(0.0, f64::max);
-        let left =
-            MARGIN_MM + text::line_height(&axis_title()) + GAP_MM * 1.5 + tick_w + GAP_MM + TICK_MM;
+        let y_hidden = data.y == YScale::Hidden;
+        let left = if y_hidden {
+            MARGIN_MM
+        } else {
+            MARGIN_MM + text::line_height(&axis_title()) + GAP_MM * 1.5 + tick_w + GAP_MM + TICK_MM
+        };
         let right = area.width - MARGIN_MM - right_overhang(&x_axis);
         let n_panels = data.panels.len().max(1);
         let width_for =
@@ -284,6 +298,7 @@ impl Grid {
         let panel_h = (avail / rows as f64 - strip_h - x_labels_h).max(5.0);
         Grid {
             y_axis,
+            y_hidden,
             x_axis,
             y_title,
             y_labels,
@@ -432,19 +447,29 @@ fn draw_y_grid(
     });
 }
 
+/// What the x axis shows besides its labels.
+struct XAxisExtras<'a> {
+    /// `n = ` under each category.
+    n_by_x: Option<&'a Vec<usize>>,
+    /// The axis line and ticks (left out when there is no y axis either).
+    axis_line: bool,
+}
+
 fn draw_x_axis(
     marks: &mut Vec<Mark>,
     frame: &PanelFrame,
     x_axis: &Option<NumAxisMap>,
     cats: Option<&CategoryLabels>,
-    n_by_x: Option<&Vec<usize>>,
+    extras: XAxisExtras,
 ) {
     let r = frame.rect;
     let base = r.y + r.height;
-    marks.push(Mark::Line {
-        points: vec![Point::new(r.x, base), Point::new(r.x + r.width, base)],
-        stroke: Stroke::solid(INK, AXIS_WIDTH_MM),
-    });
+    if extras.axis_line {
+        marks.push(Mark::Line {
+            points: vec![Point::new(r.x, base), Point::new(r.x + r.width, base)],
+            stroke: Stroke::solid(INK, AXIS_WIDTH_MM),
+        });
+    }
     let label_top = base + TICK_MM + GAP_MM;
     if let Some(a) = x_axis {
         for (t, l) in a.ticks.iter().zip(&a.labels) {
@@ -467,10 +492,12 @@ fn draw_x_axis(
     let lh = text::line_height(&cats.style);
     for (slot, lines) in cats.lines.iter().enumerate() {
         let (centre, _) = band_slot(r, cats.lines.len(), 1, slot, 0);
-        marks.push(Mark::Line {
-            points: vec![Point::new(centre, base), Point::new(centre, base + TICK_MM)],
-            stroke: Stroke::solid(INK, AXIS_WIDTH_MM),
-        });
+        if extras.axis_line {
+            marks.push(Mark::Line {
+                points: vec![Point::new(centre, base), Point::new(centre, base + TICK_MM)],
+                stroke: Stroke::solid(INK, AXIS_WIDTH_MM),
+            });
+        }
         if cats.upright {
             marks.push(Mark::Text(crate::scene::TextMark {
                 at: Point::new(centre, label_top),
@@ -491,7 +518,7 @@ fn draw_x_axis(
                 ));
             }
         }
-        if let Some(n) = n_by_x.and_then(|n| n.get(slot)) {
+        if let Some(n) = extras.n_by_x.and_then(|n| n.get(slot)) {
             marks.push(text::label(
                 &format!("n = {n}"),
                 Point::new(centre, label_top + cats.height + 0.3),
