@@ -317,11 +317,14 @@ fn run_new(args: &NewArgs) -> Result<i32, Exit> {
         EXIT_FAILURE
     })?;
     for path in &written {
-        println!("created {}", print::display_path(path).display());
+        println!(
+            "created {}",
+            crate::build::paths::display_path(path).display()
+        );
     }
     println!(
         "run `figura build` in {} to build its figures",
-        print::display_path(&args.dir).display()
+        crate::build::paths::display_path(&args.dir).display()
     );
     Ok(EXIT_OK)
 }

@@ -35,9 +35,14 @@ pub fn find_specs(paths: &[PathBuf]) -> Result<Vec<PathBuf>, BuildError> {
 }
 
 fn walk(dir: &Path, out: &mut Vec<PathBuf>) -> Result<(), BuildError> {
+    // Paths found in the current folder are written without a leading `./`.
+    let here = dir == Path::new(".");
     let mut entries: Vec<PathBuf> = fs::read_dir(dir)
         .map_err(|e| BuildError::io(dir, e))?
-        .filter_map(|e| e.ok().map(|e| e.path()))
+        .filter_map(|e| {
+            e.ok()
+                .map(|e| if here { e.file_name().into() } else { e.path() })
+        })
         .collect();
     entries.sort();
     for path in entries {

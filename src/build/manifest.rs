@@ -11,11 +11,12 @@
 
 use std::collections::{BTreeMap, BTreeSet};
 use std::fs;
-use std::path::{Component, Path, PathBuf};
+use std::path::{Path, PathBuf};
 
 use serde::{Deserialize, Serialize};
 
 use super::inputs::hash_file;
+use super::paths::relative_path;
 
 /// The manifest's file name inside an output folder.
 pub const FILE_NAME: &str = ".figura-manifest.json";
@@ -200,24 +201,6 @@ impl Update {
     pub fn finish(self) -> Manifest {
         self.manifest
     }
-}
-
-/// `path` relative to `base`; both absolute and free of `.`/`..` (canonical).
-pub fn relative_path(path: &Path, base: &Path) -> PathBuf {
-    let p: Vec<Component> = path.components().collect();
-    let b: Vec<Component> = base.components().collect();
-    let common = p.iter().zip(&b).take_while(|(x, y)| x == y).count();
-    let mut out = PathBuf::new();
-    for _ in common..b.len() {
-        out.push("..");
-    }
-    for c in &p[common..] {
-        out.push(c.as_os_str());
-    }
-    if out.as_os_str().is_empty() {
-        out.push(".");
-    }
-    out
 }
 
 /// A relative path written with `/` between components, the same on every system.

@@ -15,6 +15,7 @@
 pub mod inputs;
 pub mod load;
 pub mod manifest;
+pub mod paths;
 mod render;
 mod write;
 

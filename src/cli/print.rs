@@ -4,9 +4,9 @@
 //! `figura new`'s file list go to standard output.
 
 use std::io::{IsTerminal, Write as _};
-use std::path::{Component, Path, PathBuf};
 use std::time::Duration;
 
+use crate::build::paths::display_path;
 use crate::build::{BuildReport, FigureState};
 use crate::diag::{Diagnostic, SourceMap};
 use crate::report::{self, MessageFormat};
@@ -137,23 +137,4 @@ pub fn figure_table(report: &BuildReport) {
             .join("  ");
         let _ = writeln!(out, "{}", line.trim_end());
     }
-}
-
-/// A path as a person reads it: `.` components dropped and `name/..` pairs folded
-/// (`figures/../data/x.csv` → `data/x.csv`). For display only.
-pub fn display_path(path: &Path) -> PathBuf {
-    let mut out: Vec<Component> = Vec::new();
-    for c in path.components() {
-        match c {
-            Component::CurDir => {}
-            Component::ParentDir if matches!(out.last(), Some(Component::Normal(_))) => {
-                out.pop();
-            }
-            other => out.push(other),
-        }
-    }
-    if out.is_empty() {
-        return PathBuf::from(".");
-    }
-    out.iter().collect()
 }

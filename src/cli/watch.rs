@@ -14,7 +14,7 @@ use std::time::{Duration, Instant};
 
 use notify::{Event, EventKind, RecommendedWatcher, RecursiveMode, Watcher as _};
 
-use crate::build::{BuildOptions, Mode};
+use crate::build::{paths, BuildOptions, Mode};
 use crate::project;
 
 use super::{print, progress, resolve_target, run_options, Exit, Format, WatchArgs, EXIT_FAILURE};
@@ -54,11 +54,17 @@ pub fn run(args: &WatchArgs) -> Result<i32, Exit> {
             "changed: {}",
             changed
                 .iter()
-                .map(|p| print::display_path(p).display().to_string())
+                .map(|p| shown(p).display().to_string())
                 .collect::<Vec<_>>()
                 .join(", ")
         );
     }
+}
+
+/// A changed file as it is shown: relative to the current folder.
+fn shown(path: &Path) -> PathBuf {
+    let relative = paths::relative_to(path, Path::new("."));
+    paths::display_path(&relative)
 }
 
 /// Builds once and prints the outcome; returns what to watch next.
@@ -114,18 +120,7 @@ fn watch_file(watched: &mut Watched, file: &Path) {
 
 /// The path made absolute and resolved on disk as far as it exists.
 fn absolute(path: &Path) -> PathBuf {
-    if let Ok(p) = std::fs::canonicalize(path) {
-        return p;
-    }
-    match (path.parent(), path.file_name()) {
-        (Some(parent), Some(name)) => absolute(if parent.as_os_str().is_empty() {
-            Path::new(".")
-        } else {
-            parent
-        })
-        .join(name),
-        _ => path.to_path_buf(),
-    }
+    paths::resolved(path).unwrap_or_else(|| path.to_path_buf())
 }
 
 /// Watches what `next` needs and stops watching what only `current` needed.

@@ -26,6 +26,7 @@ use std::path::{Path, PathBuf};
 use toml::de::{DeTable, DeValue};
 use toml::Spanned;
 
+use crate::build::paths::relative_to;
 use crate::check::{FigureDefaults, Formats, DPI_LIMITS};
 use crate::diag::{did_you_mean, Diagnostic, SourceId, SourceMap, Span};
 
@@ -120,12 +121,19 @@ pub fn find_root(start: &Path) -> Option<PathBuf> {
 }
 
 /// Finds the project around `start` (absolute, usually the current folder) and reads it;
-/// `Ok(None)` when no folder at or above `start` has a `figura.toml`.
+/// `Ok(None)` when no folder at or above `start` has a `figura.toml`. The spec folders and
+/// the output folder are given relative to `start` (`figures` seen from `figures/` is `.`).
 pub fn discover(start: &Path) -> Result<Option<Project>, ProjectError> {
-    match find_root(start) {
-        Some(root) => open(&root).map(Some),
-        None => Ok(None),
-    }
+    let Some(root) = find_root(start) else {
+        return Ok(None);
+    };
+    let project = open(&root)?;
+    let near = |p: &Path| relative_to(&start.join(p), start);
+    Ok(Some(Project {
+        specs: project.specs.iter().map(|p| near(p)).collect(),
+        out: project.out.as_deref().map(near),
+        ..project
+    }))
 }
 
 /// Reads the project whose root folder is `root`.
