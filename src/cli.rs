@@ -264,7 +264,7 @@ fn run_build(args: &BuildArgs) -> Result<i32, Exit> {
         ..target.options(mode)
     };
     let started = Instant::now();
-    let reporter = progress::Reporter::new(common.message_format == Format::Json, "built");
+    let reporter = progress::Reporter::new(common.message_format == Format::Json);
     let report = run_options(&options, &reporter)?;
     reporter.finish();
     print::report(&report, common.message_format);
@@ -293,9 +293,7 @@ fn run_build(args: &BuildArgs) -> Result<i32, Exit> {
 fn run_check(args: &CommonArgs) -> Result<i32, Exit> {
     let target = resolve_target(&args.paths, None, args.message_format)?;
     let started = Instant::now();
-    let reporter = progress::Reporter::new(args.message_format == Format::Json, "checked");
-    let report = run_options(&target.options(Mode::Validate), &reporter)?;
-    reporter.finish();
+    let report = run_options(&target.options(Mode::Validate), &build::NoProgress)?;
     print::report(&report, args.message_format);
     if args.message_format == Format::Human {
         print::check_line(&report, started.elapsed());

@@ -253,7 +253,7 @@ pub fn build(options: &BuildOptions, progress: &dyn Progress) -> Result<BuildRep
     report.diagnostics.extend(loaded.diags.iter().cloned());
     let (program, diags) = check::check_with(&loaded.units, &options.defaults);
     report.diagnostics.extend(diags);
-    let jobs = plan_jobs(options, &loaded, &program, &report.sources)?;
+    let (jobs, mut manifests) = plan_jobs(options, &loaded, &program, &report.sources)?;
     let outcomes: Vec<Outcome> = match options.mode {
         Mode::Status => jobs
             .iter()
@@ -262,7 +262,14 @@ pub fn build(options: &BuildOptions, progress: &dyn Progress) -> Result<BuildRep
         Mode::Build | Mode::Validate => make_all(options, &program, &jobs, &mut report, progress)?,
     };
     if options.mode == Mode::Build {
-        write_manifests(options, &specs, &jobs, &outcomes, &mut report)?;
+        write_manifests(
+            options,
+            &specs,
+            &jobs,
+            &outcomes,
+            &mut manifests,
+            &mut report,
+        )?;
     }
     let states: Vec<FigureState> = outcomes.iter().map(Outcome::state).collect();
     report.figures = figure_statuses(&loaded.units, &program, &jobs, &states);
@@ -270,13 +277,17 @@ pub fn build(options: &BuildOptions, progress: &dyn Progress) -> Result<BuildRep
     Ok(report)
 }
 
-/// Hashes every checked figure's inputs and compares them with its output folder's manifest.
+/// The manifests read so far, by output folder.
+type Manifests = BTreeMap<PathBuf, Manifest>;
+
+/// Hashes every checked figure's inputs and compares them with its output folder's manifest
+/// (unless the run makes every figure anyway); returns the jobs and the manifests read.
 fn plan_jobs<'p>(
     options: &BuildOptions,
     loaded: &load::Loaded,
     program: &'p Program,
     sources: &SourceMap,
-) -> Result<Vec<Job<'p>>, BuildError> {
+) -> Result<(Vec<Job<'p>>, Manifests), BuildError> {
     let blocks = inputs::figure_blocks(&loaded.units);
     let mut hasher = InputHasher::new(
         &loaded.units,
@@ -285,7 +296,7 @@ fn plan_jobs<'p>(
         &options.tool_version,
         &options.defaults,
     );
-    let mut manifests: BTreeMap<PathBuf, Manifest> = BTreeMap::new();
+    let mut manifests = Manifests::new();
     let compare = options.mode != Mode::Validate && !options.force;
     let mut jobs = Vec::with_capacity(program.figures.len());
     for plan in &program.figures {
@@ -310,7 +321,7 @@ fn plan_jobs<'p>(
             freshness,
         });
     }
-    Ok(jobs)
+    Ok((jobs, manifests))
 }
 
 /// Makes every job that is not up to date, in parallel; returns what became of each job.
@@ -438,6 +449,7 @@ fn write_manifests(
     specs: &[PathBuf],
     jobs: &[Job],
     outcomes: &[Outcome],
+    manifests: &mut Manifests,
     report: &mut BuildReport,
 ) -> Result<(), BuildError> {
     let rebuilt: BTreeSet<PathBuf> = specs
@@ -450,7 +462,7 @@ fn write_manifests(
         by_dir.entry(job.dir.as_path()).or_default().push(i);
     }
     for (dir, members) in by_dir {
-        let old = Manifest::read(dir);
+        let old = manifests.remove(dir).unwrap_or_else(|| Manifest::read(dir));
         let mut update = manifest::Update::new(dir, &old, &rebuilt, &tool);
         for i in members {
             let job = &jobs[i];

@@ -26,12 +26,10 @@ enum Display {
 pub struct Reporter {
     display: Display,
     started: Instant,
-    /// The word for a figure made: "built" or "checked".
-    verb: &'static str,
 }
 
 impl Reporter {
-    pub fn new(quiet: bool, verb: &'static str) -> Reporter {
+    pub fn new(quiet: bool) -> Reporter {
         let display = if quiet {
             Display::Quiet
         } else if std::io::stderr().is_terminal() {
@@ -48,7 +46,6 @@ impl Reporter {
         Reporter {
             display,
             started: Instant::now(),
-            verb,
         }
     }
 
@@ -71,7 +68,7 @@ impl Progress for Reporter {
         match &self.display {
             Display::Quiet => {}
             Display::Lines => {
-                eprintln!("{} {name}", if ok { self.verb } else { "failed" });
+                eprintln!("{} {name}", if ok { "built" } else { "failed" });
             }
             Display::Bar(bar) => {
                 if bar.is_hidden() && self.started.elapsed() >= BAR_DELAY {

@@ -95,7 +95,7 @@ fn round(args: &WatchArgs) -> Watched {
         ..target.options(Mode::Build)
     };
     let started = Instant::now();
-    let reporter = progress::Reporter::new(format == Format::Json, "built");
+    let reporter = progress::Reporter::new(format == Format::Json);
     let Ok(report) = run_options(&options, &reporter) else {
         return watched;
     };
