@@ -11,7 +11,8 @@
 //! file, which ten figures read; one figure's block). Targets (issue 4): the no-op costs under
 //! 2% of the cold build; on two cores `--jobs 2` is at least 1.6× faster than `--jobs 1`.
 //!
-//! Options: `FIGURA_BENCH_FIGURES_PER_FILE` (default 10) scales the project.
+//! Options: `FIGURA_BENCH_FIGURES_PER_FILE` (default 10) scales the project;
+//! `FIGURA_BENCH_DIR` generates it in that (new) folder and keeps it, for profiling by hand.
 
 use std::fmt::Write as _;
 use std::fs;
@@ -28,8 +29,9 @@ fn main() {
         .ok()
         .and_then(|v| v.parse().ok())
         .unwrap_or(10);
-    let dir = tempfile::tempdir().expect("a temporary folder");
-    let root = dir.path();
+    let temp = tempfile::tempdir().expect("a temporary folder");
+    let kept = std::env::var_os("FIGURA_BENCH_DIR").map(std::path::PathBuf::from);
+    let root = kept.as_deref().unwrap_or(temp.path());
     generate(root, per_file);
     let figures = DATA_FILES * per_file;
     let cores = std::thread::available_parallelism().map_or(1, |n| n.get());

@@ -253,13 +253,16 @@ pub fn build(options: &BuildOptions, progress: &dyn Progress) -> Result<BuildRep
     report.diagnostics.extend(loaded.diags.iter().cloned());
     let (program, diags) = check::check_with(&loaded.units, &options.defaults);
     report.diagnostics.extend(diags);
-    let (jobs, mut manifests) = plan_jobs(options, &loaded, &program, &report.sources)?;
+    let pool = thread_pool(options.jobs)?;
+    let (jobs, mut manifests) = plan_jobs(options, &loaded, &program, &report.sources, &pool)?;
     let outcomes: Vec<Outcome> = match options.mode {
         Mode::Status => jobs
             .iter()
             .map(|j| Outcome::Compared(j.freshness))
             .collect(),
-        Mode::Build | Mode::Validate => make_all(options, &program, &jobs, &mut report, progress)?,
+        Mode::Build | Mode::Validate => {
+            make_all(&program, &jobs, options.mode, &mut report, &pool, progress)
+        }
     };
     if options.mode == Mode::Build {
         write_manifests(
@@ -287,6 +290,7 @@ fn plan_jobs<'p>(
     loaded: &load::Loaded,
     program: &'p Program,
     sources: &SourceMap,
+    pool: &rayon::ThreadPool,
 ) -> Result<(Vec<Job<'p>>, Manifests), BuildError> {
     let blocks = inputs::figure_blocks(&loaded.units);
     let mut hasher = InputHasher::new(
@@ -305,20 +309,24 @@ fn plan_jobs<'p>(
             .plan(&blocks, plan, &book.path)
             .ok_or_else(|| BuildError::Internal(format!("figure `{}` has no block", plan.name)))?;
         let dir = output_dir(plan, options.out.as_deref());
-        let inputs = hash.to_hex().to_string();
-        let freshness = if compare {
-            let manifest = manifests
-                .entry(dir.clone())
-                .or_insert_with(|| Manifest::read(&dir));
-            manifest.freshness(&dir, &plan.name, &inputs, &output_names(plan))
-        } else {
-            Freshness::Stale
-        };
+        if compare && !manifests.contains_key(&dir) {
+            manifests.insert(dir.clone(), Manifest::read(&dir));
+        }
         jobs.push(Job {
             plan,
             dir,
-            inputs,
-            freshness,
+            inputs: hash.to_hex().to_string(),
+            freshness: Freshness::Stale,
+        });
+    }
+    if compare {
+        // Reading and hashing the outputs is most of a no-op build: spread it over the pool.
+        pool.install(|| {
+            jobs.par_iter_mut().for_each(|job| {
+                let manifest = &manifests[&job.dir];
+                let names = output_names(job.plan);
+                job.freshness = manifest.freshness(&job.dir, &job.plan.name, &job.inputs, &names);
+            });
         });
     }
     Ok((jobs, manifests))
@@ -326,26 +334,25 @@ fn plan_jobs<'p>(
 
 /// Makes every job that is not up to date, in parallel; returns what became of each job.
 fn make_all(
-    options: &BuildOptions,
     program: &Program,
     jobs: &[Job],
+    mode: Mode,
     report: &mut BuildReport,
+    pool: &rayon::ThreadPool,
     progress: &dyn Progress,
-) -> Result<Vec<Outcome>, BuildError> {
+) -> Vec<Outcome> {
     let todo: Vec<usize> = (0..jobs.len())
         .filter(|&i| jobs[i].freshness != Freshness::UpToDate)
         .collect();
     let needed: BTreeSet<usize> = todo.iter().map(|&i| jobs[i].plan.data).collect();
     let tables = read_tables(program, &needed, report);
     progress.start(todo.len());
-    let pool = thread_pool(options.jobs)?;
-    let write = options.mode == Mode::Build;
     let made: Vec<Made> = pool.install(|| {
         todo.par_iter()
             .map(|&i| {
                 let job = &jobs[i];
                 let made = match tables.get(&job.plan.data) {
-                    Some(Some(table)) => make(job, program, table, write),
+                    Some(Some(table)) => make(job, program, table, mode),
                     // The table's errors were reported when it was read.
                     _ => Made {
                         result: Err(FigureError::Data(Vec::new())),
@@ -372,7 +379,7 @@ fn make_all(
             }
         };
     }
-    Ok(outcomes)
+    outcomes
 }
 
 fn thread_pool(jobs: Option<NonZeroUsize>) -> Result<rayon::ThreadPool, BuildError> {
@@ -407,8 +414,8 @@ fn read_tables(
         .collect()
 }
 
-/// Makes one figure and, when `write`, writes each output whose bytes changed.
-fn make(job: &Job, program: &Program, table: &Table, write: bool) -> Made {
+/// Makes one figure and, in a build, writes each output whose bytes changed.
+fn make(job: &Job, program: &Program, table: &Table, mode: Mode) -> Made {
     let book = &program.codebooks[job.plan.data];
     let outputs = match render_figure(job.plan, book, table) {
         Ok(o) => o,
@@ -423,7 +430,7 @@ fn make(job: &Job, program: &Program, table: &Table, write: bool) -> Made {
     let mut written = Vec::new();
     for (name, bytes) in outputs.files {
         let path = job.dir.join(&name);
-        if write {
+        if mode == Mode::Build {
             match write_if_changed(&path, &bytes) {
                 Ok(true) => written.push(path),
                 Ok(false) => {}
