@@ -1,16 +1,27 @@
 //! The command line: argument parsing, one function per command, exit codes in one place.
 //!
-//! Exit status: 0 success; 1 a spec or data error (or a warning with `--deny-warnings`);
-//! 2 a bad command line or an I/O failure.
+//! Exit status: 0 success; 1 a spec or data error (or a warning with `--deny-warnings`, or,
+//! with `build --check`, a figure that is stale, missing or failing); 2 a bad command line or
+//! an I/O failure.
+//!
+//! Which figures a command works on: the PATHs given, else the project (the nearest
+//! `figura.toml` at or above the current folder), else the current folder. A project's `out`
+//! and `[defaults]` also apply to PATHs inside it.
+
+mod print;
+mod progress;
+mod watch;
 
 use std::ffi::OsString;
-use std::io::{IsTerminal, Write as _};
-use std::path::PathBuf;
+use std::num::NonZeroUsize;
+use std::path::{Path, PathBuf};
+use std::time::Instant;
 
 use clap::{Args, Parser, Subcommand, ValueEnum};
 
-use crate::build::{self, BuildOptions, BuildReport};
-use crate::report::{self, MessageFormat};
+use crate::build::{self, BuildOptions, BuildReport, FigureState, Mode};
+use crate::check::FigureDefaults;
+use crate::project::{self, Project, ProjectError};
 
 #[derive(Parser, Debug)]
 #[command(
@@ -25,10 +36,16 @@ struct Cli {
 
 #[derive(Subcommand, Debug)]
 enum Command {
-    /// Build figures: SVG, PNG, PDF and a summary of every number shown.
+    /// Build the figures whose inputs changed: SVG, PNG, PDF and a summary of every number.
     Build(BuildArgs),
-    /// Parse, check and read the data of every figure; write nothing.
+    /// Parse, check, read the data of and make every figure; write nothing.
     Check(CommonArgs),
+    /// Create a project in a new folder: figura.toml, a demo dataset and a spec.
+    New(NewArgs),
+    /// Build, then rebuild whenever a spec, an included file or a data file changes.
+    Watch(WatchArgs),
+    /// List every figure with its spec file, data file and state.
+    List(ListArgs),
     /// Rewrite specs in the canonical layout, keeping every comment.
     Fmt(FmtArgs),
     /// Compare the figures of two revisions or folders and write a review report.
@@ -37,7 +54,8 @@ enum Command {
 
 #[derive(Args, Debug)]
 struct CommonArgs {
-    /// Spec files, or folders searched for *.figura (default: the current folder).
+    /// Spec files, or folders searched for *.figura (default: the project, else the current
+    /// folder).
     paths: Vec<PathBuf>,
     /// Treat warnings as errors (exit 1).
     #[arg(long)]
@@ -48,15 +66,62 @@ struct CommonArgs {
 }
 
 #[derive(Args, Debug)]
-struct BuildArgs {
-    #[command(flatten)]
-    common: CommonArgs,
-    /// Write every output to this folder (default: out/ beside each spec).
+struct OutArgs {
+    /// Write every output to this folder (default: the project's `out`, else out/ beside
+    /// each spec).
     #[arg(long)]
     out: Option<PathBuf>,
 }
 
-#[derive(ValueEnum, Clone, Copy, Debug)]
+#[derive(Args, Debug)]
+struct JobsArgs {
+    /// Figures made at the same time (default: one per core).
+    #[arg(long, short)]
+    jobs: Option<NonZeroUsize>,
+}
+
+#[derive(Args, Debug)]
+struct BuildArgs {
+    #[command(flatten)]
+    common: CommonArgs,
+    #[command(flatten)]
+    out: OutArgs,
+    #[command(flatten)]
+    jobs: JobsArgs,
+    /// Rebuild every figure, even those that are up to date.
+    #[arg(long, conflicts_with = "check")]
+    force: bool,
+    /// Write nothing; exit 1 when any figure's outputs are stale or missing, naming each.
+    #[arg(long)]
+    check: bool,
+}
+
+#[derive(Args, Debug)]
+struct NewArgs {
+    /// The folder to create (it must not exist, or be empty).
+    dir: PathBuf,
+}
+
+#[derive(Args, Debug)]
+struct WatchArgs {
+    #[command(flatten)]
+    common: CommonArgs,
+    #[command(flatten)]
+    out: OutArgs,
+    #[command(flatten)]
+    jobs: JobsArgs,
+}
+
+#[derive(Args, Debug)]
+struct ListArgs {
+    /// Spec files, or folders searched for *.figura (default: the project, else the current
+    /// folder).
+    paths: Vec<PathBuf>,
+    #[command(flatten)]
+    out: OutArgs,
+}
+
+#[derive(ValueEnum, Clone, Copy, Debug, PartialEq, Eq)]
 enum Format {
     Human,
     Json,
@@ -80,67 +145,200 @@ pub fn run(args: impl IntoIterator<Item = OsString>) -> i32 {
             };
         }
     };
-    match cli.command {
-        Command::Build(args) => run_build(&args.common, args.out, false),
-        Command::Check(args) => run_build(&args, None, true),
-        Command::Fmt(args) => run_fmt(&args),
-        Command::Diff(args) => run_diff(&args),
-    }
+    let result = match cli.command {
+        Command::Build(args) => run_build(&args),
+        Command::Check(args) => run_check(&args),
+        Command::New(args) => run_new(&args),
+        Command::Watch(args) => watch::run(&args),
+        Command::List(args) => run_list(&args),
+        Command::Fmt(args) => Ok(run_fmt(&args)),
+        Command::Diff(args) => Ok(run_diff(&args)),
+    };
+    result.unwrap_or_else(|code| code)
 }
 
-fn run_build(args: &CommonArgs, out: Option<PathBuf>, check_only: bool) -> i32 {
-    let paths = if args.paths.is_empty() {
-        vec![PathBuf::from(".")]
-    } else {
-        args.paths.clone()
-    };
-    let options = BuildOptions {
-        paths,
-        out,
-        check_only,
-    };
-    let report = match build::build(&options) {
-        Ok(r) => r,
-        Err(e) => {
-            eprintln!("error: {e}");
-            return EXIT_FAILURE;
+/// A command's early end: the exit status, after the reason was printed.
+type Exit = i32;
+
+/// The figures a command works on, and the settings that apply to them.
+struct Target {
+    paths: Vec<PathBuf>,
+    out: Option<PathBuf>,
+    defaults: FigureDefaults,
+}
+
+impl Target {
+    fn options(&self, mode: Mode) -> BuildOptions {
+        BuildOptions {
+            paths: self.paths.clone(),
+            out: self.out.clone(),
+            defaults: self.defaults,
+            mode,
+            ..BuildOptions::default()
         }
-    };
-    print_diagnostics(&report, args.message_format);
-    if !matches!(args.message_format, Format::Json) {
-        print_closing_line(&report, check_only);
     }
-    exit_code(&report, args.deny_warnings)
 }
 
-fn print_diagnostics(report: &BuildReport, format: Format) {
-    let format = match format {
-        Format::Json => MessageFormat::Json,
-        Format::Human => MessageFormat::Human {
-            colour: std::io::stderr().is_terminal(),
+/// Decides what to work on: the PATHs, or the project, or the current folder.
+fn resolve_target(paths: &[PathBuf], out: Option<&Path>, format: Format) -> Result<Target, Exit> {
+    let cwd = std::env::current_dir().map_err(|e| {
+        eprintln!("error: cannot read the current folder: {e}");
+        EXIT_FAILURE
+    })?;
+    let project = match project::discover(&cwd) {
+        Ok(p) => p.filter(|p| paths.iter().all(|path| inside(path, &p.root))),
+        Err(e) => return Err(project_error(&e, format)),
+    };
+    let target = match project {
+        Some(Project {
+            specs,
+            out: project_out,
+            defaults,
+            ..
+        }) => Target {
+            paths: if paths.is_empty() {
+                specs
+            } else {
+                paths.to_vec()
+            },
+            out: out.map(Path::to_path_buf).or(project_out),
+            defaults,
+        },
+        None => Target {
+            paths: if paths.is_empty() {
+                vec![PathBuf::from(".")]
+            } else {
+                paths.to_vec()
+            },
+            out: out.map(Path::to_path_buf),
+            defaults: FigureDefaults::default(),
         },
     };
-    let text = report::render_all(&report.diagnostics, &report.sources, format);
-    let mut err = std::io::stderr().lock();
-    let _ = err.write_all(text.as_bytes());
+    Ok(target)
 }
 
-fn print_closing_line(report: &BuildReport, check_only: bool) {
-    let errors = report.diagnostics.iter().filter(|d| d.is_error()).count();
-    let warnings = report.diagnostics.len() - errors;
-    let verb = if check_only { "checked" } else { "built" };
-    eprintln!(
-        "{} figure{} {verb}, {} failed; {errors} error{}, {warnings} warning{}",
-        report.figures_built,
-        if report.figures_built == 1 { "" } else { "s" },
-        report.figures_failed,
-        if errors == 1 { "" } else { "s" },
-        if warnings == 1 { "" } else { "s" },
+/// Whether `path` lies inside folder `root` (both resolved on disk).
+fn inside(path: &Path, root: &Path) -> bool {
+    match (std::fs::canonicalize(path), std::fs::canonicalize(root)) {
+        (Ok(p), Ok(r)) => p.starts_with(r),
+        _ => false,
+    }
+}
+
+fn project_error(e: &ProjectError, format: Format) -> Exit {
+    match e {
+        ProjectError::Io { .. } => {
+            eprintln!("error: {e}");
+            EXIT_FAILURE
+        }
+        ProjectError::Invalid {
+            sources,
+            diagnostics,
+        } => {
+            print::diagnostics(diagnostics, sources, format);
+            EXIT_DIAGNOSTICS
+        }
+    }
+}
+
+/// Runs the build library, turning a run-stopping failure into exit status 2.
+fn run_options(
+    options: &BuildOptions,
+    progress: &dyn build::Progress,
+) -> Result<BuildReport, Exit> {
+    build::build(options, progress).map_err(|e| {
+        eprintln!("error: {e}");
+        EXIT_FAILURE
+    })
+}
+
+fn run_build(args: &BuildArgs) -> Result<i32, Exit> {
+    let common = &args.common;
+    let target = resolve_target(
+        &common.paths,
+        args.out.out.as_deref(),
+        common.message_format,
+    )?;
+    let mode = if args.check {
+        Mode::Status
+    } else {
+        Mode::Build
+    };
+    let options = BuildOptions {
+        force: args.force,
+        jobs: args.jobs.jobs,
+        ..target.options(mode)
+    };
+    let started = Instant::now();
+    let reporter = progress::Reporter::new(common.message_format == Format::Json);
+    let report = run_options(&options, &reporter)?;
+    reporter.finish();
+    print::report(&report, common.message_format);
+    if common.message_format == Format::Human {
+        if args.check {
+            print::out_of_date(&report);
+            print::status_line(&report, started.elapsed());
+        } else {
+            print::build_line(&report, started.elapsed());
+        }
+    }
+    let stale = args.check
+        && report
+            .figures
+            .iter()
+            .any(|f| f.state != FigureState::UpToDate);
+    Ok(
+        exit_code(&report, common.deny_warnings).max(if stale {
+            EXIT_DIAGNOSTICS
+        } else {
+            EXIT_OK
+        }),
+    )
+}
+
+fn run_check(args: &CommonArgs) -> Result<i32, Exit> {
+    let target = resolve_target(&args.paths, None, args.message_format)?;
+    let started = Instant::now();
+    let report = run_options(&target.options(Mode::Validate), &build::NoProgress)?;
+    print::report(&report, args.message_format);
+    if args.message_format == Format::Human {
+        print::check_line(&report, started.elapsed());
+    }
+    Ok(exit_code(&report, args.deny_warnings))
+}
+
+fn run_list(args: &ListArgs) -> Result<i32, Exit> {
+    let target = resolve_target(&args.paths, args.out.out.as_deref(), Format::Human)?;
+    let report = run_options(&target.options(Mode::Status), &build::NoProgress)?;
+    print::report(&report, Format::Human);
+    print::figure_table(&report);
+    Ok(exit_code(&report, false))
+}
+
+fn run_new(args: &NewArgs) -> Result<i32, Exit> {
+    let written = project::new::create(&args.dir).map_err(|e| {
+        eprintln!("error: {e}");
+        EXIT_FAILURE
+    })?;
+    for path in &written {
+        println!(
+            "created {}",
+            crate::build::paths::display_path(path).display()
+        );
+    }
+    println!(
+        "run `figura build` in {} to build its figures",
+        crate::build::paths::display_path(&args.dir).display()
     );
+    Ok(EXIT_OK)
 }
 
+/// 2 when a figure stopped on an I/O failure or a limit; 1 for errors (and warnings when
+/// denied); else 0.
 fn exit_code(report: &BuildReport, deny_warnings: bool) -> i32 {
-    if report.has_errors() || (deny_warnings && report.has_warnings()) {
+    if !report.failures.is_empty() {
+        EXIT_FAILURE
+    } else if report.has_errors() || (deny_warnings && report.has_warnings()) {
         EXIT_DIAGNOSTICS
     } else {
         EXIT_OK
@@ -173,14 +371,7 @@ fn run_fmt(args: &FmtArgs) -> i32 {
             return EXIT_FAILURE;
         }
     };
-    let text = report::render_all(
-        &report.diagnostics,
-        &report.sources,
-        MessageFormat::Human {
-            colour: std::io::stderr().is_terminal(),
-        },
-    );
-    eprint!("{text}");
+    print::diagnostics(&report.diagnostics, &report.sources, Format::Human);
     for path in &report.changed {
         println!("{}", path.display());
     }
@@ -237,7 +428,7 @@ fn run_diff(args: &DiffArgs) -> i32 {
             side,
             report: failed,
         }) => {
-            print_diagnostics(&failed, Format::Human);
+            print::report(&failed, Format::Human);
             eprintln!("error: the {side} side does not build; fix it to compare figures");
             EXIT_FAILURE
         }

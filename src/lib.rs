@@ -5,8 +5,8 @@
 //!
 //! `syntax` (text → tree) → `check` (tree → checked plan) → `data` (files → typed table) →
 //! `compute` (plan + table → numbers) → `layout` (numbers → scene in mm) → `svg` (scene →
-//! text) → `export` (SVG → PNG / PDF); `build` drives them over many files; `cli` is the
-//! command line and `report` prints diagnostics.
+//! text) → `export` (SVG → PNG / PDF); `build` drives them over many files; `project` reads a
+//! `figura.toml`; `cli` is the command line and `report` prints diagnostics.
 //!
 //! Dependencies point downstream only: no stage knows the stages after it.
 
@@ -21,6 +21,7 @@ pub mod font;
 pub mod format;
 pub mod layout;
 pub mod palette;
+pub mod project;
 pub mod report;
 pub mod review;
 pub mod scene;

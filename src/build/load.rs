@@ -9,7 +9,7 @@ use std::fs;
 use std::path::{Path, PathBuf};
 
 use crate::check::{codes, SpecUnit};
-use crate::diag::{Diagnostic, SourceMap};
+use crate::diag::{Diagnostic, SourceId, SourceMap};
 use crate::syntax::{self, ast::Item};
 
 use super::BuildError;
@@ -35,9 +35,14 @@ pub fn find_specs(paths: &[PathBuf]) -> Result<Vec<PathBuf>, BuildError> {
 }
 
 fn walk(dir: &Path, out: &mut Vec<PathBuf>) -> Result<(), BuildError> {
+    // Paths found in the current folder are written without a leading `./`.
+    let here = dir == Path::new(".");
     let mut entries: Vec<PathBuf> = fs::read_dir(dir)
         .map_err(|e| BuildError::io(dir, e))?
-        .filter_map(|e| e.ok().map(|e| e.path()))
+        .filter_map(|e| {
+            e.ok()
+                .map(|e| if here { e.file_name().into() } else { e.path() })
+        })
         .collect();
     entries.sort();
     for path in entries {
@@ -56,6 +61,8 @@ fn walk(dir: &Path, out: &mut Vec<PathBuf>) -> Result<(), BuildError> {
 /// Parsed spec files and the diagnostics found while reading and parsing them.
 pub struct Loaded {
     pub units: Vec<SpecUnit>,
+    /// The source text of each unit (same index as `units`).
+    pub unit_sources: Vec<SourceId>,
     pub diags: Vec<Diagnostic>,
 }
 
@@ -63,6 +70,7 @@ pub struct Loaded {
 pub fn load(roots: &[PathBuf], sources: &mut SourceMap) -> Result<Loaded, BuildError> {
     let mut loader = Loader {
         units: Vec::new(),
+        unit_sources: Vec::new(),
         by_path: BTreeMap::new(),
         loading: Vec::new(),
         diags: Vec::new(),
@@ -89,12 +97,14 @@ pub fn load(roots: &[PathBuf], sources: &mut SourceMap) -> Result<Loaded, BuildE
     }
     Ok(Loaded {
         units: loader.units,
+        unit_sources: loader.unit_sources,
         diags: loader.diags,
     })
 }
 
 struct Loader {
     units: Vec<SpecUnit>,
+    unit_sources: Vec<SourceId>,
     by_path: BTreeMap<PathBuf, Option<usize>>,
     /// Files being loaded (the include chain), to find cycles.
     loading: Vec<PathBuf>,
@@ -146,6 +156,7 @@ impl Loader {
             sees: Vec::new(),
             build_figures: false,
         });
+        self.unit_sources.push(id);
         let dir = path.parent().unwrap_or(Path::new("."));
         for inc in includes {
             let target = dir.join(&inc.path.value);

@@ -1,13 +1,40 @@
 //! Writing outputs atomically: a temporary file in the same folder, then a rename.
 //!
 //! Guarantees: a reader never sees a half-written output; an interrupted build leaves either the
-//! old file or the new one; the temporary file is removed when writing fails.
+//! old file or the new one; the temporary file is removed when writing fails; a file whose
+//! content would not change is not written at all (its modification time stays).
+//!
+//! Temporary files are named `.NAME.PID.figura-tmp`, beside their target; only a process killed
+//! between creating and renaming one can leave it behind.
 
 use std::fs;
 use std::io::Write as _;
 use std::path::Path;
 
 use super::BuildError;
+
+/// The last extension of temporary files.
+pub const TEMP_SUFFIX: &str = "figura-tmp";
+
+/// Writes `bytes` to `path` atomically unless the file already holds exactly these bytes;
+/// returns whether it wrote.
+pub fn write_if_changed(path: &Path, bytes: &[u8]) -> Result<bool, BuildError> {
+    if same_content(path, bytes) {
+        return Ok(false);
+    }
+    write_atomic(path, bytes)?;
+    Ok(true)
+}
+
+/// Whether the file at `path` exists and holds exactly `bytes`.
+fn same_content(path: &Path, bytes: &[u8]) -> bool {
+    match fs::metadata(path) {
+        Ok(meta) if meta.is_file() && meta.len() == bytes.len() as u64 => {
+            fs::read(path).is_ok_and(|old| old == bytes)
+        }
+        _ => false,
+    }
+}
 
 /// Writes `bytes` to `path` atomically, creating the folder if needed.
 pub fn write_atomic(path: &Path, bytes: &[u8]) -> Result<(), BuildError> {
@@ -17,7 +44,7 @@ pub fn write_atomic(path: &Path, bytes: &[u8]) -> Result<(), BuildError> {
         .file_name()
         .and_then(|n| n.to_str())
         .unwrap_or("output");
-    let tmp = dir.join(format!(".{name}.{}.tmp", std::process::id()));
+    let tmp = dir.join(format!(".{name}.{}.{TEMP_SUFFIX}", std::process::id()));
     let result = (|| {
         let mut f = fs::File::create(&tmp)?;
         f.write_all(bytes)?;

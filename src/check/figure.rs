@@ -19,6 +19,28 @@ use super::terms::{self, Accepts};
 pub const DEFAULT_SIZE_MM: (f64, f64) = (85.0, 65.0);
 /// Default raster resolution.
 pub const DEFAULT_DPI: u32 = 300;
+/// Output settings of a figure that gives no `formats` or `dpi` of its own.
+///
+/// The language's defaults (`svg png`, 300 dpi) unless a project's `figura.toml` sets others.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct FigureDefaults {
+    pub formats: Formats,
+    pub dpi: u32,
+}
+
+impl Default for FigureDefaults {
+    fn default() -> Self {
+        FigureDefaults {
+            formats: Formats {
+                svg: true,
+                png: true,
+                pdf: false,
+            },
+            dpi: DEFAULT_DPI,
+        }
+    }
+}
+
 /// Accepted figure sizes, in millimetres per side.
 pub const SIZE_LIMITS_MM: (f64, f64) = (20.0, 600.0);
 /// Accepted raster resolutions.
@@ -50,6 +72,7 @@ pub fn check_figure(
     block: &Block,
     spec_path: &Path,
     visible: &[(usize, &Codebook)],
+    defaults: &FigureDefaults,
     diags: &mut Vec<Diagnostic>,
 ) -> Option<FigurePlan> {
     let parts = sort_statements(block, diags);
@@ -84,15 +107,10 @@ pub fn check_figure(
     let (width_mm, height_mm) = parts
         .size
         .map_or(Some(DEFAULT_SIZE_MM), |p| size(p, diags))?;
-    let formats = parts.formats.map_or(
-        Some(Formats {
-            svg: true,
-            png: true,
-            pdf: false,
-        }),
-        |p| formats(p, diags),
-    )?;
-    let dpi = parts.dpi.map_or(Some(DEFAULT_DPI), |p| dpi(p, diags))?;
+    let formats = parts
+        .formats
+        .map_or(Some(defaults.formats), |p| formats(p, diags))?;
+    let dpi = parts.dpi.map_or(Some(defaults.dpi), |p| dpi(p, diags))?;
     // A filter with errors is reported, and the rest of the figure is still checked.
     let filter: Option<Filter> = parts
         .filter

@@ -21,7 +21,7 @@ use std::path::{Path, PathBuf};
 use crate::diag::{Diagnostic, Span};
 use crate::syntax::ast::{Item, SpecFile};
 
-pub use figure::{DEFAULT_DPI, DEFAULT_SIZE_MM, DPI_LIMITS, SIZE_LIMITS_MM};
+pub use figure::{FigureDefaults, DEFAULT_DPI, DEFAULT_SIZE_MM, DPI_LIMITS, SIZE_LIMITS_MM};
 pub use layers::LayerKind;
 pub use plan::*;
 
@@ -36,8 +36,14 @@ pub struct SpecUnit {
     pub build_figures: bool,
 }
 
-/// Checks every unit; returns the program (figures that passed) and every diagnostic.
+/// Checks every unit with the language's default formats and dpi; see [`check_with`].
 pub fn check(units: &[SpecUnit]) -> (Program, Vec<Diagnostic>) {
+    check_with(units, &FigureDefaults::default())
+}
+
+/// Checks every unit; returns the program (figures that passed) and every diagnostic.
+/// Figures that give no `formats` or `dpi` take them from `defaults`.
+pub fn check_with(units: &[SpecUnit], defaults: &FigureDefaults) -> (Program, Vec<Diagnostic>) {
     let mut diags = Vec::new();
     let mut program = Program::default();
     // Codebooks of every file, indexed by file.
@@ -76,7 +82,7 @@ pub fn check(units: &[SpecUnit]) -> (Program, Vec<Diagnostic>) {
                     }
                     figure_names.insert(block.name.name.clone(), block.name.span);
                     let books: Vec<(usize, &Codebook)> = visible.iter().map(|&i| (i, &program.codebooks[i])).collect();
-                    if let Some(plan) = figure::check_figure(block, &unit.path, &books, &mut diags) {
+                    if let Some(plan) = figure::check_figure(block, &unit.path, &books, defaults, &mut diags) {
                         program.figures.push(plan);
                     }
                 }

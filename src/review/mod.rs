@@ -247,12 +247,20 @@ struct Built {
 fn build_side(side: &Side, which: &str, out: &Path) -> Result<Built, ReviewError> {
     std::fs::create_dir_all(&side.root).map_err(|e| ReviewError::io(&side.root, e))?;
     std::fs::create_dir_all(out).map_err(|e| ReviewError::io(out, e))?;
+    // A side with its own figura.toml builds its project's specs with its defaults.
+    let project = match crate::project::discover(&side.root) {
+        Ok(Some(p)) if p.root == side.root => Some(p),
+        _ => None,
+    };
     let options = BuildOptions {
-        paths: vec![side.root.clone()],
+        paths: project
+            .as_ref()
+            .map_or_else(|| vec![side.root.clone()], |p| p.specs.clone()),
         out: Some(out.to_path_buf()),
+        defaults: project.map(|p| p.defaults).unwrap_or_default(),
         ..BuildOptions::default()
     };
-    let report = build::build(&options)?;
+    let report = build::build(&options, &build::NoProgress)?;
     if report.has_errors() {
         return Err(ReviewError::Build {
             side: format!("{which} ({})", side.label),

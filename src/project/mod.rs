@@ -1,0 +1,425 @@
+//! Projects: a `figura.toml` at a manuscript's root, found by searching upward.
+//!
+//! ```toml
+//! [project]
+//! specs = ["figures"]     # folders searched for *.figura (default ["."])
+//! out = "figures/out"     # every output here (default: out/ beside each spec)
+//!
+//! [defaults]
+//! formats = ["svg", "png"]
+//! dpi = 300
+//! ```
+//!
+//! Guarantees: every problem of the file is reported at once, each with the span of the key or
+//! value at fault (an unknown key, a value of the wrong type, a format that does not exist, a
+//! dpi outside the supported limits); paths in a [`Project`] are usable from the folder the
+//! search started in (relative when that folder is inside the project).
+//!
+//! Codes: `P0001` the file is not TOML, `P0002` an unknown table or key, `P0003` a value of the
+//! wrong type or outside its limits.
+
+pub mod new;
+
+use std::fs;
+use std::path::{Path, PathBuf};
+
+use toml::de::{DeTable, DeValue};
+use toml::Spanned;
+
+use crate::build::paths::relative_to;
+use crate::check::{FigureDefaults, Formats, DPI_LIMITS};
+use crate::diag::{did_you_mean, Diagnostic, SourceId, SourceMap, Span};
+
+/// The file that marks a project's root.
+pub const FILE_NAME: &str = "figura.toml";
+
+/// Largest project file read, in bytes (a resource limit; the file is a few lines).
+pub const MAX_FILE_BYTES: u64 = 1024 * 1024;
+
+/// Stable codes of project file diagnostics.
+pub mod codes {
+    /// The file is not valid TOML.
+    pub const NOT_TOML: &str = "P0001";
+    /// A table or key the project file does not have.
+    pub const UNKNOWN_KEY: &str = "P0002";
+    /// A value of the wrong type, or outside its limits.
+    pub const BAD_VALUE: &str = "P0003";
+}
+
+/// The settings of a `figura.toml`, as written (paths relative to the file's folder).
+#[derive(Debug, Clone, PartialEq)]
+pub struct Settings {
+    /// Folders (or files) searched for specs.
+    pub specs: Vec<PathBuf>,
+    /// The one output folder, when set.
+    pub out: Option<PathBuf>,
+    pub defaults: FigureDefaults,
+}
+
+impl Default for Settings {
+    fn default() -> Self {
+        Settings {
+            specs: vec![PathBuf::from(".")],
+            out: None,
+            defaults: FigureDefaults::default(),
+        }
+    }
+}
+
+/// A found project: its root and settings, with paths joined to the root.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Project {
+    /// The folder holding `figura.toml`.
+    pub root: PathBuf,
+    /// The `figura.toml` itself.
+    pub file: PathBuf,
+    /// Spec folders, joined to the root.
+    pub specs: Vec<PathBuf>,
+    /// The output folder, joined to the root.
+    pub out: Option<PathBuf>,
+    pub defaults: FigureDefaults,
+}
+
+/// Why a project could not be opened.
+#[derive(Debug)]
+pub enum ProjectError {
+    /// The file could not be read.
+    Io { path: PathBuf, message: String },
+    /// The file was read but is wrong; the diagnostics point into `sources`.
+    Invalid {
+        sources: SourceMap,
+        diagnostics: Vec<Diagnostic>,
+    },
+}
+
+impl std::fmt::Display for ProjectError {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        match self {
+            ProjectError::Io { path, message } => write!(f, "{}: {message}", path.display()),
+            ProjectError::Invalid { diagnostics, .. } => {
+                write!(f, "the project file has {} problem(s)", diagnostics.len())
+            }
+        }
+    }
+}
+
+/// The nearest folder at or above `start` holding a `figura.toml`, as a path usable from
+/// `start`: `.` for `start` itself, `..` for its parent, and so on. `start` must be absolute.
+pub fn find_root(start: &Path) -> Option<PathBuf> {
+    let mut relative = PathBuf::from(".");
+    for (depth, dir) in start.ancestors().enumerate() {
+        if dir.join(FILE_NAME).is_file() {
+            return Some(relative);
+        }
+        relative = if depth == 0 {
+            PathBuf::from("..")
+        } else {
+            relative.join("..")
+        };
+    }
+    None
+}
+
+/// Finds the project around `start` (absolute, usually the current folder) and reads it;
+/// `Ok(None)` when no folder at or above `start` has a `figura.toml`. The spec folders and
+/// the output folder are given relative to `start` (`figures` seen from `figures/` is `.`).
+pub fn discover(start: &Path) -> Result<Option<Project>, ProjectError> {
+    let Some(root) = find_root(start) else {
+        return Ok(None);
+    };
+    let project = open(&root)?;
+    let near = |p: &Path| relative_to(&start.join(p), start);
+    Ok(Some(Project {
+        specs: project.specs.iter().map(|p| near(p)).collect(),
+        out: project.out.as_deref().map(near),
+        ..project
+    }))
+}
+
+/// Reads the project whose root folder is `root`.
+pub fn open(root: &Path) -> Result<Project, ProjectError> {
+    let file = root.join(FILE_NAME);
+    let text = read_text(&file)?;
+    let mut sources = SourceMap::new();
+    let id = sources.add(&file, text);
+    let settings = parse(id, sources.text(id)).map_err(|diagnostics| ProjectError::Invalid {
+        sources: sources.clone(),
+        diagnostics,
+    })?;
+    Ok(Project {
+        root: root.to_path_buf(),
+        specs: settings.specs.iter().map(|p| join(root, p)).collect(),
+        out: settings.out.as_deref().map(|p| join(root, p)),
+        defaults: settings.defaults,
+        file,
+    })
+}
+
+/// `root/path`, without a leading `./` when the root is the current folder.
+fn join(root: &Path, path: &Path) -> PathBuf {
+    if root == Path::new(".") {
+        path.to_path_buf()
+    } else {
+        root.join(path)
+    }
+}
+
+fn read_text(path: &Path) -> Result<String, ProjectError> {
+    let io = |message: String| ProjectError::Io {
+        path: path.to_path_buf(),
+        message,
+    };
+    let meta = fs::metadata(path).map_err(|e| io(e.to_string()))?;
+    if meta.len() > MAX_FILE_BYTES {
+        return Err(io(format!(
+            "{} bytes; a project file is limited to {MAX_FILE_BYTES} bytes",
+            meta.len()
+        )));
+    }
+    let bytes = fs::read(path).map_err(|e| io(e.to_string()))?;
+    String::from_utf8(bytes).map_err(|_| io("not UTF-8 text".to_string()))
+}
+
+/// Reads the text of a `figura.toml` (source `id`), reporting every problem found.
+pub fn parse(id: SourceId, text: &str) -> Result<Settings, Vec<Diagnostic>> {
+    let doc = DeTable::parse(text).map_err(|e| vec![toml_error(id, text, &e)])?;
+    let mut reader = Reader {
+        id,
+        diags: Vec::new(),
+    };
+    let mut settings = Settings::default();
+    for (key, value) in sorted(doc.get_ref()) {
+        match key.get_ref().as_ref() {
+            "project" => reader.project(value, &mut settings),
+            "defaults" => reader.defaults(value, &mut settings.defaults),
+            _ => reader.unknown(key, "", &["project", "defaults"]),
+        }
+    }
+    if reader.diags.is_empty() {
+        Ok(settings)
+    } else {
+        Err(reader.diags)
+    }
+}
+
+/// A table's entries in the order they are written.
+fn sorted<'t, 'i>(
+    table: &'t DeTable<'i>,
+) -> Vec<(
+    &'t Spanned<toml::de::DeString<'i>>,
+    &'t Spanned<DeValue<'i>>,
+)> {
+    let mut entries: Vec<_> = table.iter().collect();
+    entries.sort_by_key(|(k, _)| k.span().start);
+    entries
+}
+
+fn toml_error(id: SourceId, text: &str, e: &toml::de::Error) -> Diagnostic {
+    let span = e.span().unwrap_or(0..0);
+    let end = span.end.max(span.start).min(text.len());
+    let start = span.start.min(end);
+    Diagnostic::error(codes::NOT_TOML, format!("{} is not valid TOML", FILE_NAME))
+        .with_label(Span::new(id, start, end), e.message().trim().to_string())
+        .with_help(SHAPE_HELP)
+}
+
+const SHAPE_HELP: &str = "the file holds `[project]` with specs = [\"figures\"] and out = \"figures/out\", and `[defaults]` with formats = [\"svg\", \"png\"] and dpi = 300";
+
+struct Reader {
+    id: SourceId,
+    diags: Vec<Diagnostic>,
+}
+
+impl Reader {
+    fn span<T>(&self, s: &Spanned<T>) -> Span {
+        let r = s.span();
+        Span::new(self.id, r.start, r.end)
+    }
+
+    fn table<'t, 'i>(
+        &mut self,
+        value: &'t Spanned<DeValue<'i>>,
+        name: &str,
+    ) -> Option<&'t DeTable<'i>> {
+        match value.get_ref() {
+            DeValue::Table(t) => Some(t),
+            other => {
+                self.wrong_type(value, &format!("`{name}` is a table"), other.type_str());
+                None
+            }
+        }
+    }
+
+    fn project(&mut self, value: &Spanned<DeValue<'_>>, settings: &mut Settings) {
+        let Some(table) = self.table(value, "project") else {
+            return;
+        };
+        for (key, value) in sorted(table) {
+            match key.get_ref().as_ref() {
+                "specs" => {
+                    if let Some(list) = self.strings(value, "`specs` is a list of folders") {
+                        settings.specs = list.into_iter().map(PathBuf::from).collect();
+                    }
+                }
+                "out" => {
+                    if let Some(s) = self.string(value, "`out` is a folder") {
+                        settings.out = Some(PathBuf::from(s));
+                    }
+                }
+                _ => self.unknown(key, "project.", &["specs", "out"]),
+            }
+        }
+    }
+
+    fn defaults(&mut self, value: &Spanned<DeValue<'_>>, defaults: &mut FigureDefaults) {
+        let Some(table) = self.table(value, "defaults") else {
+            return;
+        };
+        for (key, value) in sorted(table) {
+            match key.get_ref().as_ref() {
+                "formats" => {
+                    if let Some(f) = self.formats(value) {
+                        defaults.formats = f;
+                    }
+                }
+                "dpi" => {
+                    if let Some(dpi) = self.dpi(value) {
+                        defaults.dpi = dpi;
+                    }
+                }
+                _ => self.unknown(key, "defaults.", &["formats", "dpi"]),
+            }
+        }
+    }
+
+    fn unknown(&mut self, key: &Spanned<toml::de::DeString<'_>>, prefix: &str, known: &[&str]) {
+        let name = key.get_ref().as_ref();
+        let list = known
+            .iter()
+            .map(|k| format!("`{prefix}{k}`"))
+            .collect::<Vec<_>>()
+            .join(", ");
+        let help = match did_you_mean(name, known.iter().copied()) {
+            Some(s) => format!("did you mean `{prefix}{s}`? the known keys here are {list}"),
+            None => format!("the known keys here are {list}"),
+        };
+        self.diags.push(
+            Diagnostic::error(
+                codes::UNKNOWN_KEY,
+                format!("`{prefix}{name}` is not a setting of {FILE_NAME}"),
+            )
+            .with_label(self.span(key), "unknown key")
+            .with_help(help),
+        );
+    }
+
+    fn wrong_type(&mut self, value: &Spanned<DeValue<'_>>, expected: &str, found: &str) {
+        self.diags.push(
+            Diagnostic::error(codes::BAD_VALUE, format!("{expected}, not a {found}"))
+                .with_label(self.span(value), "wrong type")
+                .with_help(SHAPE_HELP),
+        );
+    }
+
+    fn string(&mut self, value: &Spanned<DeValue<'_>>, expected: &str) -> Option<String> {
+        match value.get_ref() {
+            DeValue::String(s) => Some(s.to_string()),
+            other => {
+                self.wrong_type(value, &format!("{expected} (a string)"), other.type_str());
+                None
+            }
+        }
+    }
+
+    fn array<'t, 'i>(
+        &mut self,
+        value: &'t Spanned<DeValue<'i>>,
+        expected: &str,
+    ) -> Option<&'t [Spanned<DeValue<'i>>]> {
+        match value.get_ref() {
+            DeValue::Array(items) => Some(items),
+            other => {
+                self.wrong_type(value, expected, other.type_str());
+                None
+            }
+        }
+    }
+
+    fn strings(&mut self, value: &Spanned<DeValue<'_>>, expected: &str) -> Option<Vec<String>> {
+        let items = self.array(value, &format!("{expected} (a list of strings)"))?;
+        let out: Vec<Option<String>> = items
+            .iter()
+            .map(|item| self.string(item, expected))
+            .collect();
+        out.into_iter().collect()
+    }
+
+    fn formats(&mut self, value: &Spanned<DeValue<'_>>) -> Option<Formats> {
+        let expected = "`formats` is a list such as [\"svg\", \"png\"]";
+        let items = self.array(value, expected)?;
+        let mut formats = Formats {
+            svg: false,
+            png: false,
+            pdf: false,
+        };
+        let mut ok = true;
+        for item in items {
+            let Some(name) = self.string(item, expected) else {
+                ok = false;
+                continue;
+            };
+            match name.as_str() {
+                "svg" => formats.svg = true,
+                "png" => formats.png = true,
+                "pdf" => formats.pdf = true,
+                _ => {
+                    ok = false;
+                    self.diags.push(
+                        Diagnostic::error(
+                            codes::BAD_VALUE,
+                            format!("\"{name}\" is not an output format"),
+                        )
+                        .with_label(self.span(item), "unknown format")
+                        .with_help("the formats are \"svg\", \"png\" and \"pdf\""),
+                    );
+                }
+            }
+        }
+        if items.is_empty() {
+            self.diags.push(
+                Diagnostic::error(codes::BAD_VALUE, "`formats` needs at least one format")
+                    .with_label(self.span(value), "no format")
+                    .with_help("write, for example, formats = [\"svg\", \"png\"]"),
+            );
+            return None;
+        }
+        ok.then_some(formats)
+    }
+
+    fn dpi(&mut self, value: &Spanned<DeValue<'_>>) -> Option<u32> {
+        let (lo, hi) = DPI_LIMITS;
+        let n = match value.get_ref() {
+            DeValue::Integer(i) => i64::from_str_radix(i.as_str(), i.radix()).ok(),
+            other => {
+                self.wrong_type(value, "`dpi` is a whole number", other.type_str());
+                return None;
+            }
+        };
+        match n.and_then(|n| u32::try_from(n).ok()) {
+            Some(n) if (lo..=hi).contains(&n) => Some(n),
+            _ => {
+                self.diags.push(
+                    Diagnostic::error(
+                        codes::BAD_VALUE,
+                        format!("dpi must be a whole number from {lo} to {hi}"),
+                    )
+                    .with_label(self.span(value), "out of limits")
+                    .with_help(
+                        "journals usually ask for 300 dpi (photographs) to 600 dpi (line art)",
+                    ),
+                );
+                None
+            }
+        }
+    }
+}
