@@ -15,7 +15,7 @@ use std::io::Write as _;
 use std::path::PathBuf;
 use std::process::{Command, Stdio};
 
-use figura::build::{self, BuildOptions, BuildReport};
+use figura::build::{self, BuildOptions, BuildReport, NoProgress};
 use figura::check::{self, SpecUnit};
 use figura::compute::{self, FigureData, LayerMarks};
 use figura::diag::SourceMap;
@@ -49,11 +49,14 @@ impl Project {
     }
 
     fn build_into(&self, folder: &str) -> BuildReport {
-        build::build(&BuildOptions {
-            paths: vec![self.spec()],
-            out: Some(self.out(folder)),
-            check_only: false,
-        })
+        build::build(
+            &BuildOptions {
+                paths: vec![self.spec()],
+                out: Some(self.out(folder)),
+                ..BuildOptions::default()
+            },
+            &NoProgress,
+        )
         .expect("the build runs")
     }
 
