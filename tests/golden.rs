@@ -47,6 +47,7 @@ fn first_difference(expected: &str, actual: &str) -> String {
 /// Compares (or, when updating, writes) one expected file; returns a problem, if any.
 fn check_golden(expected_path: &Path, actual: &str) -> Option<String> {
     if updating() {
+        std::fs::create_dir_all(golden_dir()).unwrap();
         std::fs::write(expected_path, actual).unwrap();
         return None;
     }
@@ -86,7 +87,12 @@ fn every_example_matches_its_expected_svg_and_summary() {
         let text = String::from_utf8(bytes.clone()).expect("SVG and CSV are UTF-8");
         problems.extend(check_golden(&golden_dir().join(name), &text));
     }
-    for (name, _) in common::output_files(&golden_dir()) {
+    let expected_files = if golden_dir().is_dir() {
+        common::output_files(&golden_dir())
+    } else {
+        Vec::new()
+    };
+    for (name, _) in expected_files {
         if is_golden(&name) && !built.iter().any(|(b, _)| *b == name) {
             problems.push(format!(
                 "tests/golden/{name} belongs to no example figure; delete it"
@@ -154,5 +160,40 @@ fn each_figure_writes_exactly_the_formats_it_asks_for() {
         let pdf = out.path().join(format!("{}.pdf", plan.name));
         assert_eq!(png.exists(), plan.formats.png, "{}", plan.name);
         assert_eq!(pdf.exists(), plan.formats.pdf, "{}", plan.name);
+    }
+}
+
+/// The numbers of a PDF's `/MediaBox [x0 y0 x1 y1]`.
+fn media_box(pdf: &[u8]) -> Vec<f64> {
+    let text = String::from_utf8_lossy(pdf);
+    let start = text.find("/MediaBox [").expect("a MediaBox") + "/MediaBox [".len();
+    let end = start + text[start..].find(']').expect("the MediaBox ends");
+    text[start..end]
+        .split_whitespace()
+        .map(|n| n.parse().expect("a number"))
+        .collect()
+}
+
+#[test]
+fn every_pdf_page_is_the_figure_size_in_points() {
+    let out = tempfile::tempdir().unwrap();
+    common::build_examples(out.path());
+    let plans = common::example_plans();
+    let with_pdf: Vec<&FigurePlan> = plans.iter().filter(|p| p.formats.pdf).collect();
+    assert!(!with_pdf.is_empty(), "some example writes a PDF");
+    for plan in with_pdf {
+        let pdf = std::fs::read(out.path().join(format!("{}.pdf", plan.name))).unwrap();
+        // 1 in = 25.4 mm = 72 pt (common practice); the PDF writes 5 decimals.
+        let pt = |mm: f64| mm / 25.4 * 72.0;
+        let b = media_box(&pdf);
+        assert_eq!(b.len(), 4, "{}", plan.name);
+        assert_eq!((b[0], b[1]), (0.0, 0.0), "{}", plan.name);
+        assert!(
+            (b[2] - pt(plan.width_mm)).abs() < 1e-4 && (b[3] - pt(plan.height_mm)).abs() < 1e-4,
+            "{}: MediaBox {b:?} for {} × {} mm",
+            plan.name,
+            plan.width_mm,
+            plan.height_mm
+        );
     }
 }
