@@ -13,7 +13,8 @@ use figura::check::{check, SpecUnit};
 use figura::diag::{Diagnostic, SourceMap};
 use figura::syntax;
 
-fn run(path: &Path) -> (Vec<Diagnostic>, SourceMap) {
+/// The diagnostics of one case, its sources, and how many of its figures passed the checker.
+fn run(path: &Path) -> (Vec<Diagnostic>, SourceMap, usize) {
     let mut sources = SourceMap::new();
     let text = std::fs::read_to_string(path).unwrap();
     let id = sources.add(path, text);
@@ -27,8 +28,8 @@ fn run(path: &Path) -> (Vec<Diagnostic>, SourceMap) {
         sees: Vec::new(),
         build_figures: true,
     };
-    let (_, diags) = check(&[unit]);
-    (diags, sources)
+    let (program, diags) = check(&[unit]);
+    (diags, sources, program.figures.len())
 }
 
 /// One line per diagnostic: code, span as line:col-line:col, message; then its help.
@@ -60,7 +61,7 @@ fn cases(folder: &str) -> Vec<std::path::PathBuf> {
 #[test]
 fn rejected_cases_report_their_errors_at_the_right_place() {
     for path in cases("err") {
-        let (diags, sources) = run(&path);
+        let (diags, sources, _) = run(&path);
         assert!(
             diags.iter().any(Diagnostic::is_error),
             "{} was accepted",
@@ -73,7 +74,9 @@ fn rejected_cases_report_their_errors_at_the_right_place() {
 #[test]
 fn warned_cases_build_with_a_warning() {
     for path in cases("warn") {
-        let (diags, sources) = run(&path);
+        let (diags, sources, planned) = run(&path);
+        // A warning never stops a figure: it is checked and will be built.
+        assert!(planned > 0, "{} was not planned", path.display());
         assert!(
             !diags.iter().any(Diagnostic::is_error),
             "{} has errors: {}",
@@ -88,7 +91,7 @@ fn warned_cases_build_with_a_warning() {
 #[test]
 fn near_misses_are_accepted_without_warnings() {
     for path in cases("ok") {
-        let (diags, sources) = run(&path);
+        let (diags, sources, _) = run(&path);
         assert!(
             diags.is_empty(),
             "{} was not accepted cleanly:\n{}",

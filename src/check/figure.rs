@@ -104,13 +104,20 @@ pub fn check_figure(
     let y = parts.y.map(|p| axis_var(book, p, diags));
     let colour = parts.colour.and_then(|p| grouping(book, p, diags));
     let panels = parts.panels.and_then(|p| grouping(book, p, diags));
+    // A bad size, format list or dpi is reported, and the rest of the figure is still checked
+    // (with the default in its place); the error rejects the figure at the end.
     let (width_mm, height_mm) = parts
         .size
-        .map_or(Some(DEFAULT_SIZE_MM), |p| size(p, diags))?;
+        .and_then(|p| size(p, diags))
+        .unwrap_or(DEFAULT_SIZE_MM);
     let formats = parts
         .formats
-        .map_or(Some(defaults.formats), |p| formats(p, diags))?;
-    let dpi = parts.dpi.map_or(Some(defaults.dpi), |p| dpi(p, diags))?;
+        .and_then(|p| formats(p, diags))
+        .unwrap_or(defaults.formats);
+    let dpi = parts
+        .dpi
+        .and_then(|p| dpi(p, diags))
+        .unwrap_or(defaults.dpi);
     // A filter with errors is reported, and the rest of the figure is still checked.
     let filter: Option<Filter> = parts
         .filter

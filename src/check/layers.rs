@@ -404,7 +404,9 @@ pub fn frame(book: &Codebook, input: FrameInput, diags: &mut Vec<Diagnostic>) ->
         diags.push(not_categorical(book.var(x.var), x.name_span, "an axis"));
         return None;
     }
-    let before = diags.len();
+    // Warnings (W0001, W0002) leave the frame standing; only new errors reject it.
+    let errors = |diags: &[Diagnostic]| diags.iter().filter(|d| d.is_error()).count();
+    let before = errors(diags);
     let frame = match (x.scale.is_categorical(), y) {
         (true, None) => counts_frame(&x, &layers, diags),
         (true, Some(y)) if y.scale.is_numeric() => cat_num_frame(book, &x, &y, &layers, diags),
@@ -412,7 +414,7 @@ pub fn frame(book: &Codebook, input: FrameInput, diags: &mut Vec<Diagnostic>) ->
         (false, None) => dist_frame(&x, &layers, diags),
         (false, Some(y)) => xy_frame(book, &x, &y, &layers, diags),
     };
-    (diags.len() == before).then_some(frame).flatten()
+    (errors(diags) == before).then_some(frame).flatten()
 }
 
 fn y_missing(layer: &RawLayer) -> Diagnostic {

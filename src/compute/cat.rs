@@ -335,7 +335,7 @@ fn check_one_value_per_subject(
             Err(rows::repeated_subject_error(
                 &ctx.subject_name(subject),
                 &format!("({})", parts.join(", ")),
-                (first, second),
+                (ctx.file_row(first), ctx.file_row(second)),
                 span,
             )
             .into())
@@ -362,7 +362,7 @@ pub(super) fn check_log_values(
     let var = ctx.book.var(axis.var.var);
     Err(crate::diag::Diagnostic::error(
         crate::check::codes::LOG_OF_ZERO,
-        format!("`{}` has a zero (data row {}), and a log scale cannot show zero", var.name, row + 2),
+        format!("`{}` has a zero (data row {}), and a log scale cannot show zero", var.name, ctx.file_row(row)),
     )
     .with_label(span, "log scale")
     .with_help("use a linear scale, or filter out the zeros with `where` if they are not part of the question")

@@ -83,8 +83,8 @@ fn check_one_state(
         format!(
             "subject \"{}\" has more than one state at {at} (data rows {} and {})",
             ctx.subject_name(subject),
-            first + 2,
-            second + 2
+            ctx.file_row(first),
+            ctx.file_row(second)
         ),
     )
     .with_label(span, "follows one state per subject and occasion")

@@ -385,6 +385,12 @@ impl<'a> Context<'a> {
         Ok((x_levels, y_levels, placed))
     }
 
+    /// The row of the data file a table row came from, as a spreadsheet numbers it (the header
+    /// is row 1; blank lines count), for messages.
+    pub fn file_row(&self, row: usize) -> usize {
+        self.table.row_place(row).map_or(row + 2, |p| p.file_row)
+    }
+
     pub fn subject_name(&self, code: u32) -> String {
         self.subject_codes
             .map(|(_, names)| names[code as usize].clone())

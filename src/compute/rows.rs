@@ -337,7 +337,8 @@ pub fn repeated_subject(placed: &Placed) -> Option<(u32, Cell, usize, usize)> {
     None
 }
 
-/// A diagnostic for a subject with two values in one cell (rule 7, found in the data).
+/// A diagnostic for a subject with two values in one cell (rule 7, found in the data); `rows`
+/// are the two rows of the data file (header = row 1).
 pub fn repeated_subject_error(
     subject: &str,
     cell: &str,
@@ -346,7 +347,7 @@ pub fn repeated_subject_error(
 ) -> Diagnostic {
     Diagnostic::error(
         crate::check::codes::SUBJECT_REPEATED_IN_CELL,
-        format!("subject \"{subject}\" has more than one value in cell {cell} (data rows {} and {})", rows.0 + 2, rows.1 + 2),
+        format!("subject \"{subject}\" has more than one value in cell {cell} (data rows {} and {})", rows.0, rows.1),
     )
     .with_label(layer_span, "joins one value per subject and cell")
     .with_help("if these are repeated trials, declare `replicates TRIAL collapse(mean)` in the data block; otherwise correct the data")
