@@ -41,6 +41,11 @@ impl Run {
             .collect()
     }
 
+    /// Code, line and column of every JSON diagnostic.
+    fn places(&self) -> Vec<(String, u64, u64)> {
+        self.json().iter().map(diagnostic_at).collect()
+    }
+
     fn assert_code(&self, code: i32) -> &Run {
         assert_eq!(
             self.code, code,
@@ -274,7 +279,7 @@ figure c {
     let run = folder.run(&["check", "three.figura", "--message-format", "json"]);
     run.assert_code(1);
     let text = format!("{CODEBOOK}\n{figures}");
-    let found: Vec<(String, u64, u64)> = run.json().iter().map(diagnostic_at).collect();
+    let found = run.places();
     let (l1, c1) = locate(&text, "score\n  counts");
     let (l2, c2) = locate(&text, "order(count)");
     // A mean of an ordinal y is reported at the y variable.
@@ -454,7 +459,7 @@ fn every_rejected_checker_case_exits_1_and_points_at_the_same_place_through_the_
     for case in cases {
         let run = folder.run(&["check", case.to_str().unwrap(), "--message-format", "json"]);
         run.assert_code(1);
-        let found: Vec<(String, u64, u64)> = run.json().iter().map(diagnostic_at).collect();
+        let found = run.places();
         let expected =
             std::fs::read_to_string(case.with_extension("expected")).expect("an expected file");
         let places = expected_places(&expected);

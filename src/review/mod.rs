@@ -57,7 +57,8 @@ pub enum ReviewError {
     /// One side has errors in its specs or data; its diagnostics are in the report.
     Build {
         side: String,
-        report: BuildReport,
+        /// Boxed: a report is large, and errors travel by value.
+        report: Box<BuildReport>,
     },
     /// The build failed outright (I/O, limits).
     BuildFailed(BuildError),
@@ -264,7 +265,7 @@ fn build_side(side: &Side, which: &str, out: &Path) -> Result<Built, ReviewError
     if report.has_errors() {
         return Err(ReviewError::Build {
             side: format!("{which} ({})", side.label),
-            report,
+            report: Box::new(report),
         });
     }
     Ok(Built {
