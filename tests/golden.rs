@@ -22,25 +22,27 @@ fn updating() -> bool {
     std::env::var_os("UPDATE_EXPECT").is_some()
 }
 
-/// Where two texts first differ: the line number and both lines (SVGs are too long to print
-/// whole).
+/// Where two texts first differ: the line, and both texts around that point (SVGs are too
+/// long, and their lines too long, to print whole).
 fn first_difference(expected: &str, actual: &str) -> String {
-    let (e_lines, a_lines): (Vec<&str>, Vec<&str>) =
-        (expected.lines().collect(), actual.lines().collect());
-    let at = e_lines
-        .iter()
-        .zip(&a_lines)
+    let at = expected
+        .bytes()
+        .zip(actual.bytes())
         .position(|(e, a)| e != a)
-        .unwrap_or(e_lines.len().min(a_lines.len()));
-    let cut =
-        |s: Option<&&str>| -> String { s.map_or("<end>", |s| *s).chars().take(300).collect() };
+        .unwrap_or(expected.len().min(actual.len()));
+    let line = expected[..at.min(expected.len())].matches('\n').count() + 1;
+    let around = |text: &str| -> String {
+        let chars: Vec<char> = text.chars().collect();
+        // Byte offset → char offset of the same point (texts agree up to it).
+        let c = text[..at.min(text.len())].chars().count();
+        chars[c.saturating_sub(60)..(c + 60).min(chars.len())]
+            .iter()
+            .collect()
+    };
     format!(
-        "first difference at line {}:\n  expected: {}\n  actual:   {}\n  ({} expected lines, {} actual)",
-        at + 1,
-        cut(e_lines.get(at)),
-        cut(a_lines.get(at)),
-        e_lines.len(),
-        a_lines.len()
+        "first difference at line {line}:\n  expected: …{}…\n  actual:   …{}…",
+        around(expected),
+        around(actual)
     )
 }
 

@@ -12,16 +12,17 @@ use super::PanelFrame;
 /// Every layer of a panel, in the order written.
 pub fn layers(frame: &PanelFrame, panel: &PanelData) -> Vec<Mark> {
     let mut out = Vec::new();
-    // Bars that points are drawn over are pale, so the points stay visible on them.
-    let bar_opacity = if panel
+    let has_points = panel
         .layers
         .iter()
-        .any(|l| matches!(l, LayerMarks::CatPoints(_)))
-    {
+        .any(|l| matches!(l, LayerMarks::CatPoints(_)));
+    // Bars that points are drawn over are pale, so the points stay visible on them.
+    let bar_opacity = if has_points {
         BAR_UNDER_POINTS_OPACITY
     } else {
         BAR_OPACITY
     };
+
     for layer in &panel.layers {
         match layer {
             LayerMarks::Bars(bars) => {
@@ -82,7 +83,16 @@ pub fn layers(frame: &PanelFrame, panel: &PanelData) -> Vec<Mark> {
                     ));
                 }
             }
-            LayerMarks::Boxes(boxes) => boxes.iter().for_each(|b| draw_box(&mut out, frame, b)),
+            LayerMarks::Boxes(boxes) => {
+                for b in boxes {
+                    draw_box(&mut out, frame, b);
+                    // With points, every outlier is already drawn as a point: a second mark
+                    // would look like a second value (the summary still lists the outliers).
+                    if !has_points {
+                        draw_outliers(&mut out, frame, b);
+                    }
+                }
+            }
             LayerMarks::Estimates { marks, kind } => marks
                 .iter()
                 .for_each(|e| draw_estimate(&mut out, frame, e, *kind)),
@@ -275,6 +285,7 @@ fn summary_colour(group: usize, n_groups: usize) -> Colour {
     }
 }
 
+/// A box with its median line and whiskers.
 fn draw_box(out: &mut Vec<Mark>, frame: &PanelFrame, b: &BoxMark) {
     let (cx, gw) = frame.group_slot(b.x, b.group);
     let colour = summary_colour(b.group, frame.n_groups);
@@ -301,6 +312,12 @@ fn draw_box(out: &mut Vec<Mark>, frame: &PanelFrame, b: &BoxMark) {
         points: vec![Point::new(cx - half, ym), Point::new(cx + half, ym)],
         stroke: Stroke::solid(colour, MEDIAN_LINE_MM),
     });
+}
+
+/// A box's outliers, as open circles on its centre line.
+fn draw_outliers(out: &mut Vec<Mark>, frame: &PanelFrame, b: &BoxMark) {
+    let (cx, _) = frame.group_slot(b.x, b.group);
+    let colour = summary_colour(b.group, frame.n_groups);
     for o in &b.outliers {
         out.push(Mark::Circle {
             centre: Point::new(cx, frame.y(*o)),
