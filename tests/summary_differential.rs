@@ -207,6 +207,10 @@ fn check_seed(seed: u64, failures: &mut Vec<String>) -> usize {
 #[test]
 fn every_summary_number_matches_numpy_and_scipy_on_new_random_data() {
     let first = first_seed();
+    eprintln!(
+        "summary differential: seeds {first} to {}",
+        first + ROUNDS - 1
+    );
     let mut failures = Vec::new();
     let mut checked = 0;
     for seed in first..first + ROUNDS {

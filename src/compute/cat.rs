@@ -630,7 +630,26 @@ fn within_cells(
 }
 
 /// One normalisation: subjects × `cells`, complete subjects only.
+///
+/// A cell that holds no value at all (a level nobody was measured at, here) is left out of the
+/// within cells, so it does not drop every subject; it shows nothing.
 fn within_set(placed: &Placed, cells: &[Cell], level: f64) -> Vec<(Cell, MeanCell)> {
+    let (used, empty): (Vec<Cell>, Vec<Cell>) = cells
+        .iter()
+        .partition(|c| placed.obs.iter().any(|o| o.cell == **c));
+    let mut out = complete_subjects(placed, &used, level);
+    out.extend(empty.into_iter().map(|cell| {
+        let m = MeanCell {
+            n_missing: placed.missing_by_cell.get(&cell).copied().unwrap_or(0),
+            ..MeanCell::default()
+        };
+        (cell, m)
+    }));
+    out
+}
+
+/// Means and intervals of `cells` over the subjects with a value in every one of them.
+fn complete_subjects(placed: &Placed, cells: &[Cell], level: f64) -> Vec<(Cell, MeanCell)> {
     let mut by_subject: BTreeMap<u32, Vec<Option<f64>>> = BTreeMap::new();
     let mut present = vec![0usize; cells.len()];
     for o in &placed.obs {

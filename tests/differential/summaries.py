@@ -142,7 +142,9 @@ def gen_repeated(rng):
         "vars": {
             "subject": {"scale": "id"},
             "group": {"scale": "nominal", "levels": shuffled(rng, groups)},
-            "cond": {"scale": "nominal", "levels": shuffled(rng, conds)},
+            # Sometimes a declared condition nobody was measured in: empty cells everywhere.
+            "cond": {"scale": "nominal",
+                     "levels": shuffled(rng, conds + (["cunused"] if rng.random() < 0.5 else []))},
             "phase": {"scale": "nominal", "levels": ["late", "early"]},
             "score": {"scale": "ratio"},
             "temp": {"scale": "interval"},
@@ -821,7 +823,8 @@ def within_cells(f, vals, level):
     """Cousineau-Morey intervals per cell. The within cells are every combination of the
     within factors the figure uses (x, and colour or panels when they are within factors);
     between factors (or other variables) on colour or panels split the subjects into separate
-    normalisations. Only subjects with a value in every within cell are used.
+    normalisations. Only subjects with a value in every within cell are used; a cell with no
+    value at all is left out.
 
     Returns {cell: (n, n_unused, mean, ci_low, ci_high or None)}."""
     book = f.data.book
@@ -837,7 +840,12 @@ def within_cells(f, vals, level):
             sets.setdefault(key, [])
             for x in f.x_levels:
                 sets[key].append((p, x, g))
-    for key, cells in sets.items():
+    for key, all_cells in sets.items():
+        # A cell with no value at all (a level nobody was measured at) is no within cell.
+        for c in all_cells:
+            if not vals.get(c):
+                out[c] = (0, 0, None, None, None)
+        cells = [c for c in all_cells if vals.get(c)]
         by_subject = {}
         for c in cells:
             for r in vals.get(c, []):
