@@ -49,11 +49,14 @@ impl Project {
     }
 
     fn build_into(&self, folder: &str) -> BuildReport {
-        build::build(&BuildOptions {
-            paths: vec![self.spec()],
-            out: Some(self.out(folder)),
-            check_only: false,
-        })
+        build::build(
+            &BuildOptions {
+                paths: vec![self.spec()],
+                out: Some(self.out(folder)),
+                ..BuildOptions::default()
+            },
+            &build::NoProgress,
+        )
         .expect("the build runs")
     }
 
