@@ -57,7 +57,7 @@ pub enum ReviewError {
     /// One side has errors in its specs or data; its diagnostics are in the report.
     Build {
         side: String,
-        report: BuildReport,
+        report: Box<BuildReport>,
     },
     /// The build failed outright (I/O, limits).
     BuildFailed(BuildError),
@@ -264,7 +264,7 @@ fn build_side(side: &Side, which: &str, out: &Path) -> Result<Built, ReviewError
     if report.has_errors() {
         return Err(ReviewError::Build {
             side: format!("{which} ({})", side.label),
-            report,
+            report: Box::new(report),
         });
     }
     Ok(Built {
