@@ -499,63 +499,38 @@ fn means(
     summary: &mut Vec<super::SummaryRow>,
 ) -> Result<Vec<LayerMarks>, ComputeError> {
     let within = match error {
-        Some(ErrorBar::CiWithin { level }) => {
-            Some(within_intervals(ctx, placed, p, levels, level)?)
-        }
+        Some(ErrorBar::CiWithin { level }) => Some(within_cells(ctx, placed, levels, level)),
         _ => None,
     };
     let mut marks = Vec::new();
     let mut bars = Vec::new();
     for (cell, name) in for_cells(ctx, p, levels) {
-        let values = cell_values(&placed.obs, cell);
         let k = key(ctx, p, "mean", cell.group, &name);
-        n_rows(ctx, placed, cell, &k, values.len(), summary);
-        let Ok(m) = stats::moments(&values) else {
+        let m = match &within {
+            Some(w) => w.get(&cell).cloned().unwrap_or_default(),
+            None => mean_cell(placed, cell, error),
+        };
+        summary.push(k.count("n", m.n));
+        summary.push(k.count("n_missing", m.n_missing));
+        let Some(mean) = m.mean else {
             continue;
         };
-        summary.push(k.number("mean", m.mean));
-        let interval = match error {
-            None => None,
-            Some(ErrorBar::Sd) => m.sd.map(|sd| {
-                summary.push(k.number("sd", sd));
-                (m.mean - sd, m.mean + sd)
-            }),
-            Some(ErrorBar::Se) => m.se().map(|se| {
-                summary.push(k.number("se", se));
-                (m.mean - se, m.mean + se)
-            }),
-            Some(ErrorBar::Ci { level }) => stats::mean_ci(&values, level).ok().map(|ci| {
-                summary.push(k.number("ci_low", ci.low));
-                summary.push(k.number("ci_high", ci.high));
-                (ci.low, ci.high)
-            }),
-            Some(ErrorBar::CiWithin { .. }) => {
-                within.as_ref().and_then(|w| w.get(&cell)).map(|&(lo, hi)| {
-                    summary.push(k.number("ci_low", lo));
-                    summary.push(k.number("ci_high", hi));
-                    (lo, hi)
-                })
-            }
-            Some(ErrorBar::Bootstrap { level }) => stats::bootstrap::bootstrap_mean(&values, level)
-                .ok()
-                .map(|ci| {
-                    summary.push(k.number("ci_low", ci.low));
-                    summary.push(k.number("ci_high", ci.high));
-                    (ci.low, ci.high)
-                }),
-        };
+        summary.push(k.number("mean", mean));
+        for (stat, value) in &m.error_rows {
+            summary.push(k.number(stat, *value));
+        }
         if bar {
             bars.push(Bar {
                 x: cell.x,
                 group: cell.group,
-                height: m.mean,
+                height: mean,
             });
         }
         marks.push(Estimate {
             x: cell.x,
             group: cell.group,
-            centre: m.mean,
-            interval,
+            centre: mean,
+            interval: m.interval,
         });
     }
     let mut out = Vec::new();
@@ -569,60 +544,131 @@ fn means(
     Ok(out)
 }
 
-/// Cousineau–Morey intervals for every cell of one panel, keyed by cell.
-fn within_intervals(
+/// What a `mean` layer shows in one cell.
+#[derive(Debug, Clone, Default)]
+struct MeanCell {
+    /// Values the mean is taken over.
+    n: usize,
+    /// Values of the cell not used: missing, or (within intervals) from incomplete subjects.
+    n_missing: usize,
+    mean: Option<f64>,
+    /// The error bar's summary rows (`sd`, `se`, or `ci_low` and `ci_high`).
+    error_rows: Vec<(&'static str, f64)>,
+    interval: Option<(f64, f64)>,
+}
+
+/// The mean of every value in a cell, with an error bar that needs no other cell.
+fn mean_cell(placed: &Placed, cell: Cell, error: Option<ErrorBar>) -> MeanCell {
+    let values = cell_values(&placed.obs, cell);
+    let mut out = MeanCell {
+        n: values.len(),
+        n_missing: placed.missing_by_cell.get(&cell).copied().unwrap_or(0),
+        ..MeanCell::default()
+    };
+    let Ok(m) = stats::moments(&values) else {
+        return out;
+    };
+    out.mean = Some(m.mean);
+    let (rows, interval) = match error {
+        Some(ErrorBar::Sd) => {
+            m.sd.map(|sd| (vec![("sd", sd)], (m.mean - sd, m.mean + sd)))
+        }
+        Some(ErrorBar::Se) => m
+            .se()
+            .map(|se| (vec![("se", se)], (m.mean - se, m.mean + se))),
+        Some(ErrorBar::Ci { level }) => stats::mean_ci(&values, level)
+            .ok()
+            .map(|ci| interval_rows(ci.low, ci.high)),
+        Some(ErrorBar::Bootstrap { level }) => stats::bootstrap::bootstrap_mean(&values, level)
+            .ok()
+            .map(|ci| interval_rows(ci.low, ci.high)),
+        None | Some(ErrorBar::CiWithin { .. }) => None,
+    }
+    .unzip();
+    out.error_rows = rows.unwrap_or_default();
+    out.interval = interval;
+    out
+}
+
+/// The summary rows and ends of an interval.
+fn interval_rows(low: f64, high: f64) -> (Vec<(&'static str, f64)>, (f64, f64)) {
+    (vec![("ci_low", low), ("ci_high", high)], (low, high))
+}
+
+/// Cousineau–Morey means and intervals for every cell of the figure, keyed by cell.
+///
+/// The within cells are every combination of the within factors the figure uses: x, and
+/// colour and panels when they are within factors. Colour or panels on any other variable (a
+/// between factor) split the subjects into separate normalisations. Only subjects with a value
+/// in every within cell of their normalisation are used, for the mean as for the interval, so
+/// the interval is centred on the mean shown; a cell's other values count as missing.
+fn within_cells(
     ctx: &Context,
     placed: &Placed,
-    p: usize,
     levels: &Levels,
     level: f64,
-) -> Result<BTreeMap<Cell, (f64, f64)>, ComputeError> {
-    let colour_within = ctx
-        .plan
-        .colour
-        .as_ref()
-        .is_some_and(|c| ctx.book.is_within(c.var));
-    // Between-subject parts of the cell (colour groups that are not within factors) are
-    // normalised separately; within cells are x levels, and colour levels when colour is within.
-    let between_groups: Vec<Option<usize>> = if colour_within || ctx.plan.colour.is_none() {
-        vec![None]
-    } else {
-        (0..ctx.groups.len()).map(Some).collect()
-    };
-    let mut out = BTreeMap::new();
-    for between in between_groups {
-        let cells: Vec<Cell> = (0..levels.len())
-            .flat_map(|x| {
-                let groups: Vec<usize> = match between {
-                    Some(g) => vec![g],
-                    None => (0..ctx.groups.len()).collect(),
-                };
-                groups.into_iter().map(move |g| Cell {
-                    panel: p,
-                    x,
-                    group: g,
-                })
-            })
-            .collect();
-        let mut by_subject: BTreeMap<u32, BTreeMap<Cell, f64>> = BTreeMap::new();
-        for o in placed.obs.iter().filter(|o| cells.contains(&o.cell)) {
-            if let Some(s) = o.subject {
-                by_subject.entry(s).or_default().insert(o.cell, o.value);
+) -> BTreeMap<Cell, MeanCell> {
+    let is_within =
+        |v: Option<&crate::check::plan::CatVar>| v.is_some_and(|c| ctx.book.is_within(c.var));
+    let panel_within = is_within(ctx.plan.panels.as_ref());
+    let colour_within = is_within(ctx.plan.colour.as_ref());
+    let mut sets: BTreeMap<(Option<usize>, Option<usize>), Vec<Cell>> = BTreeMap::new();
+    for panel in 0..ctx.panels.len() {
+        for x in 0..levels.len() {
+            for group in 0..ctx.groups.len() {
+                let set = (
+                    (!panel_within).then_some(panel),
+                    (!colour_within).then_some(group),
+                );
+                sets.entry(set).or_default().push(Cell { panel, x, group });
             }
         }
-        let matrix: Vec<Vec<Option<f64>>> = by_subject
-            .values()
-            .map(|m| cells.iter().map(|c| m.get(c).copied()).collect())
-            .collect();
-        let Ok(result) = stats::within_subject_intervals(&matrix, stats::Spread::Ci { level })
-        else {
+    }
+    sets.values()
+        .flat_map(|cells| within_set(placed, cells, level))
+        .collect()
+}
+
+/// One normalisation: subjects × `cells`, complete subjects only.
+fn within_set(placed: &Placed, cells: &[Cell], level: f64) -> Vec<(Cell, MeanCell)> {
+    let mut by_subject: BTreeMap<u32, Vec<Option<f64>>> = BTreeMap::new();
+    let mut present = vec![0usize; cells.len()];
+    for o in &placed.obs {
+        let Some(i) = cells.iter().position(|c| *c == o.cell) else {
             continue;
         };
-        for (c, interval) in cells.iter().zip(result.cells) {
-            out.insert(*c, (interval.low, interval.high));
+        present[i] += 1;
+        if let Some(s) = o.subject {
+            by_subject
+                .entry(s)
+                .or_insert_with(|| vec![None; cells.len()])[i] = Some(o.value);
         }
     }
-    Ok(out)
+    let complete: Vec<Vec<Option<f64>>> = by_subject
+        .into_values()
+        .filter(|row| row.iter().all(Option::is_some))
+        .collect();
+    let intervals = stats::within_subject_intervals(&complete, stats::Spread::Ci { level }).ok();
+    cells
+        .iter()
+        .enumerate()
+        .map(|(i, cell)| {
+            let column: Vec<f64> = complete.iter().filter_map(|row| row[i]).collect();
+            let (error_rows, interval) = intervals
+                .as_ref()
+                .map(|w| interval_rows(w.cells[i].low, w.cells[i].high))
+                .unzip();
+            let cell_missing = placed.missing_by_cell.get(cell).copied().unwrap_or(0);
+            let m = MeanCell {
+                n: complete.len(),
+                n_missing: cell_missing + present[i].saturating_sub(complete.len()),
+                mean: stats::mean(&column).ok(),
+                error_rows: error_rows.unwrap_or_default(),
+                interval,
+            };
+            (*cell, m)
+        })
+        .collect()
 }
 
 fn medians(

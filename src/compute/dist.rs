@@ -67,18 +67,19 @@ pub fn distribution(
                         Heights::Density => "Density",
                     };
                     let mut bins = Vec::new();
-                    let shared = shared_bins(&placed.obs, *rule);
+                    let shared = shared_edges(&placed.obs, *rule);
                     for g in 0..ctx.groups.len() {
                         let v = values_of(&placed.obs, p, g);
                         let k = key(ctx, p, "histogram", g, String::new());
                         summary.push(k.count("n", v.len()));
                         summary.push(k.count("n_missing", missing(&placed, p, g)));
-                        let Ok(h) = stats::histogram(&v, shared) else {
+                        let Some(edges) = group_edges(&shared, &v) else {
                             continue;
                         };
-                        let n_bins = h.counts.len();
-                        for (i, &count) in h.counts.iter().enumerate() {
-                            let (lo, hi) = (h.edges[i], h.edges[i + 1]);
+                        let counts = stats::count_in_bins(&v, edges);
+                        let n_bins = counts.len();
+                        for (i, &count) in counts.iter().enumerate() {
+                            let (lo, hi) = (edges[i], edges[i + 1]);
                             let k = key(ctx, p, "histogram", g, bin_label(lo, hi, i + 1 == n_bins));
                             summary.push(k.count("count", count as usize));
                             let height = match heights {
@@ -165,16 +166,29 @@ pub fn distribution(
     })
 }
 
-/// One bin width for every panel and colour group, so their bars can be compared: the rule
-/// is applied to all values together, and each group is binned with that width (edges are
-/// whole multiples of it, so they line up).
-fn shared_bins(obs: &[Obs], rule: BinRule) -> stats::BinRule {
-    let mut all: Vec<f64> = obs.iter().map(|o| o.value).collect();
-    all.sort_by(f64::total_cmp);
-    match stats::histogram(&all, bin_rule(rule)) {
-        Ok(h) => stats::BinRule::Width(h.width),
-        Err(_) => bin_rule(rule),
+/// One grid of bin edges for every panel and colour group, so their bars can be compared: the
+/// rule is applied to all values together (edges are whole multiples of one width, each the
+/// double nearest to the exact multiple, so a value written on an edge falls in the bin that
+/// starts there). Empty when there are no values or the rule cannot bin them.
+fn shared_edges(obs: &[Obs], rule: BinRule) -> Vec<f64> {
+    let all: Vec<f64> = obs.iter().map(|o| o.value).collect();
+    stats::histogram(&all, bin_rule(rule)).map_or_else(|_| Vec::new(), |h| h.edges)
+}
+
+/// The edges of the shared grid one group needs: from the last edge at or below its smallest
+/// value to the first at or above its largest (at least one bin). `None` for no values or no
+/// grid.
+fn group_edges<'e>(shared: &'e [f64], sorted: &[f64]) -> Option<&'e [f64]> {
+    let (min, max) = (*sorted.first()?, *sorted.last()?);
+    if shared.len() < 2 {
+        return None;
     }
+    let first = shared.partition_point(|&e| e <= min).saturating_sub(1);
+    let last = shared
+        .partition_point(|&e| e < max)
+        .max(first + 1)
+        .min(shared.len() - 1);
+    Some(&shared[first..=last])
 }
 
 pub(super) fn missing(placed: &rows::Placed, panel: usize, group: usize) -> usize {

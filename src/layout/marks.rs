@@ -12,6 +12,16 @@ use super::PanelFrame;
 /// Every layer of a panel, in the order written.
 pub fn layers(frame: &PanelFrame, panel: &PanelData) -> Vec<Mark> {
     let mut out = Vec::new();
+    // Bars that points are drawn over are pale, so the points stay visible on them.
+    let bar_opacity = if panel
+        .layers
+        .iter()
+        .any(|l| matches!(l, LayerMarks::CatPoints(_)))
+    {
+        BAR_UNDER_POINTS_OPACITY
+    } else {
+        BAR_OPACITY
+    };
     for layer in &panel.layers {
         match layer {
             LayerMarks::Bars(bars) => {
@@ -27,7 +37,7 @@ pub fn layers(frame: &PanelFrame, panel: &PanelData) -> Vec<Mark> {
                         height: (y_zero - y_top).abs(),
                         fill: Some(Fill {
                             colour,
-                            opacity: 0.75,
+                            opacity: bar_opacity,
                         }),
                         stroke: None,
                     });

@@ -22,6 +22,9 @@ pub const GRID_WIDTH_MM: f64 = 0.2;
 pub const POINT_RADIUS_MM: f64 = 0.55;
 pub const POINT_OPACITY: f64 = 0.6;
 pub const LINE_OPACITY: f64 = 0.4;
+/// Bars (counts, means) alone, and under points.
+pub const BAR_OPACITY: f64 = 0.75;
+pub const BAR_UNDER_POINTS_OPACITY: f64 = 0.25;
 pub const LINE_WIDTH_MM: f64 = 0.25;
 pub const BOX_LINE_MM: f64 = 0.3;
 pub const MEDIAN_LINE_MM: f64 = 0.55;

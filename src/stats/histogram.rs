@@ -5,7 +5,9 @@
 //!   `3.49 · sd · n^(−1/3)`; Freedman–Diaconis `2 · IQR · n^(−1/3)`; a requested count `N` gives
 //!   `range / N`. Each is rounded to the *nearest* readable step (1, 2, 2.5 or 5 × 10^k, nearest
 //!   on a log scale, see [`super::steps`]), so `bins(N)` gives about `N` bins, not exactly `N`.
-//!   A fixed width `W` is used as given.
+//!   A fixed width `W` is used as given; its multiples are the doubles nearest to the exact
+//!   decimal multiples of the shortest decimal text of `W` (`3 × 0.1` gives `0.3`, not
+//!   `0.30000000000000004`), so a value written on an edge falls in the bin starting there.
 //! - Edges are `k · w` for whole `k` from the largest multiple at or below the minimum to the
 //!   smallest multiple at or above the maximum, each computed directly from `k` (no running sum,
 //!   no drift). Bins are half-open `[a, b)` except the last, which is closed, so every value falls
@@ -90,7 +92,7 @@ impl Grid {
     fn multiple(&self, k: i64) -> f64 {
         match self {
             Grid::Readable(step) => step.multiple(k),
-            Grid::Fixed(w) => k as f64 * w,
+            Grid::Fixed(w) => decimal_multiple(*w, k).unwrap_or(k as f64 * w),
         }
     }
 
@@ -100,6 +102,23 @@ impl Grid {
         let last = ceil_index_by(max, self.width(), |k| self.multiple(k))?;
         Some((first, last.max(first + 1)))
     }
+}
+
+/// Largest integer below which every integer is exact as a double (2^53).
+const EXACT_INTEGERS: i64 = 1 << 53;
+
+/// `k · w` as the double nearest to the exact product of `k` and `w`'s shortest decimal text
+/// (`w = m / 10^d`): one correctly rounded division of exact integers. `None` when `w` has
+/// more than 22 decimals or `k · m` is not exact as a double.
+fn decimal_multiple(w: f64, k: i64) -> Option<f64> {
+    let text = format!("{w}");
+    let decimals = text.split_once('.').map_or(0, |(_, frac)| frac.len());
+    let mantissa: i64 = text.replace('.', "").parse().ok()?;
+    let scaled = k.checked_mul(mantissa)?;
+    if decimals > 22 || scaled.abs() >= EXACT_INTEGERS {
+        return None;
+    }
+    Some(scaled as f64 / 10_f64.powi(decimals as i32))
 }
 
 /// Bins `values` by `rule`. An error for no values, a non-finite value, a zero bin count, a
@@ -186,11 +205,16 @@ fn raw_rule_width(sorted: &[f64], rule: BinRule, range: f64) -> Result<f64, Stat
     }
 }
 
-/// Counts sorted values into bins `[e_i, e_{i+1})`, the last closed.
-fn count_in_bins(sorted: &[f64], edges: &[f64]) -> Vec<u64> {
-    let n_bins = edges.len() - 1;
+/// Counts values into bins `[e_i, e_{i+1})`, the last closed; `edges` ascending (as a
+/// [`Histogram`]'s). Values outside the edges go to the nearest end bin; with fewer than two
+/// edges there are no bins and nothing is counted.
+pub fn count_in_bins(values: &[f64], edges: &[f64]) -> Vec<u64> {
+    let n_bins = edges.len().saturating_sub(1);
+    if n_bins == 0 {
+        return Vec::new();
+    }
     let mut counts = vec![0_u64; n_bins];
-    for &v in sorted {
+    for &v in values {
         // Number of edges at or below v, minus one, is the bin; v on the last edge goes last.
         let at_or_below = edges.partition_point(|&e| e <= v);
         let bin = at_or_below.saturating_sub(1).min(n_bins - 1);

@@ -44,7 +44,7 @@ pub use bootstrap::{
 pub use boxplot::{box_summary, BoxSummary, Whiskers};
 pub use density::{bandwidth, kde, kernel_density, BandwidthRule, DensityCurve, DensityGrid};
 pub use error::StatError;
-pub use histogram::{histogram, BinRule, Histogram};
+pub use histogram::{count_in_bins, histogram, BinRule, Histogram};
 pub use interval::{mean_ci, mean_interval, t_quantile, MeanInterval, Spread};
 pub use jitter::jitter_offset;
 pub use quantile::{

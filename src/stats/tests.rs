@@ -390,6 +390,14 @@ fn histogram_by_hand() {
     for (k, edge) in (3..).zip(&h.edges) {
         assert_eq!(*edge, format!("{k}e-1").parse::<f64>().unwrap());
     }
+    // So does a fixed decimal width, and a value written on an edge starts its bin: with width
+    // 0.1, 0.3 and 0.7 are edges (3 × 0.1 in floating point is 0.30000000000000004, which would
+    // put 0.3 in the bin below).
+    let h = histogram(&[0.1, 0.3, 0.3, 0.7, 1.0], BinRule::Width(0.1)).unwrap();
+    for (k, edge) in (1..).zip(&h.edges) {
+        assert_eq!(*edge, format!("{k}e-1").parse::<f64>().unwrap());
+    }
+    assert_eq!(h.counts, vec![1, 0, 2, 0, 0, 0, 1, 0, 1]);
 }
 
 #[test]

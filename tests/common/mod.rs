@@ -39,3 +39,73 @@ pub fn files_with_ext(dir: &Path, ext: &str) -> Vec<PathBuf> {
     out.sort();
     out
 }
+
+/// The folder of example specs.
+pub fn examples() -> PathBuf {
+    root().join("specs-examples")
+}
+
+/// Builds every example into `out` with the library (every figure made, whatever a manifest
+/// says), asserting a clean build (no errors, no warnings), and returns the report.
+pub fn build_examples(out: &Path) -> figura::build::BuildReport {
+    let options = figura::build::BuildOptions {
+        paths: vec![examples()],
+        out: Some(out.to_path_buf()),
+        force: true,
+        ..figura::build::BuildOptions::default()
+    };
+    let report =
+        figura::build::build(&options, &figura::build::NoProgress).expect("the examples build");
+    assert!(
+        report.diagnostics.is_empty() && report.failures.is_empty(),
+        "the examples gave diagnostics:\n{}{:?}",
+        figura::report::render_all(
+            &report.diagnostics,
+            &report.sources,
+            figura::report::MessageFormat::Human { colour: false }
+        ),
+        report.failures
+    );
+    assert!(
+        report
+            .figures
+            .iter()
+            .all(|f| f.state == figura::build::FigureState::Built),
+        "every example is made"
+    );
+    report
+}
+
+/// The checked program of every example, with the sources it was read from.
+pub fn example_program() -> (figura::check::Program, figura::diag::SourceMap) {
+    let specs = figura::build::load::find_specs(&[examples()]).expect("the examples are found");
+    let mut sources = figura::diag::SourceMap::new();
+    let loaded = figura::build::load::load(&specs, &mut sources).expect("the examples load");
+    assert!(loaded.diags.is_empty(), "the examples do not parse");
+    let (program, diags) = figura::check::check(&loaded.units);
+    assert!(diags.is_empty(), "the examples do not check cleanly");
+    (program, sources)
+}
+
+/// The checked figure plans of every example (for sizes, dpi and formats).
+pub fn example_plans() -> Vec<figura::check::FigurePlan> {
+    example_program().0.figures
+}
+
+/// The figure outputs in `dir` (every file whose name does not start with `.`, so not the
+/// build manifest), sorted, with their bytes.
+pub fn output_files(dir: &Path) -> Vec<(String, Vec<u8>)> {
+    let mut out: Vec<(String, Vec<u8>)> = std::fs::read_dir(dir)
+        .unwrap()
+        .filter_map(|e| e.ok().map(|e| e.path()))
+        .filter(|p| p.is_file())
+        .map(|p| p.file_name().unwrap().to_string_lossy().into_owned())
+        .filter(|name| !name.starts_with('.'))
+        .map(|name| {
+            let bytes = std::fs::read(dir.join(&name)).unwrap();
+            (name, bytes)
+        })
+        .collect();
+    out.sort();
+    out
+}
