@@ -15,7 +15,7 @@ use std::io::Write as _;
 use std::path::PathBuf;
 use std::process::{Command, Stdio};
 
-use figura::build::{self, BuildOptions, BuildReport, NoProgress};
+use figura::build::{self, BuildOptions, BuildReport};
 use figura::check::{self, SpecUnit};
 use figura::compute::{self, FigureData, LayerMarks};
 use figura::diag::SourceMap;
@@ -55,7 +55,7 @@ impl Project {
                 out: Some(self.out(folder)),
                 ..BuildOptions::default()
             },
-            &NoProgress,
+            &build::NoProgress,
         )
         .expect("the build runs")
     }

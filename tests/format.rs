@@ -8,7 +8,7 @@ mod common;
 use std::path::{Path, PathBuf};
 use std::process::Command;
 
-use figura::build::{self, load, BuildOptions, NoProgress};
+use figura::build::{self, load, BuildOptions};
 use figura::check;
 use figura::diag::{SourceId, SourceMap};
 use figura::format::{self, format_source, Mode};
@@ -168,7 +168,17 @@ fn the_checked_plan_is_the_same_after_formatting() {
         checked_plan(&b, &all(&b)),
         "the examples' plan changed"
     );
-    assert_eq!(before.matches("FigurePlan").count(), 24);
+    let written: usize = all(&a)
+        .iter()
+        .map(|p| {
+            std::fs::read_to_string(p)
+                .unwrap()
+                .lines()
+                .filter(|l| l.starts_with("figure "))
+                .count()
+        })
+        .sum();
+    assert_eq!(before.matches("FigurePlan").count(), written);
 
     let (_tmp, a, b) = original_and_formatted("tests/check/ok");
     for spec in all(&a) {
@@ -197,7 +207,7 @@ fn the_examples_build_to_the_same_files_after_formatting() {
                 out: Some(out.clone()),
                 ..BuildOptions::default()
             },
-            &NoProgress,
+            &build::NoProgress,
         )
         .unwrap();
         assert!(!report.has_errors(), "{:?}", report.diagnostics);
@@ -207,8 +217,9 @@ fn the_examples_build_to_the_same_files_after_formatting() {
     let mut compared = 0;
     for file in std::fs::read_dir(&out_a).unwrap() {
         let name = file.unwrap().file_name();
-        // The build manifest records the specs' hashes, which formatting changes.
-        if name.to_string_lossy().starts_with('.') {
+        // The PDF writer orders its resource dictionaries differently in every run, so its
+        // bytes are not comparable; the PDF is drawn from the same drawing as the SVG.
+        if name.to_string_lossy().ends_with(".pdf") {
             continue;
         }
         let left = std::fs::read(out_a.join(&name)).unwrap();

@@ -57,9 +57,10 @@ pub enum ReviewError {
     /// One side has errors in its specs or data; its diagnostics are in the report.
     Build {
         side: String,
-        /// Boxed: a report is large, and errors travel by value.
         report: Box<BuildReport>,
     },
+    /// A side's `figura.toml` could not be read.
+    Project(String),
     /// The build failed outright (I/O, limits).
     BuildFailed(BuildError),
     /// A summary file could not be read.
@@ -84,6 +85,7 @@ impl fmt::Display for ReviewError {
             ReviewError::Io { path, message } => write!(f, "{}: {message}", path.display()),
             ReviewError::Build { side, .. } => write!(f, "the {side} side does not build"),
             ReviewError::BuildFailed(e) => write!(f, "{e}"),
+            ReviewError::Project(m) => write!(f, "cannot read the project file: {m}"),
             ReviewError::Summary(m) => write!(f, "cannot read a summary: {m}"),
             ReviewError::Picture(m) => write!(f, "cannot compare pictures: {m}"),
         }
@@ -249,9 +251,11 @@ fn build_side(side: &Side, which: &str, out: &Path) -> Result<Built, ReviewError
     std::fs::create_dir_all(&side.root).map_err(|e| ReviewError::io(&side.root, e))?;
     std::fs::create_dir_all(out).map_err(|e| ReviewError::io(out, e))?;
     // A side with its own figura.toml builds its project's specs with its defaults.
-    let project = match crate::project::discover(&side.root) {
-        Ok(Some(p)) if p.root == side.root => Some(p),
-        _ => None,
+    let has_project = side.root.join(crate::project::FILE_NAME).is_file();
+    let project = if has_project {
+        Some(crate::project::open(&side.root).map_err(|e| ReviewError::Project(e.to_string()))?)
+    } else {
+        None
     };
     let options = BuildOptions {
         paths: project
