@@ -278,11 +278,13 @@ fn garbage_specs_give_syntax_errors() {
 
 #[test]
 fn a_spec_that_is_not_utf8_is_refused_with_its_name() {
-    // The spec cannot be read as text at all: a failure to read input (exit 2), naming the
-    // file, not a crash.
+    // The spec cannot be read as text: a diagnostic of that file (F0222, exit 1) that names
+    // it and the offset of the first bad byte, not a crash.
     let (outcome, _dir) = build_spec(b"figure f {\n  title \"\xff\xfe\"\n}\n");
-    assert!(outcome.code == 1 || outcome.code == 2, "{}", outcome.stderr);
+    assert_eq!(outcome.code, 1, "{}", outcome.stderr);
+    assert!(outcome.stderr.contains("F0222"), "{}", outcome.stderr);
     assert!(outcome.stderr.contains("spec.figura"), "{}", outcome.stderr);
+    assert!(outcome.stderr.contains("offset 20"), "{}", outcome.stderr);
 }
 
 #[test]

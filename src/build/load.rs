@@ -131,7 +131,13 @@ impl Loader {
         key: PathBuf,
         sources: &mut SourceMap,
     ) -> Result<Option<usize>, BuildError> {
-        let text = read_spec(path)?;
+        let text = match read_spec(path)? {
+            SpecText::Text(t) => t,
+            SpecText::NotUtf8 { offset } => {
+                self.diags.push(not_utf8(path, offset));
+                return Ok(None);
+            }
+        };
         let id = sources.add(path, text);
         let ast = match syntax::parse(id, sources.text(id)) {
             Ok(ast) => ast,
@@ -188,7 +194,26 @@ impl Loader {
     }
 }
 
-fn read_spec(path: &Path) -> Result<String, BuildError> {
+/// A spec file's content: text, or the offset of its first byte that is not UTF-8.
+enum SpecText {
+    Text(String),
+    NotUtf8 { offset: usize },
+}
+
+/// A spec that is not UTF-8 is a diagnostic of that file (exit 1), not a failure of the run.
+fn not_utf8(path: &Path, offset: usize) -> Diagnostic {
+    Diagnostic::error(
+        codes::SPEC_NOT_UTF8,
+        format!(
+            "{} is not UTF-8 text (first bad byte at offset {offset})",
+            path.display()
+        ),
+    )
+    .with_file(path)
+    .with_help("save the spec as UTF-8 (most editors offer it under \"Save with encoding\")")
+}
+
+fn read_spec(path: &Path) -> Result<SpecText, BuildError> {
     let meta = fs::metadata(path).map_err(|e| BuildError::io(path, e))?;
     if meta.len() > MAX_SPEC_BYTES {
         return Err(BuildError::Limit(format!(
@@ -199,11 +224,10 @@ fn read_spec(path: &Path) -> Result<String, BuildError> {
         )));
     }
     let bytes = fs::read(path).map_err(|e| BuildError::io(path, e))?;
-    String::from_utf8(bytes).map_err(|e| {
-        BuildError::Limit(format!(
-            "{} is not UTF-8 text (first bad byte at offset {})",
-            path.display(),
-            e.utf8_error().valid_up_to()
-        ))
+    Ok(match String::from_utf8(bytes) {
+        Ok(text) => SpecText::Text(text),
+        Err(e) => SpecText::NotUtf8 {
+            offset: e.utf8_error().valid_up_to(),
+        },
     })
 }

@@ -74,6 +74,8 @@ pub const BAD_FILTER: &str = "F0214";
 pub const INCLUDE_MISSING: &str = "F0220";
 /// Files that include each other in a cycle.
 pub const INCLUDE_CYCLE: &str = "F0221";
+/// A spec file that is not UTF-8 text.
+pub const SPEC_NOT_UTF8: &str = "F0222";
 
 /// `mean` with no layer that shows spread or the individual values.
 pub const MEAN_ALONE: &str = "W0001";
