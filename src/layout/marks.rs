@@ -331,28 +331,41 @@ fn draw_outliers(out: &mut Vec<Mark>, frame: &PanelFrame, b: &BoxMark) {
 fn draw_estimate(out: &mut Vec<Mark>, frame: &PanelFrame, e: &Estimate, kind: EstimateKind) {
     let (cx, gw) = frame.group_slot(e.x, e.group);
     let colour = summary_colour(e.group, frame.n_groups);
+    // A summary mark sits on top of the values it summarises: a white halo under the interval
+    // and, with colour groups, an ink outline keep it readable over points of its own colour.
+    let outline = if frame.n_groups > 1 {
+        INK
+    } else {
+        Colour::WHITE
+    };
     if let Some((lo, hi)) = e.interval {
         let cap = CAP_MM.min(gw * 0.4) / 2.0;
-        let stroke = Stroke::solid(colour, ERROR_LINE_MM);
         let (ylo, yhi) = (frame.y(lo), frame.y(hi));
-        out.push(Mark::Line {
-            points: vec![Point::new(cx, ylo), Point::new(cx, yhi)],
-            stroke: stroke.clone(),
-        });
-        for y in [ylo, yhi] {
-            out.push(Mark::Line {
-                points: vec![Point::new(cx - cap, y), Point::new(cx + cap, y)],
-                stroke: stroke.clone(),
-            });
+        let segments = [
+            [Point::new(cx, ylo), Point::new(cx, yhi)],
+            [Point::new(cx - cap, ylo), Point::new(cx + cap, ylo)],
+            [Point::new(cx - cap, yhi), Point::new(cx + cap, yhi)],
+        ];
+        for stroke in [
+            Stroke::solid(Colour::WHITE, ERROR_LINE_MM + HALO_MM),
+            Stroke::solid(colour, ERROR_LINE_MM),
+        ] {
+            for segment in &segments {
+                out.push(Mark::Line {
+                    points: segment.to_vec(),
+                    stroke: stroke.clone(),
+                });
+            }
         }
     }
     let centre = Point::new(cx, frame.y(e.centre));
+    let stroke = Some(Stroke::solid(outline, 0.3));
     match kind {
         EstimateKind::Mean => out.push(Mark::Circle {
             centre,
             radius: ESTIMATE_RADIUS_MM,
             fill: Some(Fill::solid(colour)),
-            stroke: Some(Stroke::solid(Colour::WHITE, 0.3)),
+            stroke,
         }),
         EstimateKind::Median => {
             let half = ESTIMATE_RADIUS_MM * 1.1;
@@ -364,7 +377,7 @@ fn draw_estimate(out: &mut Vec<Mark>, frame: &PanelFrame, e: &Estimate, kind: Es
                     Point::new(cx - half, centre.y),
                 ],
                 fill: Some(Fill::solid(colour)),
-                stroke: Some(Stroke::solid(Colour::WHITE, 0.3)),
+                stroke,
             });
         }
     }

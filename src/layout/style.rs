@@ -31,6 +31,8 @@ pub const MEDIAN_LINE_MM: f64 = 0.55;
 pub const ESTIMATE_RADIUS_MM: f64 = 0.8;
 pub const ERROR_LINE_MM: f64 = 0.35;
 pub const CAP_MM: f64 = 2.2;
+/// Extra width of the white line drawn under an interval so it stands out from the points.
+pub const HALO_MM: f64 = 0.5;
 /// Share of a category's band that its groups use (the rest separates categories).
 pub const BAND_FILL: f64 = 0.8;
 /// Padding added beyond the data at each end of a numeric axis, as a share of its span.
