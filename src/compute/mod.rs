@@ -275,32 +275,8 @@ impl<'a> Context<'a> {
         table: &'a Table,
     ) -> Result<Self, ComputeError> {
         let keep = rows::filter_rows(table, book, plan.filter.as_ref())?;
-        let (panels, panel_codes) = match &plan.panels {
-            Some(v) => (
-                rows::shown_levels(
-                    table,
-                    book,
-                    v,
-                    crate::check::plan::LevelOrder::Levels,
-                    &keep,
-                )?,
-                Some(rows::codes(table, book, v.var)?.0),
-            ),
-            None => (Levels::single(), None),
-        };
-        let (groups, group_codes) = match &plan.colour {
-            Some(v) => (
-                rows::shown_levels(
-                    table,
-                    book,
-                    v,
-                    crate::check::plan::LevelOrder::Levels,
-                    &keep,
-                )?,
-                Some(rows::codes(table, book, v.var)?.0),
-            ),
-            None => (Levels::single(), None),
-        };
+        let (panels, panel_codes) = grouping(table, book, plan.panels.as_ref(), &keep)?;
+        let (groups, group_codes) = grouping(table, book, plan.colour.as_ref(), &keep)?;
         if let Some(c) = &plan.colour {
             check_colours(&groups, &book.var(c.var).name, c.span)?;
         }
@@ -419,4 +395,24 @@ pub(crate) fn check_colours(
     .with_label(span, "one colour per level")
     .with_help("show this variable in `panels` instead, or keep fewer levels with `where`")
     .into())
+}
+
+/// The shown levels of a `panels` or `colour` variable, with its codes per row.
+type Grouping<'t> = (Levels, Option<&'t [Option<u32>]>);
+
+/// The shown levels and the codes of a `panels` or `colour` variable; one unnamed level when
+/// the figure has none.
+fn grouping<'t>(
+    table: &'t Table,
+    book: &Codebook,
+    var: Option<&crate::check::plan::CatVar>,
+    keep: &[bool],
+) -> Result<Grouping<'t>, ComputeError> {
+    match var {
+        Some(v) => Ok((
+            rows::shown_levels(table, book, v, crate::check::plan::LevelOrder::Levels, keep)?,
+            Some(rows::codes(table, book, v.var)?.0),
+        )),
+        None => Ok((Levels::single(), None)),
+    }
 }
