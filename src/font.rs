@@ -1,7 +1,7 @@
 //! The bundled font, text measurement and the font database the renderer uses.
 //!
 //! Figura draws every piece of text with Noto Sans (Regular and Bold, SIL Open Font License,
-//! `assets/fonts/OFL.txt`), compiled into the binary. Nothing is read from the system, so text
+//! `src/fonts/OFL.txt`), compiled into the binary. Nothing is read from the system, so text
 //! looks the same on every machine.
 //!
 //! Guarantees:
@@ -23,8 +23,8 @@ use crate::scene::{pt_to_mm, TextBaseline, TextStyle, Weight};
 /// Family name of the bundled font, as written in SVG `font-family`.
 pub const FAMILY: &str = "Noto Sans";
 
-static REGULAR_TTF: &[u8] = include_bytes!("../assets/fonts/NotoSans-Regular.ttf");
-static BOLD_TTF: &[u8] = include_bytes!("../assets/fonts/NotoSans-Bold.ttf");
+static REGULAR_TTF: &[u8] = include_bytes!("fonts/NotoSans-Regular.ttf");
+static BOLD_TTF: &[u8] = include_bytes!("fonts/NotoSans-Bold.ttf");
 
 /// Size of a piece of text, in millimetres, in its own reading direction.
 #[derive(Debug, Clone, Copy, PartialEq)]
