@@ -394,14 +394,12 @@ pub(super) fn for_cells(ctx: &Context, panel: usize, levels: &Levels) -> Vec<(Ce
 }
 
 pub(super) fn n_rows(
-    ctx: &Context,
     placed: &Placed,
     cell: Cell,
     k: &RowKey,
     n: usize,
     summary: &mut Vec<super::SummaryRow>,
 ) {
-    let _ = ctx;
     summary.push(k.count("n", n));
     summary.push(k.count(
         "n_missing",
@@ -420,7 +418,6 @@ fn points(
     for (cell, name) in for_cells(ctx, p, levels) {
         let n = placed.obs.iter().filter(|o| o.cell == cell).count();
         n_rows(
-            ctx,
             placed,
             cell,
             &key(ctx, p, "points", cell.group, &name),
@@ -454,7 +451,7 @@ fn boxes(
     for (cell, name) in for_cells(ctx, p, levels) {
         let values = cell_values(&placed.obs, cell);
         let k = key(ctx, p, "box", cell.group, &name);
-        n_rows(ctx, placed, cell, &k, values.len(), summary);
+        n_rows(placed, cell, &k, values.len(), summary);
         let Ok(b) = stats::box_summary(&values, whiskers_rule(whiskers)) else {
             continue;
         };
@@ -702,7 +699,7 @@ fn medians(
     for (cell, name) in for_cells(ctx, p, levels) {
         let values = cell_values(&placed.obs, cell);
         let k = key(ctx, p, "median", cell.group, &name);
-        n_rows(ctx, placed, cell, &k, values.len(), summary);
+        n_rows(placed, cell, &k, values.len(), summary);
         let Ok(median) = stats::quantile_sorted(&values, 0.5) else {
             continue;
         };
@@ -806,7 +803,7 @@ pub fn cat_ord(
                 }
                 let k = key(ctx, p, "median", cell.group, &name);
                 let n: u64 = counts.iter().sum();
-                n_rows(ctx, &placed, cell, &k, n as usize, &mut summary);
+                n_rows(&placed, cell, &k, n as usize, &mut summary);
                 let Ok(q) = stats::ordinal_quartiles(&counts) else {
                     continue;
                 };

@@ -37,7 +37,7 @@ pub fn violins(
     for (cell, name) in for_cells(ctx, panel, levels) {
         let values = cell_values(&placed.obs, cell);
         let k = key(ctx, panel, "violin", cell.group, &name);
-        n_rows(ctx, placed, cell, &k, values.len(), summary);
+        n_rows(placed, cell, &k, values.len(), summary);
         let Ok(h) = stats::bandwidth(&values, bandwidth_rule(bandwidth)) else {
             continue;
         };
