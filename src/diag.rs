@@ -10,6 +10,10 @@
 
 use std::path::{Path, PathBuf};
 
+pub mod codes;
+
+pub use codes::Code;
+
 /// Index of a source text in a [`SourceMap`].
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, PartialOrd, Ord)]
 pub struct SourceId(pub u32);
@@ -127,7 +131,7 @@ pub struct Label {
 pub struct Diagnostic {
     pub severity: Severity,
     /// Stable code, e.g. `F0002`; documented in the language reference.
-    pub code: &'static str,
+    pub code: Code,
     /// One line, plain words, no trailing full stop.
     pub message: String,
     /// The first label is the primary location.
@@ -139,21 +143,15 @@ pub struct Diagnostic {
 }
 
 impl Diagnostic {
-    pub fn error(code: &'static str, message: impl Into<String>) -> Self {
+    /// A diagnostic with `code`'s severity (from the table in [`codes`]).
+    pub fn new(code: Code, message: impl Into<String>) -> Self {
         Diagnostic {
-            severity: Severity::Error,
+            severity: code.severity(),
             code,
             message: message.into(),
             labels: Vec::new(),
             help: None,
             file: None,
-        }
-    }
-
-    pub fn warning(code: &'static str, message: impl Into<String>) -> Self {
-        Diagnostic {
-            severity: Severity::Warning,
-            ..Diagnostic::error(code, message)
         }
     }
 

@@ -32,7 +32,7 @@ pub fn render_all(diags: &[Diagnostic], sources: &SourceMap, format: MessageForm
 /// One diagnostic as miette draws it: code, message, the source lines with labels, and help.
 pub fn human(d: &Diagnostic, sources: &SourceMap, colour: bool) -> String {
     let mut md = MietteDiagnostic::new(d.message.clone())
-        .with_code(d.code)
+        .with_code(d.code.as_str())
         .with_severity(match d.severity {
             Severity::Error => miette::Severity::Error,
             Severity::Warning => miette::Severity::Warning,
@@ -144,7 +144,7 @@ pub fn json(d: &Diagnostic, sources: &SourceMap) -> String {
     let first = labels.first();
     let obj = JsonDiagnostic {
         severity: if d.is_error() { "error" } else { "warning" },
-        code: d.code,
+        code: d.code.as_str(),
         message: &d.message,
         file: first
             .map(|l| l.file.clone())

@@ -8,10 +8,10 @@
 use std::path::{Path, PathBuf};
 
 use figura::data::{
-    codes, parse_table, parse_table_with, read_table, read_table_with, Column, ColumnKind,
-    ColumnSpec, ReadLimits, Table, TableSpec, MAX_FILE_BYTES,
+    parse_table, parse_table_with, read_table, read_table_with, Column, ColumnKind, ColumnSpec,
+    ReadLimits, Table, TableSpec, MAX_FILE_BYTES,
 };
-use figura::diag::{Diagnostic, SourceMap, Span};
+use figura::diag::{Code, Diagnostic, SourceMap, Span};
 
 const SLEEP_FILE: &str = concat!(
     env!("CARGO_MANIFEST_DIR"),
@@ -235,7 +235,7 @@ fn a_byte_order_mark_is_skipped_and_spans_count_it() {
     let text = format!("\u{feff}{}", edit_row(&sleep_text(), 2, "1,a,0.7"));
     let mut s = sleep_setup("sleep.csv", false);
     let error = s.only_error(&text);
-    assert_eq!(error.code, codes::NOT_A_LEVEL);
+    assert_eq!(error.code, Code::NotALevel);
     let span = error.span().expect("span");
     assert_eq!(span.start, "\u{feff}patient,drug,extra_hours\n1,".len());
     assert_eq!(s.place(span), ("a", (2, 3)));
@@ -268,7 +268,7 @@ fn tsv_files_are_tab_separated() {
     let mut as_csv = sleep_setup("sleep.csv", false);
     let errors = as_csv.errors(&tsv);
     assert_eq!(errors.len(), 3);
-    assert!(errors.iter().all(|e| e.code == codes::MISSING_COLUMN));
+    assert!(errors.iter().all(|e| e.code == Code::MissingColumn));
     assert!(Setup::help(&errors[0]).contains("one field that holds tabs"));
 }
 
@@ -304,7 +304,7 @@ fn windows_line_endings_and_blank_lines() {
     let text = "patient,drug,extra_hours\r\n1,A,0.7\r\n\r\n2,A,-1.6\r\n";
     let mut s = sleep_setup("sleep.csv", true);
     let error = s.only_error(text);
-    assert_eq!(error.code, codes::NEGATIVE_RATIO);
+    assert_eq!(error.code, Code::NegativeRatio);
     assert_eq!(
         error.message,
         "sleep.csv row 4, column \"extra_hours\": \"-1.6\" is negative, but extra_hours is a \
@@ -333,7 +333,7 @@ fn rows_of_empty_fields_are_skipped_and_blank_lines_count_as_rows() {
     // Only empty rows below the header: as good as none.
     assert_eq!(
         s.only_error("patient,drug,extra_hours\n,,\n").code,
-        codes::HEADER_ONLY
+        Code::HeaderOnly
     );
 }
 
@@ -406,7 +406,7 @@ fn d0001_a_missing_file_names_a_close_file() {
     let errors = read_table(&s.spec, &mut s.sources).expect_err("no such file");
     assert_eq!(errors.len(), 1);
     let error = &errors[0];
-    assert_eq!(error.code, codes::UNREADABLE);
+    assert_eq!(error.code, Code::Unreadable);
     let shown = folder.path().join("slep.csv").display().to_string();
     assert_eq!(error.message, format!("data file {shown:?} does not exist"));
     assert_eq!(
@@ -428,7 +428,7 @@ fn d0001_a_folder_is_not_a_data_file() {
     let folder = tempfile::tempdir().expect("temp dir");
     let mut s = sleep_setup(folder.path(), false);
     let errors = read_table(&s.spec, &mut s.sources).expect_err("a folder");
-    assert_eq!(errors[0].code, codes::UNREADABLE);
+    assert_eq!(errors[0].code, Code::Unreadable);
     assert!(errors[0].message.ends_with("is a folder, not a file"));
 }
 
@@ -445,7 +445,7 @@ fn d0002_files_over_the_limit_are_refused_before_reading() {
     let id = s.sources.add("test.figura", spec_text);
     s.spec.path_span = span_in(&s.sources, id, "\"huge.csv\"");
     let errors = read_table(&s.spec, &mut s.sources).expect_err("too large");
-    assert_eq!(errors[0].code, codes::TOO_LARGE);
+    assert_eq!(errors[0].code, Code::TooLarge);
     assert_eq!(
         errors[0].message,
         "data file huge.csv is larger than the limit of 1073741824 bytes (1073741825 bytes)"
@@ -458,9 +458,9 @@ fn d0002_files_over_the_limit_are_refused_before_reading() {
     };
     let mut s = sleep_setup(SLEEP_FILE, false);
     let in_memory = parse_table_with(&s.spec, sleep_text().as_bytes(), &mut s.sources, &limits);
-    assert_eq!(in_memory.unwrap_err()[0].code, codes::TOO_LARGE);
+    assert_eq!(in_memory.unwrap_err()[0].code, Code::TooLarge);
     let on_disk = read_table_with(&s.spec, &mut s.sources, &limits);
-    assert_eq!(on_disk.unwrap_err()[0].code, codes::TOO_LARGE);
+    assert_eq!(on_disk.unwrap_err()[0].code, Code::TooLarge);
 }
 
 #[test]
@@ -471,7 +471,7 @@ fn d0003_text_that_is_not_utf8() {
     bytes.extend_from_slice(b"\xE9,-1.6\n");
     let mut s = sleep_setup("sleep.csv", false);
     let error = s.only_error(&bytes);
-    assert_eq!(error.code, codes::NOT_UTF8);
+    assert_eq!(error.code, Code::NotUtf8);
     assert_eq!(
         error.message,
         format!("data file sleep.csv is not UTF-8 text: byte 0xE9 at line 3, byte offset {offset}")
@@ -499,7 +499,7 @@ fn d0004_nul_bytes() {
     let utf16: Vec<u8> = "patient\n".bytes().flat_map(|b| [b, 0]).collect();
     let mut s = sleep_setup("sleep.csv", false);
     let error = s.only_error(utf16);
-    assert_eq!(error.code, codes::NUL_BYTE);
+    assert_eq!(error.code, Code::NulByte);
     assert_eq!(
         error.message,
         "data file sleep.csv holds a NUL byte at line 1, byte offset 1"
@@ -511,7 +511,7 @@ fn d0005_an_empty_file_has_no_header() {
     let mut s = sleep_setup("sleep.csv", false);
     for text in ["", "\n\r\n\n"] {
         let error = s.only_error(text);
-        assert_eq!(error.code, codes::EMPTY_FILE);
+        assert_eq!(error.code, Code::EmptyFile);
         assert_eq!(
             error.message,
             "data file sleep.csv is empty: it has no header row"
@@ -523,14 +523,14 @@ fn d0005_an_empty_file_has_no_header() {
         );
     }
     // A byte-order mark alone is still empty.
-    assert_eq!(s.only_error("\u{feff}").code, codes::EMPTY_FILE);
+    assert_eq!(s.only_error("\u{feff}").code, Code::EmptyFile);
 }
 
 #[test]
 fn d0006_a_header_without_rows() {
     let mut s = sleep_setup("sleep.csv", false);
     let error = s.only_error("patient,drug,extra_hours\n\n");
-    assert_eq!(error.code, codes::HEADER_ONLY);
+    assert_eq!(error.code, Code::HeaderOnly);
     assert_eq!(error.message, "sleep.csv has a header row but no data rows");
     assert_eq!(
         s.place(error.span().unwrap()),
@@ -544,7 +544,7 @@ fn d0007_a_quote_that_never_closes() {
     let text = edit_row(&sleep_text(), 3, "2,\"A,-1.6");
     let mut s = sleep_setup("sleep.csv", false);
     let error = s.only_error(&text);
-    assert_eq!(error.code, codes::MALFORMED);
+    assert_eq!(error.code, Code::Malformed);
     assert_eq!(
         error.message,
         "sleep.csv row 3: a quoted field is never closed"
@@ -570,7 +570,7 @@ fn d0008_a_declared_column_the_header_lacks() {
     let errors = s.errors(&text);
     assert_eq!(errors.len(), 2, "{errors:#?}");
     let (drug, hours) = (&errors[0], &errors[1]);
-    assert_eq!(drug.code, codes::MISSING_COLUMN);
+    assert_eq!(drug.code, Code::MissingColumn);
     assert_eq!(drug.message, "sleep.csv has no column \"drug\"");
     assert_eq!(s.place(drug.span().unwrap()).0, "drug:");
     assert_eq!(
@@ -635,7 +635,7 @@ fn d0009_a_declared_header_twice() {
         ],
     );
     let error = s.only_error(&text);
-    assert_eq!(error.code, codes::DUPLICATE_HEADER);
+    assert_eq!(error.code, Code::DuplicateHeader);
     assert_eq!(error.message, "sleep.csv has 2 columns named \"drug\"");
     assert_eq!(s.place(error.labels[0].span), ("drug", (1, 9)));
     assert_eq!(s.place(error.labels[1].span), ("drug", (1, 14)));
@@ -662,7 +662,7 @@ fn d0010_rows_of_the_wrong_width() {
     let mut s = sleep_setup("sleep.csv", false);
     let errors = s.errors(&text);
     assert_eq!(errors.len(), 3, "{errors:#?}");
-    assert!(errors.iter().all(|e| e.code == codes::RAGGED_ROW));
+    assert!(errors.iter().all(|e| e.code == Code::RaggedRow));
     assert_eq!(
         errors[0].message,
         "sleep.csv row 3: 2 fields, but the header has 3 fields"
@@ -700,7 +700,7 @@ fn d0011_a_value_outside_the_declared_levels() {
     let mut s = sleep_setup("sleep.csv", false);
     let errors = s.errors(&text);
     assert_eq!(errors.len(), 3, "{errors:#?}");
-    assert!(errors.iter().all(|e| e.code == codes::NOT_A_LEVEL));
+    assert!(errors.iter().all(|e| e.code == Code::NotALevel));
     assert_eq!(
         errors[0].message,
         "sleep.csv row 2, column \"drug\": \"a\" is not a declared level"
@@ -798,7 +798,7 @@ fn d0012_non_numeric_values() {
     for (cell, shown, help) in cases {
         let text = edit_row(&sleep_text(), 2, &format!("1,A,{cell}"));
         let error = s.only_error(&text);
-        assert_eq!(error.code, codes::NOT_A_NUMBER, "{cell}");
+        assert_eq!(error.code, Code::NotANumber, "{cell}");
         let value = cell.trim_matches('"');
         assert_eq!(
             error.message,
@@ -824,7 +824,7 @@ fn d0013_non_finite_numbers() {
     ] {
         let text = edit_row(&sleep_text(), 4, &format!("3,A,{cell}"));
         let error = s.only_error(&text);
-        assert_eq!(error.code, codes::NOT_FINITE, "{cell}");
+        assert_eq!(error.code, Code::NotFinite, "{cell}");
         assert_eq!(
             error.message,
             format!("sleep.csv row 4, column \"extra_hours\": {message}")
@@ -842,7 +842,7 @@ fn d0014_negative_values_in_a_ratio_column() {
     let found: Vec<(usize, &str)> = errors
         .iter()
         .map(|e| {
-            assert_eq!(e.code, codes::NEGATIVE_RATIO);
+            assert_eq!(e.code, Code::NegativeRatio);
             let (text, (line, _)) = s.place(e.span().unwrap());
             (line, text)
         })
@@ -873,7 +873,7 @@ fn d0015_a_missing_id() {
     let mut s = sleep_setup("sleep.csv", false);
     let errors = s.errors(&text);
     assert_eq!(errors.len(), 2);
-    assert_eq!(errors[0].code, codes::MISSING_ID);
+    assert_eq!(errors[0].code, Code::MissingId);
     assert_eq!(
         errors[0].message,
         "sleep.csv row 6, column \"patient\": the id is missing (\"\" is a missing token)"
@@ -900,13 +900,13 @@ fn d0016_errors_past_the_cap_are_summed_up() {
     let errors = s.errors(&text);
     assert_eq!(errors.len(), 21);
     // Reading order: row by row, left to right.
-    assert_eq!(errors[0].code, codes::NOT_A_LEVEL);
-    assert_eq!(errors[1].code, codes::NOT_A_NUMBER);
+    assert_eq!(errors[0].code, Code::NotALevel);
+    assert_eq!(errors[1].code, Code::NotANumber);
     assert!(errors[19]
         .message
         .starts_with("sleep.csv row 11, column \"extra_hours\""));
     let summary = &errors[20];
-    assert_eq!(summary.code, codes::MORE_ERRORS);
+    assert_eq!(summary.code, Code::MoreErrors);
     assert_eq!(
         summary.message,
         "sleep.csv: 20 more data errors not shown (D0011: 10, D0012: 10)"
@@ -963,15 +963,15 @@ fn all_kinds_of_errors_are_reported_in_one_pass() {
         ],
     );
     let errors = s.errors(&text);
-    let found: Vec<&str> = errors.iter().map(|e| e.code).collect();
+    let found: Vec<Code> = errors.iter().map(|e| e.code).collect();
     assert_eq!(
         found,
         [
-            codes::DUPLICATE_HEADER,
-            codes::MISSING_COLUMN,
-            codes::NOT_A_LEVEL,
-            codes::RAGGED_ROW,
-            codes::MISSING_ID,
+            Code::DuplicateHeader,
+            Code::MissingColumn,
+            Code::NotALevel,
+            Code::RaggedRow,
+            Code::MissingId,
         ]
     );
 }
@@ -1085,7 +1085,7 @@ fn check_outcome(s: &Setup, outcome: &Result<Table, Vec<Diagnostic>>, input: &[u
                 "{input:?}"
             );
             for error in errors {
-                assert!(error.code.starts_with('D') && error.is_error());
+                assert!(error.code.as_str().starts_with('D') && error.is_error());
                 assert!(!error.message.is_empty() && error.help.is_some());
                 for label in &error.labels {
                     let text = s.sources.text(label.span.source);

@@ -213,7 +213,7 @@ fn reference(mode: &str, request: Value) -> Value {
 fn only_error(report: &BuildReport) -> (&'static str, String) {
     let errors: Vec<_> = report.diagnostics.iter().filter(|d| d.is_error()).collect();
     assert_eq!(errors.len(), 1, "{errors:#?}");
-    (errors[0].code, errors[0].message.clone())
+    (errors[0].code.as_str(), errors[0].message.clone())
 }
 
 fn bits(values: &[f64]) -> Vec<u64> {
@@ -612,7 +612,7 @@ figure coloured { from many; x score; y score; colour state; points }
     let messages: Vec<(&str, &str)> = report
         .diagnostics
         .iter()
-        .map(|d| (d.code, d.message.as_str()))
+        .map(|d| (d.code.as_str(), d.message.as_str()))
         .collect();
     let expected = "`state` has 9 levels to tell apart by colour, more than the palette's 8";
     assert_eq!(messages, [("F0119", expected), ("F0119", expected)]);
@@ -723,7 +723,7 @@ figure logged { from pairs; x x; y y scale(log); points }
         &[("pairs.csv", "x,y\n1,2\n2,0\n3,5\n")],
     );
     let report = project.build_into("out");
-    let codes: Vec<&str> = report.diagnostics.iter().map(|d| d.code).collect();
+    let codes: Vec<&str> = report.diagnostics.iter().map(|d| d.code.as_str()).collect();
     assert_eq!(codes, ["F0114"]);
     assert!(
         report.diagnostics[0].message.contains("data row 3"),

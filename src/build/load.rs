@@ -4,11 +4,12 @@
 //! resolved relative to the including file; missing includes and include cycles are
 //! diagnostics with the span of the `include` statement.
 
+use crate::diag::Code;
 use std::collections::BTreeMap;
 use std::fs;
 use std::path::{Path, PathBuf};
 
-use crate::check::{codes, SpecUnit};
+use crate::check::SpecUnit;
 use crate::diag::{Diagnostic, SourceId, SourceMap};
 use crate::syntax::{self, ast::Item};
 
@@ -168,8 +169,8 @@ impl Loader {
             let target = dir.join(&inc.path.value);
             if !target.is_file() {
                 self.diags.push(
-                    Diagnostic::error(
-                        codes::INCLUDE_MISSING,
+                    Diagnostic::new(
+                        Code::IncludeMissing,
                         format!("included file \"{}\" was not found", inc.path.value),
                     )
                     .with_label(inc.path.span, "no such file")
@@ -180,7 +181,7 @@ impl Loader {
             let canon = fs::canonicalize(&target).unwrap_or_else(|_| target.clone());
             if self.loading.contains(&canon) {
                 self.diags.push(
-                    Diagnostic::error(codes::INCLUDE_CYCLE, format!("\"{}\" includes itself, directly or through other files", inc.path.value))
+                    Diagnostic::new(Code::IncludeCycle, format!("\"{}\" includes itself, directly or through other files", inc.path.value))
                         .with_label(inc.span, "include cycle")
                         .with_help("remove one of the includes so that files include each other in one direction only"),
                 );
@@ -202,8 +203,8 @@ enum SpecText {
 
 /// A spec that is not UTF-8 is a diagnostic of that file (exit 1), not a failure of the run.
 fn not_utf8(path: &Path, offset: usize) -> Diagnostic {
-    Diagnostic::error(
-        codes::SPEC_NOT_UTF8,
+    Diagnostic::new(
+        Code::SpecNotUtf8,
         format!(
             "{} is not UTF-8 text (first bad byte at offset {offset})",
             path.display()

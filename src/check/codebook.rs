@@ -1,11 +1,11 @@
 //! Checking `data` blocks: variables with their scales, missing-value markers and the design.
 
+use crate::diag::Code;
 use std::path::Path;
 
 use crate::diag::{did_you_mean, Diagnostic, Span};
 use crate::syntax::ast::{Block, Ident, Plain, Statement, Term};
 
-use super::codes;
 use super::plan::{Codebook, Collapse, Replicates, Scale, VarId, Variable};
 use super::terms::{self, Accepts};
 
@@ -20,8 +20,8 @@ pub fn check_data_block(
 ) -> Option<Codebook> {
     let Some(path) = &block.path else {
         diags.push(
-            Diagnostic::error(
-                codes::MISSING_STATEMENT,
+            Diagnostic::new(
+                Code::MissingStatement,
                 format!("data block `{}` names no file", block.name.name),
             )
             .with_label(block.name.span, "which file?")
@@ -64,8 +64,8 @@ pub fn check_data_block(
             }
             Statement::Plain(p) => diags.push(unknown_statement(&p.head)),
             Statement::Where(w) => diags.push(
-                Diagnostic::error(
-                    codes::UNKNOWN_STATEMENT,
+                Diagnostic::new(
+                    Code::UnknownStatement,
                     "`where` belongs in a figure, not in a data block",
                 )
                 .with_label(w.span, "not allowed here")
@@ -85,8 +85,8 @@ fn missing_list(p: &Plain, diags: &mut Vec<Diagnostic>) -> Option<Vec<String>> {
         (Some(args), true) => terms::string_list(args, shape, diags),
         _ => {
             diags.push(
-                Diagnostic::error(
-                    codes::BAD_ARGUMENT,
+                Diagnostic::new(
+                    Code::BadArgument,
                     "`missing` takes its markers in parentheses",
                 )
                 .with_label(p.span, "here")
@@ -98,8 +98,8 @@ fn missing_list(p: &Plain, diags: &mut Vec<Diagnostic>) -> Option<Vec<String>> {
 }
 
 fn unknown_statement(head: &Ident) -> Diagnostic {
-    let d = Diagnostic::error(
-        codes::UNKNOWN_STATEMENT,
+    let d = Diagnostic::new(
+        Code::UnknownStatement,
         format!("`{}` is not a statement of a data block", head.name),
     )
     .with_label(head.span, "unknown statement");
@@ -112,7 +112,7 @@ fn unknown_statement(head: &Ident) -> Diagnostic {
 }
 
 fn repeated(head: &Ident, first: Span) -> Diagnostic {
-    Diagnostic::error(codes::REPEATED, format!("`{}` is given twice", head.name))
+    Diagnostic::new(Code::Repeated, format!("`{}` is given twice", head.name))
         .with_label(head.span, "given again here")
         .with_label(first, "first given here")
         .with_help("keep one of them")
@@ -126,8 +126,8 @@ fn declare(book: &mut Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) {
     };
     if let Some(prev) = book.find(&target.name) {
         diags.push(
-            Diagnostic::error(
-                codes::DUPLICATE_NAME,
+            Diagnostic::new(
+                Code::DuplicateName,
                 format!("variable `{}` is declared twice", target.name),
             )
             .with_label(target.span, "declared again here")
@@ -185,7 +185,7 @@ fn declare(book: &mut Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) {
     }
     if scale == Scale::Ordinal && opts.call("levels").is_none() {
         diags.push(
-            Diagnostic::error(codes::ORDINAL_WITHOUT_LEVELS, format!("ordinal variable `{}` needs its levels in order", target.name))
+            Diagnostic::new(Code::OrdinalWithoutLevels, format!("ordinal variable `{}` needs its levels in order", target.name))
                 .with_label(p.head.span, "ordered, but in what order?")
                 .with_help(format!("add `levels(...)` from lowest to highest, e.g. `{}: ordinal levels(\"low\", \"medium\", \"high\")`", target.name)),
         );
@@ -201,8 +201,8 @@ fn scale_of(head: &Ident, diags: &mut Vec<Diagnostic>) -> Option<Scale> {
         "interval" => Scale::Interval,
         "ratio" => Scale::Ratio,
         other => {
-            let d = Diagnostic::error(
-                codes::UNKNOWN_SCALE,
+            let d = Diagnostic::new(
+                Code::UnknownScale,
                 format!("`{other}` is not a level of measurement"),
             )
             .with_label(head.span, "unknown scale");
@@ -235,7 +235,7 @@ fn checked_levels(
     let list = terms::level_list(&c.args, "levels(\"a\", \"b\")", diags)?;
     if list.is_empty() {
         diags.push(
-            Diagnostic::error(codes::LEVELS_MISMATCH, "`levels()` is empty")
+            Diagnostic::new(Code::LevelsMismatch, "`levels()` is empty")
                 .with_label(c.span, "no levels")
                 .with_help("list every level, e.g. `levels(\"paper\", \"screen\")`"),
         );
@@ -244,8 +244,8 @@ fn checked_levels(
     for (i, (name, span)) in list.iter().enumerate() {
         if let Some((_, first)) = list[..i].iter().find(|(n, _)| n == name) {
             diags.push(
-                Diagnostic::error(
-                    codes::LEVELS_MISMATCH,
+                Diagnostic::new(
+                    Code::LevelsMismatch,
                     format!("level \"{name}\" is listed twice"),
                 )
                 .with_label(*span, "listed again here")
@@ -269,8 +269,8 @@ fn checked_labels(
         (Some(levels), _) if levels.len() == labels.len() => Some(labels),
         (Some(levels), Some(span)) => {
             diags.push(
-                Diagnostic::error(
-                    codes::LEVELS_MISMATCH,
+                Diagnostic::new(
+                    Code::LevelsMismatch,
                     format!("{} labels for {} levels", labels.len(), levels.len()),
                 )
                 .with_label(c.span, "labels")
@@ -281,8 +281,8 @@ fn checked_labels(
         }
         _ => {
             diags.push(
-                Diagnostic::error(
-                    codes::LEVELS_MISMATCH,
+                Diagnostic::new(
+                    Code::LevelsMismatch,
                     "`labels(...)` needs `levels(...)` to say which label is which",
                 )
                 .with_label(c.span, "labels without levels")
@@ -299,7 +299,7 @@ fn apply_design(book: &mut Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) {
         "subject" => {
             if let Some(first) = book.subject {
                 diags.push(
-                    Diagnostic::error(codes::REPEATED, "`subject` is given twice")
+                    Diagnostic::new(Code::Repeated, "`subject` is given twice")
                         .with_label(p.head.span, "given again here")
                         .with_label(book.var(first).span, "the subject declared first")
                         .with_help(
@@ -316,8 +316,8 @@ fn apply_design(book: &mut Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) {
             };
             if book.var(id).scale != Scale::Id {
                 diags.push(
-                    Diagnostic::error(
-                        codes::BAD_DESIGN,
+                    Diagnostic::new(
+                        Code::BadDesign,
                         format!("the subject `{}` must be an id variable", name.name),
                     )
                     .with_label(
@@ -343,8 +343,8 @@ fn apply_design(book: &mut Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) {
             }
             if p.terms.is_empty() {
                 diags.push(
-                    Diagnostic::error(
-                        codes::BAD_ARGUMENT,
+                    Diagnostic::new(
+                        Code::BadArgument,
                         format!("`{}` needs at least one factor", p.head.name),
                     )
                     .with_label(p.head.span, "no factor")
@@ -367,8 +367,8 @@ fn add_factor(
     let var = book.var(id);
     if !var.scale.is_categorical() {
         diags.push(
-            Diagnostic::error(
-                codes::BAD_DESIGN,
+            Diagnostic::new(
+                Code::BadDesign,
                 format!("factor `{}` must be nominal or ordinal", name.name),
             )
             .with_label(name.span, format!("declared {}", var.scale.as_str()))
@@ -388,7 +388,7 @@ fn add_factor(
     };
     if in_other {
         diags.push(
-            Diagnostic::error(codes::BAD_DESIGN, format!("`{}` cannot be both a within and a between factor", name.name))
+            Diagnostic::new(Code::BadDesign, format!("`{}` cannot be both a within and a between factor", name.name))
                 .with_label(name.span, format!("listed as {this} here, but already {other}"))
                 .with_help("a factor either splits subjects into groups (between) or is measured on every subject (within)"),
         );
@@ -408,8 +408,8 @@ fn replicates(book: &mut Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) {
     let shape = "replicates trial collapse(mean)";
     let Some(Term::Word(name)) = p.terms.first() else {
         diags.push(
-            Diagnostic::error(
-                codes::BAD_ARGUMENT,
+            Diagnostic::new(
+                Code::BadArgument,
                 "`replicates` needs the variable that numbers the trials",
             )
             .with_label(p.head.span, "which variable?")
@@ -460,8 +460,8 @@ pub fn resolve(book: &Codebook, name: &Ident, diags: &mut Vec<Diagnostic>) -> Op
 }
 
 pub fn unknown_variable(book: &Codebook, name: &Ident) -> Diagnostic {
-    let d = Diagnostic::error(
-        codes::UNKNOWN_VARIABLE,
+    let d = Diagnostic::new(
+        Code::UnknownVariable,
         format!("`{}` is not a variable of data `{}`", name.name, book.name),
     )
     .with_label(name.span, "not declared");

@@ -1,12 +1,12 @@
 //! Checking `figure` blocks: resolving names, choosing the frame, and the scale rules of §4.
 
+use crate::diag::Code;
 use std::path::Path;
 
 use crate::diag::{did_you_mean, Diagnostic, Span};
 use crate::syntax::ast::{Block, Ident, Plain, Statement, Term, Where};
 
 use super::codebook::{resolve, unknown_variable};
-use super::codes;
 use super::filter::check_filter;
 use super::layers::{self, LayerKind, RawLayer};
 use super::plan::{
@@ -79,8 +79,8 @@ pub fn check_figure(
     let errors_before = count_errors(diags);
     let Some(from) = parts.from else {
         diags.push(
-            Diagnostic::error(
-                codes::MISSING_STATEMENT,
+            Diagnostic::new(
+                Code::MissingStatement,
                 format!(
                     "figure `{}` does not say which data to show",
                     block.name.name
@@ -129,8 +129,8 @@ pub fn check_figure(
         .collect();
     if parts.layers.is_empty() {
         diags.push(
-            Diagnostic::error(
-                codes::MISSING_STATEMENT,
+            Diagnostic::new(
+                Code::MissingStatement,
                 format!("figure `{}` has no layers", block.name.name),
             )
             .with_label(block.name.span, "nothing to draw")
@@ -140,8 +140,8 @@ pub fn check_figure(
     }
     if parts.x.is_none() {
         diags.push(
-            Diagnostic::error(
-                codes::MISSING_STATEMENT,
+            Diagnostic::new(
+                Code::MissingStatement,
                 format!("figure `{}` has no `x`", block.name.name),
             )
             .with_label(block.name.span, "no x axis")
@@ -161,8 +161,8 @@ pub fn check_figure(
     )?;
     if let (super::plan::Frame::Flows { .. }, Some(c)) = (&frame, &colour) {
         diags.push(
-            Diagnostic::error(
-                codes::LAYER_DOES_NOT_FIT,
+            Diagnostic::new(
+                Code::LayerDoesNotFit,
                 "flows are coloured by their states; `colour` cannot split them",
             )
             .with_label(c.span, "a second colouring")
@@ -212,8 +212,8 @@ fn sort_statements<'a>(block: &'a Block, diags: &mut Vec<Diagnostic>) -> Parts<'
         };
         if let Some(t) = &p.target {
             diags.push(
-                Diagnostic::error(
-                    codes::UNKNOWN_STATEMENT,
+                Diagnostic::new(
+                    Code::UnknownStatement,
                     "variables are declared in data blocks, not in figures",
                 )
                 .with_label(t.span, "a declaration")
@@ -250,8 +250,8 @@ fn sort_statements<'a>(block: &'a Block, diags: &mut Vec<Diagnostic>) -> Parts<'
 }
 
 fn twice(name: &str, span: Span, first: Span) -> Diagnostic {
-    Diagnostic::error(
-        codes::REPEATED,
+    Diagnostic::new(
+        Code::Repeated,
         format!("`{name}` is given twice in one figure"),
     )
     .with_label(span, "given again here")
@@ -264,8 +264,8 @@ fn unknown_figure_statement(head: &Ident) -> Diagnostic {
         .iter()
         .copied()
         .chain(LayerKind::ALL.iter().map(|k| k.word()));
-    let d = Diagnostic::error(
-        codes::UNKNOWN_STATEMENT,
+    let d = Diagnostic::new(
+        Code::UnknownStatement,
         format!("`{}` is not a statement or layer of a figure", head.name),
     )
     .with_label(head.span, "unknown");
@@ -292,8 +292,8 @@ fn resolve_data<'b>(
     if let Some((idx, book)) = visible.iter().find(|(_, b)| b.name == name.name) {
         return Some((*idx, book));
     }
-    let d = Diagnostic::error(
-        codes::UNKNOWN_DATA,
+    let d = Diagnostic::new(
+        Code::UnknownData,
         format!("no data block named `{}`", name.name),
     )
     .with_label(name.span, "unknown data");
@@ -364,7 +364,7 @@ fn axis_var(book: &Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) -> Option<A
     let axis = p.head.name.as_str();
     let Some(Term::Word(name)) = p.terms.first() else {
         diags.push(
-            Diagnostic::error(codes::BAD_ARGUMENT, format!("`{axis}` needs a variable"))
+            Diagnostic::new(Code::BadArgument, format!("`{axis}` needs a variable"))
                 .with_label(p.head.span, "which variable?")
                 .with_help(format!("write `{axis} VARIABLE`")),
         );
@@ -412,7 +412,7 @@ fn axis_var(book: &Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) -> Option<A
     if let (Some(log), Some((lo, _))) = (out.log_span, out.range) {
         if lo <= 0.0 {
             diags.push(
-                Diagnostic::error(codes::BAD_ARGUMENT, "a log axis cannot reach zero or below")
+                Diagnostic::new(Code::BadArgument, "a log axis cannot reach zero or below")
                     .with_label(log, "log scale")
                     .with_label(
                         opts.call("range").map_or(log, |c| c.span),
@@ -434,7 +434,7 @@ fn range(
     let shape = "range(0, 100)";
     if !scale.is_numeric() {
         diags.push(
-            Diagnostic::error(codes::BAD_ARGUMENT, "`range` applies to a numeric axis")
+            Diagnostic::new(Code::BadArgument, "`range` applies to a numeric axis")
                 .with_label(c.span, "on a categorical axis")
                 .with_help("remove `range(...)`; a categorical axis shows its levels"),
         );
@@ -445,8 +445,8 @@ fn range(
     let hi = terms::expect_num(&args[1], shape, diags)?;
     if lo.value >= hi.value {
         diags.push(
-            Diagnostic::error(
-                codes::BAD_ARGUMENT,
+            Diagnostic::new(
+                Code::BadArgument,
                 "the range's low end is not below its high end",
             )
             .with_label(c.args.span, "empty range")
@@ -462,7 +462,7 @@ fn log_allowed(var: &super::plan::Variable, span: Span, diags: &mut Vec<Diagnost
         Scale::Ratio => true,
         Scale::Interval => {
             diags.push(
-                Diagnostic::error(codes::LOG_OF_INTERVAL, format!("a log scale needs a true zero, and `{}` is interval", var.name))
+                Diagnostic::new(Code::LogOfInterval, format!("a log scale needs a true zero, and `{}` is interval", var.name))
                     .with_label(span, "log scale")
                     .with_label(var.span, "declared interval here")
                     .with_help("ratios of interval values mean nothing; use a linear scale, or declare the variable `ratio` if it has a true zero"),
@@ -471,8 +471,8 @@ fn log_allowed(var: &super::plan::Variable, span: Span, diags: &mut Vec<Diagnost
         }
         _ => {
             diags.push(
-                Diagnostic::error(
-                    codes::LOG_OF_INTERVAL,
+                Diagnostic::new(
+                    Code::LogOfInterval,
                     "a log scale applies to numeric variables only",
                 )
                 .with_label(span, "log scale on a categorical axis")
@@ -498,7 +498,7 @@ fn order(
     };
     if var.scale == Scale::Ordinal && order != LevelOrder::Levels {
         diags.push(
-            Diagnostic::error(codes::ORDINAL_REORDERED, "an ordinal axis keeps the order of its levels")
+            Diagnostic::new(Code::OrdinalReordered, "an ordinal axis keeps the order of its levels")
                 .with_label(c.span, "reorders an ordinal axis")
                 .with_help(format!("`{}` is ordinal: remove `order(...)`, or declare it nominal if its levels have no order", var.name)),
         );
@@ -506,7 +506,7 @@ fn order(
     }
     if !var.scale.is_categorical() {
         diags.push(
-            Diagnostic::error(codes::BAD_ARGUMENT, "`order` applies to a categorical axis")
+            Diagnostic::new(Code::BadArgument, "`order` applies to a categorical axis")
                 .with_label(c.span, "on a numeric axis")
                 .with_help("remove `order(...)`"),
         );
@@ -546,8 +546,8 @@ pub fn not_categorical(var: &super::plan::Variable, span: Span, role: &str) -> D
             var.scale.as_str()
         )
     };
-    Diagnostic::error(
-        codes::NOT_CATEGORICAL,
+    Diagnostic::new(
+        Code::NotCategorical,
         format!("{role} needs a nominal or ordinal variable"),
     )
     .with_label(span, format!("declared {}", var.scale.as_str()))
@@ -561,8 +561,8 @@ fn size(p: &Plain, diags: &mut Vec<Diagnostic>) -> Option<(f64, f64)> {
         [Term::Length(w), Term::Word(x), Term::Length(h)] if x.name == "x" => (w, h),
         _ => {
             diags.push(
-                Diagnostic::error(
-                    codes::BAD_ARGUMENT,
+                Diagnostic::new(
+                    Code::BadArgument,
                     "a size is a width and a height with units",
                 )
                 .with_label(p.span, "not a size")
@@ -577,8 +577,8 @@ fn size(p: &Plain, diags: &mut Vec<Diagnostic>) -> Option<(f64, f64)> {
         let mm = len.to_mm();
         if !(lo..=hi).contains(&mm) {
             diags.push(
-                Diagnostic::error(
-                    codes::OUT_OF_LIMITS,
+                Diagnostic::new(
+                    Code::OutOfLimits,
                     format!("{mm:.0} mm is outside the supported {lo:.0}–{hi:.0} mm"),
                 )
                 .with_label(len.span, "out of limits")
@@ -610,7 +610,7 @@ fn formats(p: &Plain, diags: &mut Vec<Diagnostic>) -> Option<Formats> {
     }
     if p.terms.is_empty() {
         diags.push(
-            Diagnostic::error(codes::BAD_ARGUMENT, "`formats` needs at least one format")
+            Diagnostic::new(Code::BadArgument, "`formats` needs at least one format")
                 .with_label(p.head.span, "no format")
                 .with_help(format!("write `{shape}`")),
         );
@@ -625,7 +625,7 @@ fn dpi(p: &Plain, diags: &mut Vec<Diagnostic>) -> Option<u32> {
         [t] => terms::expect_num(t, shape, diags)?,
         _ => {
             diags.push(
-                Diagnostic::error(codes::BAD_ARGUMENT, "`dpi` takes one whole number")
+                Diagnostic::new(Code::BadArgument, "`dpi` takes one whole number")
                     .with_label(p.span, "here")
                     .with_help(format!("write `{shape}`")),
             );
@@ -635,8 +635,8 @@ fn dpi(p: &Plain, diags: &mut Vec<Diagnostic>) -> Option<u32> {
     let (lo, hi) = DPI_LIMITS;
     if n.value.fract() != 0.0 || n.value < f64::from(lo) || n.value > f64::from(hi) {
         diags.push(
-            Diagnostic::error(
-                codes::OUT_OF_LIMITS,
+            Diagnostic::new(
+                Code::OutOfLimits,
                 format!("dpi must be a whole number from {lo} to {hi}"),
             )
             .with_label(n.span, "out of limits")

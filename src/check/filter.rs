@@ -1,10 +1,10 @@
 //! Checking `where` filters: names resolved, levels declared, comparisons that fit the scale.
 
+use crate::diag::Code;
 use crate::diag::{did_you_mean, Diagnostic};
 use crate::syntax::ast::{CompareOp, Expr, Ident, Value};
 
 use super::codebook::resolve;
-use super::codes;
 use super::plan::{Codebook, Filter, Scale, Variable};
 
 /// Checks a filter expression against a codebook.
@@ -44,8 +44,8 @@ pub fn check_filter(book: &Codebook, expr: &Expr, diags: &mut Vec<Diagnostic>) -
             if v.scale.is_numeric() {
                 let Value::Num(n) = value else {
                     diags.push(
-                        Diagnostic::error(
-                            codes::BAD_FILTER,
+                        Diagnostic::new(
+                            Code::BadFilter,
                             format!("`{}` is numeric; compare it with a number", v.name),
                         )
                         .with_label(value.span(), "a text")
@@ -62,7 +62,7 @@ pub fn check_filter(book: &Codebook, expr: &Expr, diags: &mut Vec<Diagnostic>) -
             let levels = categorical_levels(v, var, diags)?;
             if op.is_ordering() && v.scale != Scale::Ordinal {
                 diags.push(
-                    Diagnostic::error(codes::BAD_FILTER, format!("`{}` is nominal: its levels have no order", v.name))
+                    Diagnostic::new(Code::BadFilter, format!("`{}` is nominal: its levels have no order", v.name))
                         .with_label(*op_span, format!("`{}` compares order", op.as_str()))
                         .with_help("use `==`, `!=` or `in (...)`; or declare the variable ordinal if its levels are ordered"),
                 );
@@ -95,7 +95,7 @@ fn categorical_levels<'a>(
 ) -> Option<&'a [String]> {
     if v.scale == Scale::Id {
         diags.push(
-            Diagnostic::error(codes::BAD_FILTER, format!("`{}` is an id; filters compare measured variables", v.name))
+            Diagnostic::new(Code::BadFilter, format!("`{}` is an id; filters compare measured variables", v.name))
                 .with_label(name.span, "an id")
                 .with_help("filter on a factor or a measure; to drop subjects, remove their rows from a copy of the data"),
         );
@@ -105,8 +105,8 @@ fn categorical_levels<'a>(
         Some(l) => Some(l),
         None => {
             diags.push(
-                Diagnostic::error(
-                    codes::BAD_FILTER,
+                Diagnostic::new(
+                    Code::BadFilter,
                     format!("`{}` has no declared levels to filter on", v.name),
                 )
                 .with_label(name.span, "levels not declared")
@@ -131,8 +131,8 @@ fn level_index(
     if let Some(i) = levels.iter().position(|l| *l == text) {
         return Some(i);
     }
-    let d = Diagnostic::error(
-        codes::BAD_FILTER,
+    let d = Diagnostic::new(
+        Code::BadFilter,
         format!("\"{text}\" is not a level of `{}`", v.name),
     )
     .with_label(value.span(), "unknown level");

@@ -1,10 +1,10 @@
 //! Layers: reading their options, and fitting them to the figure's axes (the scale rules).
 
+use crate::diag::Code;
 use crate::diag::{Diagnostic, Span};
 use crate::syntax::ast::{Call, Ident, Plain, Term};
 
 use super::codebook::resolve;
-use super::codes;
 use super::figure::{not_categorical, AxisVar};
 use super::plan::{
     Bandwidth, BinRule, CatNumLayer, CatOrdLayer, Codebook, CountLayer, DistLayer, ErrorBar, Frame,
@@ -138,8 +138,8 @@ pub fn read_layer(book: &Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) -> Op
     read_shared_options(book, &opts, &mut layer, diags);
     if matches!(kind, LayerKind::Lines | LayerKind::Flows) && opts.call("by").is_none() {
         diags.push(
-            Diagnostic::error(
-                codes::MISSING_STATEMENT,
+            Diagnostic::new(
+                Code::MissingStatement,
                 format!("{} needs `by(SUBJECT)`", kind.quoted()),
             )
             .with_label(p.head.span, "joins whose values?")
@@ -182,8 +182,8 @@ fn read_shared_options(
     if let Some(c) = opts.call("width") {
         if layer.bins.is_some() {
             diags.push(
-                Diagnostic::error(
-                    codes::BAD_ARGUMENT,
+                Diagnostic::new(
+                    Code::BadArgument,
                     "give either `bins(...)` or `width(...)`, not both",
                 )
                 .with_label(c.span, "width")
@@ -235,7 +235,7 @@ fn bins(c: &Call, diags: &mut Vec<Diagnostic>) -> Option<BinRule> {
                 Some(BinRule::Count(n.value as u32))
             } else {
                 diags.push(
-                    Diagnostic::error(codes::BAD_ARGUMENT, "a bin count is a whole number from 1 to 1000")
+                    Diagnostic::new(Code::BadArgument, "a bin count is a whole number from 1 to 1000")
                         .with_label(n.span, "not a bin count")
                         .with_help("write e.g. `bins(20)`, or a rule: `bins(sturges)`, `bins(scott)`, `bins(fd)`"),
                 );
@@ -259,8 +259,8 @@ fn positive(c: &Call, shape: &str, diags: &mut Vec<Diagnostic>) -> Option<f64> {
         return Some(n.value);
     }
     diags.push(
-        Diagnostic::error(
-            codes::BAD_ARGUMENT,
+        Diagnostic::new(
+            Code::BadArgument,
             format!("`{}` must be positive", c.name.name),
         )
         .with_label(n.span, "not positive")
@@ -276,8 +276,8 @@ fn jitter(c: &Call, diags: &mut Vec<Diagnostic>) -> Option<f64> {
         return Some(n.value);
     }
     diags.push(
-        Diagnostic::error(
-            codes::BAD_ARGUMENT,
+        Diagnostic::new(
+            Code::BadArgument,
             "jitter is a fraction of the band, from 0 to 1",
         )
         .with_label(n.span, "out of range")
@@ -293,8 +293,8 @@ fn level(term: &Term, shape: &str, diags: &mut Vec<Diagnostic>) -> Option<f64> {
         return Some(n.value);
     }
     diags.push(
-        Diagnostic::error(
-            codes::LEVEL_OUT_OF_RANGE,
+        Diagnostic::new(
+            Code::LevelOutOfRange,
             format!(
                 "an interval level must lie between 0 and 1, found {}",
                 n.text
@@ -341,8 +341,8 @@ fn error_bar(c: &Call, kind: LayerKind, diags: &mut Vec<Diagnostic>) -> Option<E
                 _ => word,
             };
             diags.push(
-                Diagnostic::error(
-                    codes::BAD_ARGUMENT,
+                Diagnostic::new(
+                    Code::BadArgument,
                     format!("`{word}` is written `{fix}` here"),
                 )
                 .with_label(term.span(), "malformed")
@@ -418,8 +418,8 @@ pub fn frame(book: &Codebook, input: FrameInput, diags: &mut Vec<Diagnostic>) ->
 }
 
 fn y_missing(layer: &RawLayer) -> Diagnostic {
-    Diagnostic::error(
-        codes::Y_MISSING,
+    Diagnostic::new(
+        Code::YMissing,
         format!("{} needs a `y` variable", layer.kind.quoted()),
     )
     .with_label(layer.head, "shows values on y")
@@ -432,8 +432,8 @@ fn y_not_used(layer: &RawLayer, y: &AxisVar) -> Diagnostic {
     } else {
         "it counts rows of x"
     };
-    Diagnostic::error(
-        codes::Y_NOT_USED,
+    Diagnostic::new(
+        Code::YNotUsed,
         format!("{} has no `y`: {what}", layer.kind.quoted()),
     )
     .with_label(layer.head, "draws its own heights")
@@ -450,8 +450,8 @@ fn counts_frame(x: &AxisVar, layers: &[RawLayer], diags: &mut Vec<Diagnostic>) -
                 span: layer.span,
             }),
             LayerKind::Histogram | LayerKind::Density => diags.push(
-                Diagnostic::error(
-                    codes::HISTOGRAM_OF_CATEGORIES,
+                Diagnostic::new(
+                    Code::HistogramOfCategories,
                     format!(
                         "{} needs an interval or ratio variable",
                         layer.kind.quoted()
@@ -473,8 +473,8 @@ fn counts_frame(x: &AxisVar, layers: &[RawLayer], diags: &mut Vec<Diagnostic>) -
 fn dist_frame(x: &AxisVar, layers: &[RawLayer], diags: &mut Vec<Diagnostic>) -> Option<Frame> {
     if let (Some(log), Some(layer)) = (x.log_span, layers.first()) {
         diags.push(
-            Diagnostic::error(
-                codes::LAYER_DOES_NOT_FIT,
+            Diagnostic::new(
+                Code::LayerDoesNotFit,
                 format!(
                     "{} works in equal steps of x, which a log axis would distort",
                     layer.kind.quoted()
@@ -498,8 +498,8 @@ fn dist_frame(x: &AxisVar, layers: &[RawLayer], diags: &mut Vec<Diagnostic>) -> 
                 span: layer.span,
             }),
             LayerKind::Counts => diags.push(
-                Diagnostic::error(
-                    codes::COUNTS_OF_NUMBERS,
+                Diagnostic::new(
+                    Code::CountsOfNumbers,
                     "`counts` needs a nominal or ordinal variable",
                 )
                 .with_label(x.name_span, format!("x is {}", x.scale.as_str()))
@@ -524,8 +524,8 @@ fn xy_frame(
 ) -> Option<Frame> {
     if !y.scale.is_numeric() {
         diags.push(
-            Diagnostic::error(
-                codes::LAYER_DOES_NOT_FIT,
+            Diagnostic::new(
+                Code::LayerDoesNotFit,
                 "with a numeric x, y must be numeric too",
             )
             .with_label(y.name_span, format!("y is {}", y.scale.as_str()))
@@ -571,7 +571,7 @@ fn cat_cat_frame(
     let yvar = book.var(y.var);
     if y.scale == Scale::Id {
         diags.push(
-            Diagnostic::error(codes::Y_NOT_NUMERIC, "an id is never a measure")
+            Diagnostic::new(Code::YNotNumeric, "an id is never a measure")
                 .with_label(y.name_span, "y is an id")
                 .with_help("put a measured variable on y"),
         );
@@ -586,7 +586,7 @@ fn cat_cat_frame(
             (LayerKind::Median, Scale::Ordinal) => {
                 if let Some((_, span)) = layer.error {
                     diags.push(
-                        Diagnostic::error(codes::BAD_ARGUMENT, "the median of an ordinal variable is a level; it has no bootstrap interval here")
+                        Diagnostic::new(Code::BadArgument, "the median of an ordinal variable is a level; it has no bootstrap interval here")
                             .with_label(span, "interval of a level")
                             .with_help("remove `error(...)`: the drawn line already spans the quartile levels"),
                     );
@@ -594,7 +594,7 @@ fn cat_cat_frame(
                 out.push(CatOrdLayer::Median { span: layer.span })
             }
             (LayerKind::Mean, _) => diags.push(
-                Diagnostic::error(codes::MEAN_OF_CATEGORIES, format!("a mean of `{}` treats {} categories as numbers", yvar.name, y.scale.as_str()))
+                Diagnostic::new(Code::MeanOfCategories, format!("a mean of `{}` treats {} categories as numbers", yvar.name, y.scale.as_str()))
                     .with_label(y.name_span, format!("y is {}", y.scale.as_str()))
                     .with_label(layer.head, "needs equal intervals")
                     .with_help(if y.scale == Scale::Ordinal {
@@ -604,14 +604,14 @@ fn cat_cat_frame(
                     }),
             ),
             (LayerKind::Median | LayerKind::Box, Scale::Nominal) => diags.push(
-                Diagnostic::error(codes::MEDIAN_OF_NOMINAL, format!("{} of a nominal variable: its categories have no order", layer.kind.quoted()))
+                Diagnostic::new(Code::MedianOfNominal, format!("{} of a nominal variable: its categories have no order", layer.kind.quoted()))
                     .with_label(y.name_span, "y is nominal")
                     .with_label(layer.head, "needs ordered values")
                     .with_help(format!("put `{}` on x and show it with `counts`", yvar.name)),
             ),
             (LayerKind::Counts | LayerKind::Histogram | LayerKind::Density, _) => diags.push(y_not_used(layer, y)),
             _ => diags.push(
-                Diagnostic::error(codes::Y_NOT_NUMERIC, format!("{} needs an interval or ratio `y`", layer.kind.quoted()))
+                Diagnostic::new(Code::YNotNumeric, format!("{} needs an interval or ratio `y`", layer.kind.quoted()))
                     .with_label(y.name_span, format!("y is {}", y.scale.as_str()))
                     .with_label(layer.head, "needs numbers on y")
                     .with_help(if y.scale == Scale::Ordinal { "for ordered ratings use `median`" } else { "choose a numeric y" }),
@@ -635,8 +635,8 @@ fn flows_frame(
 ) -> Option<Frame> {
     for other in layers.iter().filter(|l| l.kind != LayerKind::Flows) {
         diags.push(
-            Diagnostic::error(
-                codes::LAYER_DOES_NOT_FIT,
+            Diagnostic::new(
+                Code::LayerDoesNotFit,
                 format!("{} cannot share a figure with `flows`", other.kind.quoted()),
             )
             .with_label(other.head, "does not fit")
@@ -647,8 +647,8 @@ fn flows_frame(
     check_by_subject(book, by, by_span, diags);
     if x.scale != Scale::Ordinal || !book.is_within(x.var) {
         diags.push(
-            Diagnostic::error(
-                codes::LINES_ACROSS_SUBJECTS,
+            Diagnostic::new(
+                Code::LinesAcrossSubjects,
                 "flows need x to be an ordinal within factor (the occasions)",
             )
             .with_label(
@@ -677,8 +677,8 @@ fn check_by_subject(book: &Codebook, by: VarId, by_span: Span, diags: &mut Vec<D
             ),
         };
         diags.push(
-            Diagnostic::error(
-                codes::LINES_ACROSS_SUBJECTS,
+            Diagnostic::new(
+                Code::LinesAcrossSubjects,
                 format!(
                     "`{}` is not the subject of data `{}`",
                     book.var(by).name,
@@ -732,8 +732,8 @@ fn cat_num_frame(
                 out.push(CatNumLayer::Lines { by, span });
             }
             LayerKind::Fit => diags.push(
-                Diagnostic::error(
-                    codes::LAYER_DOES_NOT_FIT,
+                Diagnostic::new(
+                    Code::LayerDoesNotFit,
                     format!(
                         "`fit` needs a numeric x, and `{}` is {}",
                         book.var(x.var).name,
@@ -745,8 +745,8 @@ fn cat_num_frame(
                 .with_help("put an interval or ratio variable on x; to compare groups, use `points` with `box` or `mean`"),
             ),
             LayerKind::Flows => diags.push(
-                Diagnostic::error(
-                    codes::LAYER_DOES_NOT_FIT,
+                Diagnostic::new(
+                    Code::LayerDoesNotFit,
                     "`flows` needs a categorical y (the states)",
                 )
                 .with_label(y.name_span, format!("y is {}", y.scale.as_str()))
@@ -774,8 +774,8 @@ fn check_mean(
 ) {
     if let (Some(bar), Some(log)) = (layer.bar, y.log_span) {
         diags.push(
-            Diagnostic::error(
-                codes::LAYER_DOES_NOT_FIT,
+            Diagnostic::new(
+                Code::LayerDoesNotFit,
                 "a bar from zero cannot be drawn on a log axis",
             )
             .with_label(bar, "bar drawn from zero")
@@ -785,8 +785,8 @@ fn check_mean(
     }
     if let (Some(bar), Scale::Interval) = (layer.bar, y.scale) {
         diags.push(
-            Diagnostic::error(
-                codes::BAR_WITHOUT_ZERO,
+            Diagnostic::new(
+                Code::BarWithoutZero,
                 format!(
                     "a bar from zero is meaningless: `{}` is interval, with no true zero",
                     book.var(y.var).name
@@ -800,14 +800,14 @@ fn check_mean(
     if let Some((ErrorBar::CiWithin { .. }, span)) = layer.error {
         if !book.is_within(x.var) {
             diags.push(
-                Diagnostic::error(codes::WITHIN_INTERVAL_NOT_WITHIN, format!("a within-subject interval needs x to be a within factor, and `{}` is not", book.var(x.var).name))
+                Diagnostic::new(Code::WithinIntervalNotWithin, format!("a within-subject interval needs x to be a within factor, and `{}` is not", book.var(x.var).name))
                     .with_label(span, "within-subject interval")
                     .with_label(x.name_span, if book.is_between(x.var) { "a between factor" } else { "not listed under `within`" })
                     .with_help("use `ci(0.95)` to compare groups, or list x under `within` if every subject was measured at every level"),
             );
         } else if book.subject.is_none() {
             diags.push(
-                Diagnostic::error(codes::WITHIN_INTERVAL_NOT_WITHIN, format!("a within-subject interval needs the data's subject, and data `{}` declares none", book.name))
+                Diagnostic::new(Code::WithinIntervalNotWithin, format!("a within-subject interval needs the data's subject, and data `{}` declares none", book.name))
                     .with_label(span, "within-subject interval")
                     .with_help("add `subject ID` to the data block"),
             );
@@ -826,13 +826,13 @@ fn check_lines(
     let xvar = book.var(x.var);
     if book.is_between(x.var) {
         diags.push(
-            Diagnostic::error(codes::LINES_ACROSS_SUBJECTS, format!("lines would join different subjects: `{}` is a between factor", xvar.name))
+            Diagnostic::new(Code::LinesAcrossSubjects, format!("lines would join different subjects: `{}` is a between factor", xvar.name))
                 .with_label(x.name_span, "each subject is in one group only")
                 .with_help("lines join one subject's values across a within factor; remove `lines` or put a within factor on x"),
         );
     } else if !book.is_within(x.var) && x.scale != Scale::Ordinal {
         diags.push(
-            Diagnostic::error(codes::LINES_ACROSS_SUBJECTS, format!("lines need x to be a within factor or an ordinal occasion, and `{}` is neither", xvar.name))
+            Diagnostic::new(Code::LinesAcrossSubjects, format!("lines need x to be a within factor or an ordinal occasion, and `{}` is neither", xvar.name))
                 .with_label(x.name_span, "not listed under `within`")
                 .with_help(format!("list `{}` under `within` in data `{}` if every subject was measured at each level", xvar.name, book.name)),
         );
@@ -851,18 +851,17 @@ fn warn_hidden_data(layers: &[RawLayer], diags: &mut Vec<Diagnostic>) {
     for layer in layers.iter().filter(|l| l.kind == LayerKind::Mean) {
         if !layers.iter().any(|l| shows_values(l.kind)) {
             diags.push(
-                Diagnostic::warning(
-                    codes::MEAN_ALONE,
-                    "a mean alone hides how the values spread",
-                )
-                .with_label(layer.head, "only the mean is shown")
-                .with_help("add `points`, `box` or `violin` so readers see the distribution and n"),
+                Diagnostic::new(Code::MeanAlone, "a mean alone hides how the values spread")
+                    .with_label(layer.head, "only the mean is shown")
+                    .with_help(
+                        "add `points`, `box` or `violin` so readers see the distribution and n",
+                    ),
             );
         }
         if let (Some(bar), false) = (layer.bar, has_points) {
             diags.push(
-                Diagnostic::warning(
-                    codes::BAR_WITHOUT_POINTS,
+                Diagnostic::new(
+                    Code::BarWithoutPoints,
                     "bars of means hide the distribution",
                 )
                 .with_label(bar, "bar without points")

@@ -8,13 +8,14 @@
 //! applied when the numbers are computed, using the spans kept in the plan.
 
 mod codebook;
-pub mod codes;
+
 mod figure;
 mod filter;
 mod layers;
 pub mod plan;
 mod terms;
 
+use crate::diag::Code;
 use std::collections::BTreeMap;
 use std::path::{Path, PathBuf};
 
@@ -73,7 +74,7 @@ pub fn check_with(units: &[SpecUnit], defaults: &FigureDefaults) -> (Program, Ve
                 "figure" if unit.build_figures => {
                     if let Some(first) = figure_names.get(&block.name.name) {
                         diags.push(
-                            Diagnostic::error(codes::DUPLICATE_NAME, format!("two figures are named `{}`", block.name.name))
+                            Diagnostic::new(Code::DuplicateName, format!("two figures are named `{}`", block.name.name))
                                 .with_label(block.name.span, "named again here")
                                 .with_label(*first, "first named here")
                                 .with_help("figure names become file names; give each figure its own name"),
@@ -88,7 +89,7 @@ pub fn check_with(units: &[SpecUnit], defaults: &FigureDefaults) -> (Program, Ve
                 }
                 "figure" => {}
                 other => diags.push(
-                    Diagnostic::error(codes::UNKNOWN_BLOCK, format!("`{other}` is not a kind of block"))
+                    Diagnostic::new(Code::UnknownBlock, format!("`{other}` is not a kind of block"))
                         .with_label(block.kind.span, "unknown block")
                         .with_help("a spec holds `data NAME \"file.csv\" { ... }` and `figure NAME { ... }` blocks"),
                 ),
@@ -117,8 +118,8 @@ fn visible_books(
         Some(&first) => {
             if books_of_file[idx].contains(&b) {
                 diags.push(
-                    Diagnostic::error(
-                        codes::DUPLICATE_NAME,
+                    Diagnostic::new(
+                        Code::DuplicateName,
                         format!("two data blocks are named `{}`", books[b].name),
                     )
                     .with_label(books[b].span, "named again here")

@@ -3,10 +3,9 @@
 //! The syntax tree does not know which words a statement accepts; these helpers turn terms into
 //! typed values and report anything unknown, repeated or of the wrong kind with its span.
 
+use crate::diag::Code;
 use crate::diag::{did_you_mean, Diagnostic, Span};
 use crate::syntax::ast::{Args, Call, Ident, Num, Plain, Str, Term};
-
-use super::codes;
 
 /// The options (`name(args)`) and flags (bare words) of a statement, after validation.
 #[derive(Debug, Default)]
@@ -62,8 +61,8 @@ pub fn options<'a>(
                     }
                 } else if accepts.calls.contains(&name) {
                     diags.push(
-                        Diagnostic::error(
-                            codes::BAD_ARGUMENT,
+                        Diagnostic::new(
+                            Code::BadArgument,
                             format!("`{name}` needs a value in parentheses"),
                         )
                         .with_label(word.span, "no value given")
@@ -77,8 +76,8 @@ pub fn options<'a>(
                 }
             }
             other => diags.push(
-                Diagnostic::error(
-                    codes::BAD_ARGUMENT,
+                Diagnostic::new(
+                    Code::BadArgument,
                     format!("unexpected value after {}", accepts.what),
                 )
                 .with_label(other.span(), "not expected here")
@@ -105,8 +104,8 @@ fn option_list_help(accepts: &Accepts) -> String {
 
 fn unknown_option(word: &Ident, accepts: &Accepts) -> Diagnostic {
     let known = accepts.calls.iter().chain(accepts.flags.iter()).copied();
-    let d = Diagnostic::error(
-        codes::UNKNOWN_OPTION,
+    let d = Diagnostic::new(
+        Code::UnknownOption,
         format!("{} has no option `{}`", accepts.what, word.name),
     )
     .with_label(word.span, "unknown option");
@@ -117,7 +116,7 @@ fn unknown_option(word: &Ident, accepts: &Accepts) -> Diagnostic {
 }
 
 fn repeated(word: &Ident, first: Span) -> Diagnostic {
-    Diagnostic::error(codes::REPEATED, format!("`{}` is given twice", word.name))
+    Diagnostic::new(Code::Repeated, format!("`{}` is given twice", word.name))
         .with_label(word.span, "given again here")
         .with_label(first, "first given here")
         .with_help("keep one of them")
@@ -134,8 +133,8 @@ pub fn arity<'a>(
         Some(&call.args.items)
     } else {
         diags.push(
-            Diagnostic::error(
-                codes::BAD_ARGUMENT,
+            Diagnostic::new(
+                Code::BadArgument,
                 format!(
                     "`{}` takes {n} argument{}, found {}",
                     call.name.name,
@@ -210,8 +209,8 @@ pub fn expect_choice<'a>(
         None => format!("the choices are {list}"),
     };
     diags.push(
-        Diagnostic::error(
-            codes::BAD_ARGUMENT,
+        Diagnostic::new(
+            Code::BadArgument,
             format!("`{}` is not one of the choices here", word.name),
         )
         .with_label(word.span, "unknown choice")
@@ -230,8 +229,8 @@ pub fn one_word<'a>(
         [Term::Word(w)] => Some(w),
         [] => {
             diags.push(
-                Diagnostic::error(
-                    codes::BAD_ARGUMENT,
+                Diagnostic::new(
+                    Code::BadArgument,
                     format!("`{}` needs a name", stmt.head.name),
                 )
                 .with_label(stmt.head.span, "name missing")
@@ -256,8 +255,8 @@ pub fn one_string<'a>(
         [Term::Str(s)] => Some(s),
         [] => {
             diags.push(
-                Diagnostic::error(
-                    codes::BAD_ARGUMENT,
+                Diagnostic::new(
+                    Code::BadArgument,
                     format!("`{}` needs a text", stmt.head.name),
                 )
                 .with_label(stmt.head.span, "text missing")
@@ -310,8 +309,8 @@ fn wrong_kind(term: &Term, wanted: &str, shape: &str) -> Diagnostic {
         Term::Length(_) => "a length",
         Term::Call(_) => "an option",
     };
-    Diagnostic::error(
-        codes::BAD_ARGUMENT,
+    Diagnostic::new(
+        Code::BadArgument,
         format!("expected {wanted}, found {found}"),
     )
     .with_label(term.span(), format!("expected {wanted}"))

@@ -1,6 +1,7 @@
 //! Frames over a categorical x: counts, values by category (points, box, mean, median, lines),
 //! and medians of an ordinal y.
 
+use crate::diag::Code;
 use std::collections::BTreeMap;
 
 use crate::check::plan::{
@@ -360,8 +361,8 @@ pub(super) fn check_log_values(
         return Ok(());
     };
     let var = ctx.book.var(axis.var.var);
-    Err(crate::diag::Diagnostic::error(
-        crate::check::codes::LOG_OF_ZERO,
+    Err(crate::diag::Diagnostic::new(
+        Code::LogOfZero,
         format!("`{}` has a zero (data row {}), and a log scale cannot show zero", var.name, ctx.file_row(row)),
     )
     .with_label(span, "log scale")

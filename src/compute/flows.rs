@@ -14,9 +14,9 @@
 //! `n_missing` and one `count` per state (group = state); then per pair of consecutive
 //! occasions `A->B` one `count` per pair of states `s->t`, zeros included, in level order.
 
+use crate::diag::Code;
 use std::collections::BTreeMap;
 
-use crate::check::codes;
 use crate::check::plan::CatAxis;
 use crate::diag::{Diagnostic, Span};
 
@@ -78,8 +78,8 @@ fn check_one_state(
     if ctx.plan.panels.is_some() {
         at.push_str(&format!(" in panel \"{}\"", ctx.panels.names[cell.panel]));
     }
-    Err(Diagnostic::error(
-        codes::SUBJECT_REPEATED_IN_CELL,
+    Err(Diagnostic::new(
+        Code::SubjectRepeatedInCell,
         format!(
             "subject \"{}\" has more than one state at {at} (data rows {} and {})",
             ctx.subject_name(subject),

@@ -19,6 +19,7 @@ mod xy;
 
 use crate::check::plan::{Codebook, FigurePlan, Frame, VarId};
 use crate::data::Table;
+use crate::diag::Code;
 use crate::diag::Diagnostic;
 
 pub use rows::Levels;
@@ -385,8 +386,8 @@ pub(crate) fn check_colours(
     if levels.len() <= most {
         return Ok(());
     }
-    Err(Diagnostic::error(
-        crate::check::codes::TOO_MANY_COLOURS,
+    Err(Diagnostic::new(
+        Code::TooManyColours,
         format!(
             "`{var}` has {} levels to tell apart by colour, more than the palette's {most}",
             levels.len()

@@ -4,6 +4,7 @@
 //! (panel, x slot, colour group). Rows whose panel, x or colour value is missing cannot be
 //! placed and are counted per layer; rows whose measured value is missing are counted per cell.
 
+use crate::diag::Code;
 use std::collections::BTreeMap;
 
 use crate::check::plan::{CatAxis, CatVar, Codebook, Collapse, Filter, LevelOrder, VarId};
@@ -345,8 +346,8 @@ pub fn repeated_subject_error(
     rows: (usize, usize),
     layer_span: crate::diag::Span,
 ) -> Diagnostic {
-    Diagnostic::error(
-        crate::check::codes::SUBJECT_REPEATED_IN_CELL,
+    Diagnostic::new(
+        Code::SubjectRepeatedInCell,
         format!("subject \"{subject}\" has more than one value in cell {cell} (data rows {} and {})", rows.0, rows.1),
     )
     .with_label(layer_span, "joins one value per subject and cell")

@@ -5,9 +5,9 @@
 //! column always has one entry per row. Missing tokens match the cell as written or with its
 //! surrounding whitespace trimmed; levels and ids match the cell exactly as written.
 
+use crate::diag::Code;
 use std::collections::BTreeMap;
 
-use super::codes;
 use super::numbers::{parse_number, NonFinite, NotNumberHint, NumberProblem};
 use super::spec::ColumnKind;
 use super::table::Column;
@@ -29,13 +29,13 @@ pub(super) enum CellProblem {
 
 impl CellProblem {
     /// The stable diagnostic code of this problem.
-    pub(super) fn code(self) -> &'static str {
+    pub(super) fn code(self) -> Code {
         match self {
-            CellProblem::NotALevel => codes::NOT_A_LEVEL,
-            CellProblem::NotANumber(_) => codes::NOT_A_NUMBER,
-            CellProblem::NotFinite(_) => codes::NOT_FINITE,
-            CellProblem::Negative => codes::NEGATIVE_RATIO,
-            CellProblem::MissingId => codes::MISSING_ID,
+            CellProblem::NotALevel => Code::NotALevel,
+            CellProblem::NotANumber(_) => Code::NotANumber,
+            CellProblem::NotFinite(_) => Code::NotFinite,
+            CellProblem::Negative => Code::NegativeRatio,
+            CellProblem::MissingId => Code::MissingId,
         }
     }
 }

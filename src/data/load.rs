@@ -5,13 +5,13 @@
 //! while reading, should it grow or report no size). The text must be UTF-8 without NUL bytes;
 //! anything else is one error naming the line and byte offset of the first bad byte.
 
+use crate::diag::Code;
 use std::fs::File;
 use std::io::{self, Read};
 use std::path::Path;
 
 use crate::diag::Diagnostic;
 
-use super::codes;
 use super::report::{file_label, quoted};
 use super::spec::TableSpec;
 
@@ -47,7 +47,7 @@ pub(super) fn read_bytes(spec: &TableSpec, limits: &ReadLimits) -> Result<Vec<u8
     if metadata.is_dir() {
         return Err(file_error(
             spec,
-            codes::UNREADABLE,
+            Code::Unreadable,
             format!("data file {} is a folder, not a file", quoted_path(path)),
             "point the data block at a CSV or TSV file",
         ));
@@ -87,7 +87,7 @@ pub(super) fn decode(spec: &TableSpec, bytes: Vec<u8>) -> Result<String, Diagnos
         let line = line_of(text.as_bytes(), nul_at);
         return Err(file_error(
             spec,
-            codes::NUL_BYTE,
+            Code::NulByte,
             format!(
                 "data file {} holds a NUL byte at line {line}, byte offset {nul_at}",
                 file_label(&spec.path)
@@ -112,11 +112,11 @@ fn quoted_path(path: &Path) -> String {
 /// An error about the file as a whole, labelled at the path in the spec.
 fn file_error(
     spec: &TableSpec,
-    code: &'static str,
+    code: Code,
     message: String,
     help: impl Into<String>,
 ) -> Diagnostic {
-    Diagnostic::error(code, message)
+    Diagnostic::new(code, message)
         .with_label(spec.path_span, "data file")
         .with_help(help)
         .with_file(&spec.path)
@@ -127,19 +127,19 @@ fn unreadable(spec: &TableSpec, error: &io::Error) -> Diagnostic {
     match error.kind() {
         io::ErrorKind::NotFound => file_error(
             spec,
-            codes::UNREADABLE,
+            Code::Unreadable,
             format!("data file {path} does not exist"),
             not_found_help(&spec.path),
         ),
         io::ErrorKind::PermissionDenied => file_error(
             spec,
-            codes::UNREADABLE,
+            Code::Unreadable,
             format!("data file {path} cannot be read: permission denied"),
             "give yourself permission to read the file",
         ),
         _ => file_error(
             spec,
-            codes::UNREADABLE,
+            Code::Unreadable,
             format!("data file {path} cannot be read: {error}"),
             "check that the path names a readable file",
         ),
@@ -173,7 +173,7 @@ fn too_large(spec: &TableSpec, limits: &ReadLimits, size: Option<u64>) -> Diagno
     let size = size.map_or_else(String::new, |n| format!(" ({n} bytes)"));
     file_error(
         spec,
-        codes::TOO_LARGE,
+        Code::TooLarge,
         format!(
             "data file {} is larger than the limit of {} bytes{size}",
             file_label(&spec.path),
@@ -199,7 +199,7 @@ fn not_utf8(spec: &TableSpec, bytes: &[u8], bad_at: usize) -> Diagnostic {
     };
     file_error(
         spec,
-        codes::NOT_UTF8,
+        Code::NotUtf8,
         format!(
             "data file {} is not UTF-8 text: byte 0x{bad_byte:02X} at line {line}, \
              byte offset {bad_at}",

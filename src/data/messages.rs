@@ -3,10 +3,10 @@
 //! Messages name the file, the row (header = row 1), the column and the value, so they read
 //! well even without the labelled excerpt; labels point at the exact field in the data file.
 
+use crate::diag::Code;
 use crate::diag::{Diagnostic, Span};
 
 use super::cells::{level_hint, CellProblem, LevelHint};
-use super::codes;
 use super::numbers::{is_common_missing_marker, NonFinite, NotNumberHint};
 use super::report::{quoted, quoted_list, row_label};
 use super::spec::{ColumnKind, ColumnSpec, TableSpec};
@@ -43,8 +43,8 @@ impl CellAt<'_> {
         )
     }
 
-    fn error(&self, code: &'static str, what: String, label: &str, help: String) -> Diagnostic {
-        Diagnostic::error(code, format!("{}: {what}", self.place()))
+    fn error(&self, code: Code, what: String, label: &str, help: String) -> Diagnostic {
+        Diagnostic::new(code, format!("{}: {what}", self.place()))
             .with_label(self.span, label)
             .with_help(help)
     }
@@ -56,25 +56,25 @@ pub(super) fn cell_problem(cell: &CellAt, problem: CellProblem) -> Diagnostic {
     let name = &cell.column.name;
     match problem {
         CellProblem::NotALevel => cell.error(
-            codes::NOT_A_LEVEL,
+            Code::NotALevel,
             format!("{value} is not a declared level"),
             &format!("not a level of {name}"),
             not_a_level_help(cell),
         ),
         CellProblem::NotANumber(hint) => cell.error(
-            codes::NOT_A_NUMBER,
+            Code::NotANumber,
             format!("{value} is not a number"),
             "not a number",
             not_a_number_help(cell, hint),
         ),
         CellProblem::NotFinite(NonFinite::Overflow) => cell.error(
-            codes::NOT_FINITE,
+            Code::NotFinite,
             format!("{value} is too large for a number"),
             "too large",
             "numbers must lie within ±1.7976931348623157e308; check the value".to_owned(),
         ),
         CellProblem::NotFinite(NonFinite::NotANumber | NonFinite::Infinity) => cell.error(
-            codes::NOT_FINITE,
+            Code::NotFinite,
             format!("{value} is not a finite number"),
             "not a finite number",
             format!(
@@ -83,7 +83,7 @@ pub(super) fn cell_problem(cell: &CellAt, problem: CellProblem) -> Diagnostic {
             ),
         ),
         CellProblem::Negative => cell.error(
-            codes::NEGATIVE_RATIO,
+            Code::NegativeRatio,
             format!("{value} is negative, but {name} is a ratio variable"),
             "negative",
             format!(
@@ -92,7 +92,7 @@ pub(super) fn cell_problem(cell: &CellAt, problem: CellProblem) -> Diagnostic {
             ),
         ),
         CellProblem::MissingId => cell.error(
-            codes::MISSING_ID,
+            Code::MissingId,
             format!("the id is missing ({value} is a missing token)"),
             &format!("missing {name}"),
             "every row needs the id of its observational unit; fill it in or remove the row"
@@ -175,8 +175,8 @@ pub(super) fn empty_file(spec: &TableSpec, file: &str, delimiter: u8) -> Diagnos
             separator_words(delimiter)
         )
     };
-    Diagnostic::error(
-        codes::EMPTY_FILE,
+    Diagnostic::new(
+        Code::EmptyFile,
         format!("data file {file} is empty: it has no header row"),
     )
     .with_label(spec.path_span, "data file")
@@ -186,8 +186,8 @@ pub(super) fn empty_file(spec: &TableSpec, file: &str, delimiter: u8) -> Diagnos
 
 /// D0006: a header and nothing else.
 pub(super) fn header_only(file: &str, header: &HeaderRow) -> Diagnostic {
-    Diagnostic::error(
-        codes::HEADER_ONLY,
+    Diagnostic::new(
+        Code::HeaderOnly,
         format!("{file} has a header row but no data rows"),
     )
     .with_label(header.span, "the only row")
@@ -201,8 +201,8 @@ pub(super) fn unclosed_quote(
     line: usize,
     quote_at: Span,
 ) -> Diagnostic {
-    Diagnostic::error(
-        codes::MALFORMED,
+    Diagnostic::new(
+        Code::Malformed,
         format!(
             "{}: a quoted field is never closed",
             row_label(file, file_row, line)
@@ -217,8 +217,8 @@ pub(super) fn unclosed_quote(
 
 /// D0007: anything else the CSV reader refuses.
 pub(super) fn not_csv(spec: &TableSpec, file: &str, error: &csv::Error) -> Diagnostic {
-    Diagnostic::error(
-        codes::MALFORMED,
+    Diagnostic::new(
+        Code::Malformed,
         format!("{file} could not be read as CSV: {error}"),
     )
     .with_label(spec.path_span, "data file")
@@ -238,8 +238,8 @@ pub(super) fn missing_column(
     } else {
         format!(" (read for {})", column.name)
     };
-    Diagnostic::error(
-        codes::MISSING_COLUMN,
+    Diagnostic::new(
+        Code::MissingColumn,
         format!("{file} has no column {}{read_for}", quoted(&column.header)),
     )
     .with_label(column.decl_span, "declared here")
@@ -295,8 +295,8 @@ fn other_separator(field: &str, delimiter: u8) -> Option<&'static str> {
 /// D0009: a declared column's header appears more than once.
 pub(super) fn duplicate_header(file: &str, column: &ColumnSpec, spans: &[Span]) -> Diagnostic {
     let header = quoted(&column.header);
-    let mut diagnostic = Diagnostic::error(
-        codes::DUPLICATE_HEADER,
+    let mut diagnostic = Diagnostic::new(
+        Code::DuplicateHeader,
         format!("{file} has {} columns named {header}", spans.len()),
     );
     for (i, span) in spans.iter().enumerate() {
@@ -354,8 +354,8 @@ pub(super) fn ragged_row(
             }
         )
     };
-    Diagnostic::error(
-        codes::RAGGED_ROW,
+    Diagnostic::new(
+        Code::RaggedRow,
         format!(
             "{}: {}, but the header has {}",
             row_label(file, row.file_row, row.line),

@@ -36,42 +36,6 @@ pub use table::{Column, RowPlace, Table};
 
 use crate::diag::{Diagnostic, SourceMap};
 
-/// The stable codes of data errors (see `grammar/README.md`, §13).
-pub mod codes {
-    /// The file is missing, a folder, or cannot be read.
-    pub const UNREADABLE: &str = "D0001";
-    /// The file is larger than the size limit.
-    pub const TOO_LARGE: &str = "D0002";
-    /// The file is not UTF-8 text.
-    pub const NOT_UTF8: &str = "D0003";
-    /// The file holds a NUL byte (UTF-16 or not text).
-    pub const NUL_BYTE: &str = "D0004";
-    /// The file has no header row.
-    pub const EMPTY_FILE: &str = "D0005";
-    /// The file has a header row and no data rows.
-    pub const HEADER_ONLY: &str = "D0006";
-    /// A quoted field is never closed (or the CSV reader refused the file).
-    pub const MALFORMED: &str = "D0007";
-    /// A declared column is not in the header.
-    pub const MISSING_COLUMN: &str = "D0008";
-    /// A declared column's header appears more than once.
-    pub const DUPLICATE_HEADER: &str = "D0009";
-    /// A row has more or fewer fields than the header.
-    pub const RAGGED_ROW: &str = "D0010";
-    /// A categorical value outside the declared levels.
-    pub const NOT_A_LEVEL: &str = "D0011";
-    /// A non-numeric value in a numeric column.
-    pub const NOT_A_NUMBER: &str = "D0012";
-    /// `nan`, `inf` or a number too large for a double.
-    pub const NOT_FINITE: &str = "D0013";
-    /// A negative value in a ratio column.
-    pub const NEGATIVE_RATIO: &str = "D0014";
-    /// A missing id.
-    pub const MISSING_ID: &str = "D0015";
-    /// The summary of errors past the per-file cap.
-    pub const MORE_ERRORS: &str = "D0016";
-}
-
 /// Reads the file `spec.path` into a table, with the default [`ReadLimits`].
 pub fn read_table(spec: &TableSpec, sources: &mut SourceMap) -> Result<Table, Vec<Diagnostic>> {
     read_table_with(spec, sources, &ReadLimits::default())

@@ -6,12 +6,12 @@
 //! cap, see [`super::report`]); a row of the wrong width is reported once and its cells are
 //! not read, since they cannot be matched to columns.
 
+use crate::diag::Code;
 use std::borrow::Cow;
 
 use crate::diag::{Diagnostic, SourceId, Span};
 
 use super::cells::ColumnBuilder;
-use super::codes;
 use super::load::ReadLimits;
 use super::messages::{self, CellAt, HeaderRow, RaggedRow};
 use super::records::{Row, Rows};
@@ -57,7 +57,7 @@ pub(super) fn parse_text(
             Ok(Some(row)) => reading.read_row(&row, &mut report),
             Ok(None) => break,
             Err(error) => {
-                report.add(codes::MALFORMED, |file| {
+                report.add(Code::Malformed, |file| {
                     messages::not_csv(spec, file, &error)
                 });
                 break;
@@ -65,7 +65,7 @@ pub(super) fn parse_text(
         }
     }
     if reading.places.is_empty() {
-        report.add(codes::HEADER_ONLY, |file| {
+        report.add(Code::HeaderOnly, |file| {
             messages::header_only(file, &header)
         });
     }
@@ -85,20 +85,20 @@ fn read_header(
     let row = match rows.next_row() {
         Ok(Some(row)) => row,
         Ok(None) => {
-            report.add(codes::EMPTY_FILE, |file| {
+            report.add(Code::EmptyFile, |file| {
                 messages::empty_file(spec, file, delimiter)
             });
             return None;
         }
         Err(error) => {
-            report.add(codes::MALFORMED, |file| {
+            report.add(Code::Malformed, |file| {
                 messages::not_csv(spec, file, &error)
             });
             return None;
         }
     };
     if row.unclosed_quote {
-        report.add(codes::MALFORMED, |file| unclosed_quote(file, &row));
+        report.add(Code::Malformed, |file| unclosed_quote(file, &row));
         return None;
     }
     Some(HeaderRow {
@@ -134,14 +134,14 @@ fn locate_columns(
             match found.as_slice() {
                 [index] => Some(*index),
                 [] => {
-                    report.add(codes::MISSING_COLUMN, |file| {
+                    report.add(Code::MissingColumn, |file| {
                         messages::missing_column(file, column, header, delimiter)
                     });
                     None
                 }
                 _ => {
                     let spans: Vec<Span> = found.iter().map(|&i| header.spans[i]).collect();
-                    report.add(codes::DUPLICATE_HEADER, |file| {
+                    report.add(Code::DuplicateHeader, |file| {
                         messages::duplicate_header(file, column, &spans)
                     });
                     None
@@ -211,7 +211,7 @@ impl Reading<'_> {
     /// `false` when its cells cannot be read.
     fn check_shape(&self, row: &Row, report: &mut Report) -> bool {
         if row.unclosed_quote {
-            report.add(codes::MALFORMED, |file| unclosed_quote(file, row));
+            report.add(Code::Malformed, |file| unclosed_quote(file, row));
             return false;
         }
         let n_header = self.header.names.len();
@@ -226,7 +226,7 @@ impl Reading<'_> {
             extra_fields_empty: (n_header..row.len())
                 .all(|i| row.field(i).is_some_and(|f| f.trim().is_empty())),
         };
-        report.add(codes::RAGGED_ROW, |file| {
+        report.add(Code::RaggedRow, |file| {
             messages::ragged_row(file, &ragged, self.header, self.delimiter)
         });
         false

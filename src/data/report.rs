@@ -2,13 +2,12 @@
 //! full, and the rest are summed up in one closing diagnostic so a broken file cannot flood the
 //! terminal. Also the shared wording for places in a data file (`speeds.csv row 14`).
 
+use crate::diag::Code;
 use std::collections::BTreeMap;
 use std::fmt::Write as _;
 use std::path::{Path, PathBuf};
 
 use crate::diag::{Diagnostic, Span};
-
-use super::codes;
 
 /// How a data file is named in messages: its file name, or the whole path when it has none.
 pub(super) fn file_label(path: &Path) -> String {
@@ -65,7 +64,7 @@ pub(super) struct Report {
     max_shown: usize,
     shown: Vec<Diagnostic>,
     /// Errors past the cap, counted by code (a `BTreeMap` so the summary's order is fixed).
-    hidden: BTreeMap<&'static str, usize>,
+    hidden: BTreeMap<Code, usize>,
 }
 
 impl Report {
@@ -82,7 +81,7 @@ impl Report {
 
     /// Records one error with stable `code`; `make` builds it from the file's name only while
     /// under the cap, so a file with millions of bad cells costs a counter each, not a message.
-    pub(super) fn add(&mut self, code: &'static str, make: impl FnOnce(&str) -> Diagnostic) {
+    pub(super) fn add(&mut self, code: Code, make: impl FnOnce(&str) -> Diagnostic) {
         if self.shown.len() < self.max_shown {
             let diagnostic = make(&self.file);
             debug_assert_eq!(diagnostic.code, code);
@@ -109,8 +108,8 @@ impl Report {
             }
             let noun = if n_hidden == 1 { "error" } else { "errors" };
             self.shown.push(
-                Diagnostic::error(
-                    codes::MORE_ERRORS,
+                Diagnostic::new(
+                    Code::MoreErrors,
                     format!(
                         "{}: {n_hidden} more data {noun} not shown ({by_code})",
                         self.file

@@ -20,6 +20,7 @@
 
 pub mod new;
 
+use crate::diag::Code;
 use std::fs;
 use std::path::{Path, PathBuf};
 
@@ -35,16 +36,6 @@ pub const FILE_NAME: &str = "figura.toml";
 
 /// Largest project file read, in bytes (a resource limit; the file is a few lines).
 pub const MAX_FILE_BYTES: u64 = 1024 * 1024;
-
-/// Stable codes of project file diagnostics.
-pub mod codes {
-    /// The file is not valid TOML.
-    pub const NOT_TOML: &str = "P0001";
-    /// A table or key the project file does not have.
-    pub const UNKNOWN_KEY: &str = "P0002";
-    /// A value of the wrong type, or outside its limits.
-    pub const BAD_VALUE: &str = "P0003";
-}
 
 /// The settings of a `figura.toml`, as written (paths relative to the file's folder).
 #[derive(Debug, Clone, PartialEq)]
@@ -218,7 +209,7 @@ fn toml_error(id: SourceId, text: &str, e: &toml::de::Error) -> Diagnostic {
     let span = e.span().unwrap_or(0..0);
     let end = span.end.max(span.start).min(text.len());
     let start = span.start.min(end);
-    Diagnostic::error(codes::NOT_TOML, format!("{} is not valid TOML", FILE_NAME))
+    Diagnostic::new(Code::NotToml, format!("{} is not valid TOML", FILE_NAME))
         .with_label(Span::new(id, start, end), e.message().trim().to_string())
         .with_help(SHAPE_HELP)
 }
@@ -304,8 +295,8 @@ impl Reader {
             None => format!("the known keys here are {list}"),
         };
         self.diags.push(
-            Diagnostic::error(
-                codes::UNKNOWN_KEY,
+            Diagnostic::new(
+                Code::UnknownKey,
                 format!("`{prefix}{name}` is not a setting of {FILE_NAME}"),
             )
             .with_label(self.span(key), "unknown key")
@@ -315,7 +306,7 @@ impl Reader {
 
     fn wrong_type(&mut self, value: &Spanned<DeValue<'_>>, expected: &str, found: &str) {
         self.diags.push(
-            Diagnostic::error(codes::BAD_VALUE, format!("{expected}, not a {found}"))
+            Diagnostic::new(Code::BadValue, format!("{expected}, not a {found}"))
                 .with_label(self.span(value), "wrong type")
                 .with_help(SHAPE_HELP),
         );
@@ -375,8 +366,8 @@ impl Reader {
                 _ => {
                     ok = false;
                     self.diags.push(
-                        Diagnostic::error(
-                            codes::BAD_VALUE,
+                        Diagnostic::new(
+                            Code::BadValue,
                             format!("\"{name}\" is not an output format"),
                         )
                         .with_label(self.span(item), "unknown format")
@@ -387,7 +378,7 @@ impl Reader {
         }
         if items.is_empty() {
             self.diags.push(
-                Diagnostic::error(codes::BAD_VALUE, "`formats` needs at least one format")
+                Diagnostic::new(Code::BadValue, "`formats` needs at least one format")
                     .with_label(self.span(value), "no format")
                     .with_help("write, for example, formats = [\"svg\", \"png\"]"),
             );
@@ -409,8 +400,8 @@ impl Reader {
             Some(n) if (lo..=hi).contains(&n) => Some(n),
             _ => {
                 self.diags.push(
-                    Diagnostic::error(
-                        codes::BAD_VALUE,
+                    Diagnostic::new(
+                        Code::BadValue,
                         format!("dpi must be a whole number from {lo} to {hi}"),
                     )
                     .with_label(self.span(value), "out of limits")

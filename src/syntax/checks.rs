@@ -7,6 +7,7 @@
 
 use super::ast::*;
 use super::recover::{is_unit, unit_apart};
+use crate::diag::Code;
 use crate::diag::Diagnostic;
 
 /// Every problem of form in `file`, whose spans point into `text`.
@@ -28,9 +29,12 @@ pub fn check(file: &SpecFile, text: &str) -> Vec<Diagnostic> {
 fn include_in_block(plain: &Plain, found: &mut Vec<Diagnostic>) {
     if plain.target.is_none() && plain.head.name == "include" {
         found.push(
-            Diagnostic::error("F0012", "`include` is only allowed at the top level")
-                .with_label(plain.span, "inside a block")
-                .with_help("move this line out of the block, above or below any `{ }`"),
+            Diagnostic::new(
+                Code::IncludeInBlock,
+                "`include` is only allowed at the top level",
+            )
+            .with_label(plain.span, "inside a block")
+            .with_help("move this line out of the block, above or below any `{ }`"),
         );
     }
 }
@@ -72,8 +76,8 @@ fn needs_unit(num: &Num) -> Diagnostic {
     let cm = short(mm / LengthUnit::Cm.mm(), 2);
     let inch = short(mm / LengthUnit::In.mm(), 1);
     let pt = short(mm / LengthUnit::Pt.mm(), 0);
-    Diagnostic::error(
-        "F0009",
+    Diagnostic::new(
+        Code::SizeWithoutUnit,
         format!("`{n}` needs a unit here: write `{n}mm`, `{cm}cm`, `{inch}in` or `{pt}pt`"),
     )
     .with_label(num.span, "a size needs a unit")

@@ -10,6 +10,7 @@
 //! Invariant: pest types never leave this file. Every span in the tree and in the diagnostics
 //! is a byte range inside the text that was passed in.
 
+use crate::diag::Code;
 use pest::error::{ErrorVariant, InputLocation};
 use pest::iterators::Pair;
 use pest::Parser as _;
@@ -116,25 +117,23 @@ fn finish(mut diagnostics: Vec<Diagnostic>, text: &str) -> Vec<Diagnostic> {
     }
     diagnostics.sort_by_key(|d| {
         (
-            d.code == TOO_MANY_CODE,
+            d.code == Code::TooManySyntaxErrors,
             d.span().map_or(usize::MAX, |s| s.start),
         )
     });
     diagnostics
 }
 
-const TOO_MANY_CODE: &str = "F0019";
-
 fn too_many_errors() -> Diagnostic {
-    Diagnostic::error(
-        TOO_MANY_CODE,
+    Diagnostic::new(
+        Code::TooManySyntaxErrors,
         format!("stopped after {MAX_ERRORS} syntax errors"),
     )
     .with_help("fix the errors above and run again to see the rest")
 }
 
 fn limit_reached(source: SourceId, pos: usize) -> Diagnostic {
-    Diagnostic::error("F0013", "this file is nested too deeply to read")
+    Diagnostic::new(Code::TooDeep, "this file is nested too deeply to read")
         .with_label(
             Span::new(source, pos, pos),
             "the parser ran out of room here",
@@ -490,7 +489,7 @@ impl Converter {
             Ok(v) if v.is_finite() => v,
             _ => {
                 self.error(
-                    Diagnostic::error("F0008", "a number is too large")
+                    Diagnostic::new(Code::NumberTooLarge, "a number is too large")
                         .with_label(span, "larger than the largest number Figura can hold")
                         .with_help("numbers must lie between -1.7e308 and 1.7e308"),
                 );
@@ -586,7 +585,7 @@ impl Converter {
         if !*reported {
             *reported = true;
             self.error(
-                Diagnostic::error("F0013", "this filter is nested too deeply")
+                Diagnostic::new(Code::TooDeep, "this filter is nested too deeply")
                     .with_label(span, format!("more than {MAX_CONDITION_DEPTH} levels"))
                     .with_help(
                         "split the condition, or test a list of values with `VAR in (\"a\", \"b\")`",
@@ -749,7 +748,7 @@ fn unknown_escape(span: Span, c: char) -> Diagnostic {
     } else {
         c.to_string()
     };
-    Diagnostic::error("F0003", format!("unknown escape `\\{shown}`"))
+    Diagnostic::new(Code::UnknownEscape, format!("unknown escape `\\{shown}`"))
         .with_label(span, "not an escape Figura knows")
         .with_help(
             "strings allow only `\\\"`, `\\\\` and `\\n`; write a backslash as `\\\\` \
@@ -769,7 +768,7 @@ fn unknown_unit(span: Span, number: &str, unit: &str) -> Diagnostic {
             units_list()
         )
     };
-    Diagnostic::error("F0010", format!("unknown unit `{unit}`"))
+    Diagnostic::new(Code::UnknownUnit, format!("unknown unit `{unit}`"))
         .with_label(span, format!("after `{number}`"))
         .with_help(help)
 }

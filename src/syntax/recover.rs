@@ -11,6 +11,7 @@
 //! name grammar rules.
 
 use super::scan::{Scan, Tok, TokKind};
+use crate::diag::Code;
 use crate::diag::{Diagnostic, SourceId, Span};
 
 /// Something the parser was looking for when it stopped, in user terms. The order is the
@@ -297,7 +298,7 @@ pub fn recover(failure: &Failure, cx: &Context) -> Recovery {
 }
 
 fn unclosed_string(cx: &Context, s: &Tok) -> Diagnostic {
-    Diagnostic::error("F0002", "this string is not closed")
+    Diagnostic::new(Code::UnclosedString, "this string is not closed")
         .with_label(cx.tok_span(s), "no closing `\"` on this line")
         .with_help(
             "end the string with `\"` on the same line; to put a line break inside a string, \
@@ -388,8 +389,11 @@ fn unclosed_block(cx: &Context, open: usize, next_header: Option<Span>) -> Diagn
     let scan = cx.scan;
     let header_first = scan.header_first(open);
     let header = cx.span(scan.toks[header_first].start, scan.toks[open].end);
-    let mut d = Diagnostic::error("F0004", "missing `}` to close the block that starts here")
-        .with_label(header, "this block is not closed");
+    let mut d = Diagnostic::new(
+        Code::UnclosedBlock,
+        "missing `}` to close the block that starts here",
+    )
+    .with_label(header, "this block is not closed");
     if let Some(next) = next_header {
         d = d.with_label(next, "the next block starts here");
     }
@@ -397,7 +401,7 @@ fn unclosed_block(cx: &Context, open: usize, next_header: Option<Span>) -> Diagn
 }
 
 fn unclosed_paren(cx: &Context, paren: &Tok, found: &Found, expected: &[Expect]) -> Diagnostic {
-    let mut d = Diagnostic::error("F0006", "this `(` is not closed")
+    let mut d = Diagnostic::new(Code::UnclosedParen, "this `(` is not closed")
         .with_label(cx.tok_span(paren), "this `(` has no matching `)`");
     let phrases = phrases(expected);
     if found.kind.is_some() && !phrases.is_empty() {
@@ -423,7 +427,7 @@ fn stray_close_paren(cx: &Context, found: &Found) -> Option<Recovery> {
         return None;
     }
     Some(Recovery {
-        diagnostic: Diagnostic::error("F0007", "`)` has no matching `(`")
+        diagnostic: Diagnostic::new(Code::UnmatchedParen, "`)` has no matching `(`")
             .with_label(cx.tok_span(t), "nothing to close here")
             .with_help(
                 "remove this `)`, or add the `(` it closes directly after the option's name, \
@@ -498,13 +502,13 @@ fn statement_error(failure: &Failure, cx: &Context, found: &Found) -> Diagnostic
     let prev = scan.tok_before(found.start).map(|(_, t)| *t);
     let glued = prev.is_some_and(|p| p.end == found.start);
     if found.kind == Some(TokKind::Op) && text == "=" {
-        return Diagnostic::error("F0015", "`=` is not a comparison")
+        return Diagnostic::new(Code::AssignmentInFilter, "`=` is not a comparison")
             .with_label(cx.span(found.start, found.end), "write `==` here")
             .with_help("test equality with `==`, as in `where session == \"morning\"`");
     }
     if found.kind == Some(TokKind::Name) && failure.expected.contains(&Expect::FilterValue) {
-        return Diagnostic::error(
-            "F0016",
+        return Diagnostic::new(
+            Code::BareFilterValue,
             format!(
                 "a filter compares with a string or a number, found {}",
                 found.what
@@ -520,8 +524,8 @@ fn statement_error(failure: &Failure, cx: &Context, found: &Found) -> Diagnostic
             && !glued
             && !failure.expected.contains(&Expect::Condition)
         {
-            return Diagnostic::error(
-                "F0018",
+            return Diagnostic::new(
+                Code::SpaceBeforeParen,
                 "the `(` of an option must follow its name directly",
             )
             .with_label(cx.span(p.end, found.end), "space before `(`")
@@ -536,7 +540,7 @@ fn statement_error(failure: &Failure, cx: &Context, found: &Found) -> Diagnostic
 
 /// A unit written apart from its number (`85 mm`); shared with the checks after parsing.
 pub fn unit_apart(span: Span, number: &str, unit: &str) -> Diagnostic {
-    Diagnostic::error("F0011", "a unit must follow its number directly")
+    Diagnostic::new(Code::DetachedUnit, "a unit must follow its number directly")
         .with_label(span, format!("space between `{number}` and `{unit}`"))
         .with_help(format!("write `{number}{unit}`"))
 }
@@ -573,16 +577,19 @@ fn bad_character(cx: &Context, found: &Found) -> Option<Diagnostic> {
         if joins_names {
             let fixed = hyphenated_name(cx, p.start).replace('-', "_");
             return Some(
-                Diagnostic::error("F0014", "a name cannot contain `-`")
+                Diagnostic::new(Code::StrayCharacter, "a name cannot contain `-`")
                     .with_label(span, "not allowed in a name")
                     .with_help(format!("use `_` instead: `{fixed}`")),
             );
         }
     }
     Some(
-        Diagnostic::error("F0014", format!("{} cannot be used here", found.what))
-            .with_label(span, "not allowed outside a string")
-            .with_help("names use letters, digits and `_`; put any other text in double quotes"),
+        Diagnostic::new(
+            Code::StrayCharacter,
+            format!("{} cannot be used here", found.what),
+        )
+        .with_label(span, "not allowed outside a string")
+        .with_help("names use letters, digits and `_`; put any other text in double quotes"),
     )
 }
 
@@ -638,7 +645,7 @@ fn general(failure: &Failure, cx: &Context, found: &Found) -> Diagnostic {
     } else {
         format!("expected {} here", list(&phrases))
     };
-    Diagnostic::error("F0001", message)
+    Diagnostic::new(Code::Unexpected, message)
         .with_label(cx.span(found.start, found.end), label)
         .with_help(general_help(&expected, cx, found))
 }
@@ -716,7 +723,7 @@ fn at_top_level(failure: &Failure, cx: &Context, found: &Found) -> Recovery {
     if let Some(idx) = found.tok.filter(|_| found.kind == Some(TokKind::RBrace)) {
         let t = scan.toks[idx];
         return Recovery {
-            diagnostic: Diagnostic::error("F0005", "`}` has no block to close")
+            diagnostic: Diagnostic::new(Code::UnmatchedBrace, "`}` has no block to close")
                 .with_label(cx.tok_span(&t), "no open block here")
                 .with_help("remove this `}`; each block is closed by exactly one `}`"),
             edit: Some(Edit::Blank {
@@ -744,8 +751,8 @@ fn at_top_level(failure: &Failure, cx: &Context, found: &Found) -> Recovery {
     if failure.expected.contains(&Expect::OpenBrace) && at_line_end {
         if let Some(brace) = brace_on_next_line(scan, end) {
             return Recovery {
-                diagnostic: Diagnostic::error(
-                    "F0001",
+                diagnostic: Diagnostic::new(
+                    Code::Unexpected,
                     "the `{` of a block must be on the same line as its name",
                 )
                 .with_label(cx.tok_span(&brace), "move this `{` up")
@@ -780,7 +787,7 @@ fn is_stray_statement(word: &str) -> bool {
 }
 
 fn stray_statement(cx: &Context, start: usize, end: usize) -> Diagnostic {
-    Diagnostic::error("F0017", "this statement is outside any block")
+    Diagnostic::new(Code::OutsideBlock, "this statement is outside any block")
         .with_label(cx.span(start, end), "not inside a `data` or `figure` block")
         .with_help(
             "statements go inside a block such as `figure NAME { ... }`; check for a `}` that \
@@ -903,7 +910,7 @@ fn stray_run_end(cx: &Context, from: usize) -> usize {
 
 /// Nesting deeper than the parser allows, found before parsing.
 pub fn too_deep(source: SourceId, paren: &Tok, limit: usize) -> Diagnostic {
-    Diagnostic::error("F0013", "parentheses are nested too deeply")
+    Diagnostic::new(Code::TooDeep, "parentheses are nested too deeply")
         .with_label(
             Span::new(source, paren.start, paren.end),
             format!("more than {limit} levels deep"),
