@@ -6,7 +6,7 @@ mod common;
 use std::path::Path;
 use std::process::Command;
 
-use figura::compute::{self, LayerMarks};
+use figura::compute::{self, LayerMarks, PointMarks};
 
 /// Names of the files in two folders, and the first file whose bytes differ.
 fn compare_folders(a: &Path, b: &Path) {
@@ -82,7 +82,9 @@ fn jitter_offsets(figure: &str) -> Vec<f64> {
         .iter()
         .flat_map(|p| &p.layers)
         .flat_map(|l| match l {
-            LayerMarks::CatPoints(points) => points.iter().map(|p| p.offset).collect(),
+            LayerMarks::Points(PointMarks::Categories(points)) => {
+                points.iter().map(|p| p.offset).collect()
+            }
             _ => Vec::new(),
         })
         .collect()

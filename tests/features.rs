@@ -298,7 +298,7 @@ figure fixed { from sleep; x extra_hours; colour drug; density bandwidth(0.75) }
     let mut curves = Vec::new();
     for (figure, drug, rule) in &cases {
         let data = project.figure_data(figure);
-        let LayerMarks::Curves(found) = layer(&data, 0, 0) else {
+        let LayerMarks::Density(found) = layer(&data, 0, 0) else {
             panic!("{figure} draws no curves")
         };
         let group = drug.map_or(0, |d| if d == "A" { 0 } else { 1 });
@@ -355,7 +355,7 @@ figure violins { from sleep; x drug; y extra_hours; violin bandwidth(silverman);
     project.build();
     let summary = project.summary("violins");
     let data = project.figure_data("violins");
-    let LayerMarks::Violins { marks, peak } = layer(&data, 0, 0) else {
+    let LayerMarks::Violin(marks) = layer(&data, 0, 0) else {
         panic!("no violins")
     };
     let mut kde_request = Vec::new();
@@ -384,7 +384,7 @@ figure violins { from sleep; x drug; y extra_hours; violin bandwidth(silverman);
         .flat_map(|v| &v.outline)
         .map(|p| p.1)
         .fold(0.0, f64::max);
-    assert_eq!(*peak, largest, "one width scale for every violin");
+    assert_eq!(data.width_peak, largest, "one width scale for every violin");
     for (slot, drug) in ["A", "B"].iter().enumerate() {
         let violin = marks.iter().find(|v| v.x == slot).unwrap();
         // Bandwidth: Silverman's rule restated in numpy.
@@ -548,10 +548,10 @@ fn flows_match_a_hand_counted_cross_tabulation() {
     assert_eq!(summary.value("flows", "", "v2", "n_missing"), 1.0);
     assert_eq!(summary.value("flows", "", "v3", "n"), 7.0);
     let data = project.figure_data("moves");
-    let LayerMarks::Flows(flows) = layer(&data, 0, 0) else {
+    let LayerMarks::Flows(_) = layer(&data, 0, 0) else {
         panic!("no flows")
     };
-    assert_eq!(flows.peak, 7, "the most subjects at any visit");
+    assert_eq!(data.width_peak, 7.0, "the most subjects at any visit");
     assert_eq!(data.panels[0].n_by_x, [7, 5, 7]);
 }
 
@@ -680,7 +680,7 @@ figure line { from norris; x x; y y; points; fit linear band(0.95) }
     let t = number(&reference("t", json!([[0.975, 34]]))[0]);
     let mean_x = pairs.iter().map(|p| p.0).sum::<f64>() / 36.0;
     let data = project.figure_data("line");
-    let LayerMarks::Fits(fits) = layer(&data, 0, 1) else {
+    let LayerMarks::Fit(fits) = layer(&data, 0, 1) else {
         panic!("no fit")
     };
     let fit = &fits[0];

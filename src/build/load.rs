@@ -4,13 +4,12 @@
 //! resolved relative to the including file; missing includes and include cycles are
 //! diagnostics with the span of the `include` statement.
 
-use crate::diag::Code;
 use std::collections::BTreeMap;
 use std::fs;
 use std::path::{Path, PathBuf};
 
 use crate::check::SpecUnit;
-use crate::diag::{Diagnostic, SourceId, SourceMap};
+use crate::diag::{Code, Diagnostic, SourceId, SourceMap};
 use crate::syntax::{self, ast::Item};
 
 use super::BuildError;

@@ -1,13 +1,18 @@
 //! Checking `data` blocks: variables with their scales, missing-value markers and the design.
 
-use crate::diag::Code;
 use std::path::Path;
 
-use crate::diag::{did_you_mean, Diagnostic, Span};
+use crate::diag::{did_you_mean, Code, Diagnostic, Span};
 use crate::syntax::ast::{Block, Ident, Plain, Statement, Term};
 
 use super::plan::{Codebook, Collapse, Replicates, Scale, VarId, Variable};
 use super::terms::{self, Accepts};
+
+/// The options of a variable declaration, in canonical order (`levels` and `labels` only for
+/// nominal and ordinal variables).
+pub const VARIABLE_OPTIONS: &[&str] = &["levels", "labels", "label", "unit", "column"];
+/// The options of `replicates VAR`.
+pub const REPLICATES_OPTIONS: &[&str] = &["collapse"];
 
 const SCALES: [&str; 5] = ["id", "nominal", "ordinal", "interval", "ratio"];
 const DATA_STATEMENTS: [&str; 5] = ["missing", "subject", "within", "between", "replicates"];
@@ -136,21 +141,13 @@ fn declare(book: &mut Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) {
         );
         return;
     }
-    let calls: &[&str] = if scale.is_categorical() {
-        &["levels", "labels", "label", "unit", "column"]
-    } else {
-        &["label", "unit", "column"]
-    };
+    let calls: Vec<&str> = VARIABLE_OPTIONS
+        .iter()
+        .copied()
+        .filter(|o| scale.is_categorical() || !matches!(*o, "levels" | "labels"))
+        .collect();
     let what = format!("a {} variable", scale.as_str());
-    let opts = terms::options(
-        &p.terms,
-        &Accepts {
-            what: &what,
-            calls,
-            flags: &[],
-        },
-        diags,
-    );
+    let opts = terms::options(&p.terms, &Accepts::calls(&what, &calls), diags);
     let mut var = Variable {
         name: target.name.clone(),
         column: target.name.clone(),
@@ -420,11 +417,7 @@ fn replicates(book: &mut Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) {
     let Some(id) = resolve(book, name, diags) else {
         return;
     };
-    let accepts = Accepts {
-        what: "`replicates`",
-        calls: &["collapse"],
-        flags: &[],
-    };
+    let accepts = Accepts::calls("`replicates`", REPLICATES_OPTIONS);
     let opts = terms::options(&p.terms[1..], &accepts, diags);
     let collapse = match opts.call("collapse") {
         None => Collapse::Mean,

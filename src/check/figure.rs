@@ -1,19 +1,17 @@
-//! Checking `figure` blocks: resolving names, choosing the frame, and the scale rules of §4.
+//! Checking `figure` blocks: their statements, axes, groupings, sizes and layers, and the
+//! warnings about hidden data.
 
-use crate::diag::Code;
 use std::path::Path;
 
-use crate::diag::{did_you_mean, Diagnostic, Span};
+use crate::diag::{did_you_mean, Code, Diagnostic, Span};
 use crate::syntax::ast::{Block, Ident, Plain, Statement, Term, Where};
 
-use super::codebook::{resolve, unknown_variable};
+use super::axes::{self, not_categorical};
+use super::codebook::unknown_variable;
 use super::filter::check_filter;
-use super::layers::{self, LayerKind, RawLayer};
-use super::plan::{
-    AxisScale, CatAxis, CatVar, Codebook, FigurePlan, Filter, Formats, LevelOrder, NumAxis, NumVar,
-    Scale,
-};
-use super::terms::{self, Accepts};
+use super::layer::{self, shape, Fitted, LayerPlan, Shows, LAYERS};
+use super::plan::{CatVar, Codebook, FigurePlan, Filter, Formats, Scale};
+use super::terms;
 
 /// Default printed size: 85 mm × 65 mm (a single journal column).
 pub const DEFAULT_SIZE_MM: (f64, f64) = (85.0, 65.0);
@@ -64,7 +62,7 @@ struct Parts<'a> {
     formats: Option<&'a Plain>,
     dpi: Option<&'a Plain>,
     filter: Option<&'a Where>,
-    layers: Vec<&'a Plain>,
+    layers: Vec<(&'static layer::LayerDecl, &'a Plain)>,
 }
 
 /// Checks one figure against the data blocks visible from its file.
@@ -100,8 +98,8 @@ pub fn check_figure(
         .caption
         .and_then(|p| terms::one_string(p, "caption \"...\"", diags))
         .map(|s| s.value.clone());
-    let x = parts.x.and_then(|p| axis_var(book, p, diags));
-    let y = parts.y.map(|p| axis_var(book, p, diags));
+    let x = parts.x.and_then(|p| axes::axis_var(book, p, diags));
+    let y = parts.y.map(|p| axes::axis_var(book, p, diags));
     let colour = parts.colour.and_then(|p| grouping(book, p, diags));
     let panels = parts.panels.and_then(|p| grouping(book, p, diags));
     // A bad size, format list or dpi is reported, and the rest of the figure is still checked
@@ -122,10 +120,11 @@ pub fn check_figure(
     let filter: Option<Filter> = parts
         .filter
         .and_then(|w| check_filter(book, &w.expr, diags));
-    let raw_layers: Vec<RawLayer> = parts
+    // Unknown and repeated options of every layer first, then the axes, then each layer.
+    let layer_opts: Vec<_> = parts
         .layers
         .iter()
-        .filter_map(|p| layers::read_layer(book, p, diags))
+        .map(|(decl, p)| terms::options(&p.terms, &decl.accepts(&decl.quoted()), diags))
         .collect();
     if parts.layers.is_empty() {
         diags.push(
@@ -138,38 +137,50 @@ pub fn check_figure(
         );
         return None;
     }
-    if parts.x.is_none() {
-        diags.push(
-            Diagnostic::new(
-                Code::MissingStatement,
-                format!("figure `{}` has no `x`", block.name.name),
-            )
-            .with_label(block.name.span, "no x axis")
-            .with_help("add `x VARIABLE`"),
-        );
+    let Some(x) = x else {
+        if parts.x.is_none() {
+            diags.push(
+                Diagnostic::new(
+                    Code::MissingStatement,
+                    format!("figure `{}` has no `x`", block.name.name),
+                )
+                .with_label(block.name.span, "no x axis")
+                .with_help("add `x VARIABLE`"),
+            );
+        }
         return None;
     };
-    let x = x?;
-    let frame = layers::frame(
-        book,
-        layers::FrameInput {
-            x,
-            y,
-            layers: raw_layers,
-        },
-        diags,
-    )?;
-    if let (super::plan::Frame::Flows { .. }, Some(c)) = (&frame, &colour) {
-        diags.push(
-            Diagnostic::new(
-                Code::LayerDoesNotFit,
-                "flows are coloured by their states; `colour` cannot split them",
-            )
-            .with_label(c.span, "a second colouring")
-            .with_help(
-                "remove `colour`, or show each group's flows in its own panel with `panels`",
-            ),
-        );
+    let y = match y {
+        Some(None) => return None,
+        Some(Some(y)) => Some(y),
+        None => None,
+    };
+    let errors_before_axes = count_errors(diags);
+    let plan_axes = axes::axes(book, &x, y.as_ref(), diags);
+    let fitted = plan_axes.as_ref().map(|_| Fitted {
+        x: &x,
+        y: y.as_ref(),
+    });
+    let layers = fit_layers(book, &parts.layers, &layer_opts, fitted, diags);
+    if let Some(alone) = layers.iter().find(|l| l.decl.alone) {
+        if let Some(c) = &colour {
+            diags.push(
+                Diagnostic::new(
+                    Code::LayerDoesNotFit,
+                    format!(
+                        "{} are coloured by their states; `colour` cannot split them",
+                        alone.decl.quoted()
+                    ),
+                )
+                .with_label(c.span, "a second colouring")
+                .with_help(
+                    "remove `colour`, or show each group's flows in its own panel with `panels`",
+                ),
+            );
+        }
+    }
+    if count_errors(diags) == errors_before_axes {
+        warn_hidden_data(&layers, diags);
     }
     if count_errors(diags) > errors_before {
         return None;
@@ -181,7 +192,8 @@ pub fn check_figure(
         data: data_idx,
         title,
         caption,
-        frame,
+        axes: plan_axes?,
+        layers,
         colour,
         panels,
         filter,
@@ -190,6 +202,79 @@ pub fn check_figure(
         formats,
         dpi,
     })
+}
+
+/// Fits every layer to the axes and reads its options; a layer after an `alone` layer that
+/// fits (flows) is refused, as is every other layer beside it.
+fn fit_layers(
+    book: &Codebook,
+    stmts: &[(&'static layer::LayerDecl, &Plain)],
+    opts: &[terms::Options],
+    fitted: Option<Fitted>,
+    diags: &mut Vec<Diagnostic>,
+) -> Vec<LayerPlan> {
+    let fits = |decl: &layer::LayerDecl, p: &Plain, diags: &mut Vec<Diagnostic>| {
+        fitted.is_some_and(|f| shape::fits(decl, p.head.span, book, f.x, f.y, diags))
+    };
+    let alone = fitted.and_then(|f| {
+        stmts.iter().find(|(decl, p)| {
+            decl.alone && shape::fits(decl, p.head.span, book, f.x, f.y, &mut Vec::new())
+        })
+    });
+    let mut out = Vec::new();
+    for ((decl, p), opts) in stmts.iter().zip(opts) {
+        let fit = match alone {
+            Some((alone, _)) if alone.word != decl.word => {
+                diags.push(
+                    Diagnostic::new(
+                        Code::LayerDoesNotFit,
+                        format!(
+                            "{} cannot share a figure with {}",
+                            decl.quoted(),
+                            alone.quoted()
+                        ),
+                    )
+                    .with_label(p.head.span, "does not fit")
+                    .with_help(format!("draw {} in a figure of their own", alone.word)),
+                );
+                false
+            }
+            _ => fits(decl, p, diags),
+        };
+        let axes = fitted.filter(|_| fit);
+        if let Some(plan) = layer::read(decl, book, p, opts, axes, diags) {
+            if fit {
+                out.push(plan);
+            }
+        }
+    }
+    out
+}
+
+/// The two warnings of §6: a mean with nothing that shows spread or values; bars without points.
+fn warn_hidden_data(layers: &[LayerPlan], diags: &mut Vec<Diagnostic>) {
+    let shows = |what: &[Shows]| layers.iter().any(|l| what.contains(&l.decl.shows));
+    for l in layers {
+        if l.traits.needs_spread && !shows(&[Shows::Values, Shows::Distribution]) {
+            diags.push(
+                Diagnostic::new(Code::MeanAlone, "a mean alone hides how the values spread")
+                    .with_label(l.head, "only the mean is shown")
+                    .with_help(
+                        "add `points`, `box` or `violin` so readers see the distribution and n",
+                    ),
+            );
+        }
+        if let (Some(bar), false) = (l.traits.needs_points, shows(&[Shows::Values])) {
+            diags.push(
+                Diagnostic::new(
+                    Code::BarWithoutPoints,
+                    "bars of means hide the distribution",
+                )
+                .with_label(bar, "bar without points")
+                .with_help("add `points jitter(0.2)` to show the individual values"),
+            );
+        }
+    }
 }
 
 fn count_errors(diags: &[Diagnostic]) -> usize {
@@ -232,8 +317,8 @@ fn sort_statements<'a>(block: &'a Block, diags: &mut Vec<Diagnostic>) -> Parts<'
             "size" => &mut parts.size,
             "formats" => &mut parts.formats,
             "dpi" => &mut parts.dpi,
-            name if LayerKind::from_word(name).is_some() => {
-                parts.layers.push(p);
+            name if layer::find(name).is_some() => {
+                parts.layers.extend(layer::find(name).map(|decl| (decl, p)));
                 continue;
             }
             _ => {
@@ -263,7 +348,7 @@ fn unknown_figure_statement(head: &Ident) -> Diagnostic {
     let known = FIGURE_STATEMENTS
         .iter()
         .copied()
-        .chain(LayerKind::ALL.iter().map(|k| k.word()));
+        .chain(LAYERS.iter().map(|d| d.word));
     let d = Diagnostic::new(
         Code::UnknownStatement,
         format!("`{}` is not a statement or layer of a figure", head.name),
@@ -274,11 +359,7 @@ fn unknown_figure_statement(head: &Ident) -> Diagnostic {
         None => d.with_help(format!(
             "figure statements: {}; layers: {}",
             FIGURE_STATEMENTS.join(", "),
-            LayerKind::ALL
-                .iter()
-                .map(|k| k.word())
-                .collect::<Vec<_>>()
-                .join(", ")
+            LAYERS.iter().map(|d| d.word).collect::<Vec<_>>().join(", ")
         )),
     }
 }
@@ -316,205 +397,6 @@ fn resolve_data<'b>(
     None
 }
 
-/// A variable named by `x` or `y`, with its axis options, before the frame decides its role.
-#[derive(Debug, Clone)]
-pub struct AxisVar {
-    pub var: super::plan::VarId,
-    pub scale: Scale,
-    pub name_span: Span,
-    pub title: Option<String>,
-    pub range: Option<(f64, f64)>,
-    pub log_span: Option<Span>,
-    pub order: Option<(LevelOrder, Span)>,
-}
-
-impl AxisVar {
-    pub fn cat_axis(&self) -> CatAxis {
-        CatAxis {
-            var: CatVar {
-                var: self.var,
-                ordered: self.scale == Scale::Ordinal,
-                span: self.name_span,
-            },
-            title: self.title.clone(),
-            order: self.order.map_or(LevelOrder::Levels, |(o, _)| o),
-        }
-    }
-
-    pub fn num_axis(&self) -> NumAxis {
-        NumAxis {
-            var: NumVar {
-                var: self.var,
-                ratio: self.scale == Scale::Ratio,
-                span: self.name_span,
-            },
-            title: self.title.clone(),
-            range: self.range,
-            scale: if self.log_span.is_some() {
-                AxisScale::Log
-            } else {
-                AxisScale::Linear
-            },
-            scale_span: self.log_span,
-        }
-    }
-}
-
-fn axis_var(book: &Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) -> Option<AxisVar> {
-    let axis = p.head.name.as_str();
-    let Some(Term::Word(name)) = p.terms.first() else {
-        diags.push(
-            Diagnostic::new(Code::BadArgument, format!("`{axis}` needs a variable"))
-                .with_label(p.head.span, "which variable?")
-                .with_help(format!("write `{axis} VARIABLE`")),
-        );
-        return None;
-    };
-    let id = resolve(book, name, diags)?;
-    let var = book.var(id);
-    let accepts = Accepts {
-        what: "an axis",
-        calls: &["label", "range", "scale", "order"],
-        flags: &[],
-    };
-    let opts = terms::options(&p.terms[1..], &accepts, diags);
-    let mut out = AxisVar {
-        var: id,
-        scale: var.scale,
-        name_span: name.span,
-        title: None,
-        range: None,
-        log_span: None,
-        order: None,
-    };
-    if let Some(c) = opts.call("label") {
-        let shape = "label(\"Axis title\")";
-        out.title = terms::single(c, shape, diags)
-            .and_then(|t| terms::expect_str(t, shape, diags))
-            .map(|s| s.value.clone());
-    }
-    if let Some(c) = opts.call("range") {
-        out.range = range(c, var.scale, diags);
-    }
-    if let Some(c) = opts.call("scale") {
-        let shape = "scale(log)";
-        let choice = terms::single(c, shape, diags)
-            .and_then(|t| terms::expect_choice(t, &["linear", "log"], shape, diags));
-        if let Some(w) = choice {
-            if w.name == "log" {
-                out.log_span = log_allowed(var, c.span, diags).then_some(c.span);
-            }
-        }
-    }
-    if let Some(c) = opts.call("order") {
-        out.order = order(var, c, diags).map(|o| (o, c.span));
-    }
-    if let (Some(log), Some((lo, _))) = (out.log_span, out.range) {
-        if lo <= 0.0 {
-            diags.push(
-                Diagnostic::new(Code::BadArgument, "a log axis cannot reach zero or below")
-                    .with_label(log, "log scale")
-                    .with_label(
-                        opts.call("range").map_or(log, |c| c.span),
-                        "range starts at or below zero",
-                    )
-                    .with_help("start the range above zero, e.g. `range(1, 1000)`"),
-            );
-            out.range = None;
-        }
-    }
-    Some(out)
-}
-
-fn range(
-    c: &crate::syntax::ast::Call,
-    scale: Scale,
-    diags: &mut Vec<Diagnostic>,
-) -> Option<(f64, f64)> {
-    let shape = "range(0, 100)";
-    if !scale.is_numeric() {
-        diags.push(
-            Diagnostic::new(Code::BadArgument, "`range` applies to a numeric axis")
-                .with_label(c.span, "on a categorical axis")
-                .with_help("remove `range(...)`; a categorical axis shows its levels"),
-        );
-        return None;
-    }
-    let args = terms::arity(c, 2, shape, diags)?;
-    let lo = terms::expect_num(&args[0], shape, diags)?;
-    let hi = terms::expect_num(&args[1], shape, diags)?;
-    if lo.value >= hi.value {
-        diags.push(
-            Diagnostic::new(
-                Code::BadArgument,
-                "the range's low end is not below its high end",
-            )
-            .with_label(c.args.span, "empty range")
-            .with_help("write the lower limit first, e.g. `range(0, 100)`"),
-        );
-        return None;
-    }
-    Some((lo.value, hi.value))
-}
-
-fn log_allowed(var: &super::plan::Variable, span: Span, diags: &mut Vec<Diagnostic>) -> bool {
-    match var.scale {
-        Scale::Ratio => true,
-        Scale::Interval => {
-            diags.push(
-                Diagnostic::new(Code::LogOfInterval, format!("a log scale needs a true zero, and `{}` is interval", var.name))
-                    .with_label(span, "log scale")
-                    .with_label(var.span, "declared interval here")
-                    .with_help("ratios of interval values mean nothing; use a linear scale, or declare the variable `ratio` if it has a true zero"),
-            );
-            false
-        }
-        _ => {
-            diags.push(
-                Diagnostic::new(
-                    Code::LogOfInterval,
-                    "a log scale applies to numeric variables only",
-                )
-                .with_label(span, "log scale on a categorical axis")
-                .with_help("remove `scale(log)`"),
-            );
-            false
-        }
-    }
-}
-
-fn order(
-    var: &super::plan::Variable,
-    c: &crate::syntax::ast::Call,
-    diags: &mut Vec<Diagnostic>,
-) -> Option<LevelOrder> {
-    let shape = "order(count)";
-    let w = terms::single(c, shape, diags)
-        .and_then(|t| terms::expect_choice(t, &["levels", "count", "name"], shape, diags))?;
-    let order = match w.name.as_str() {
-        "count" => LevelOrder::Count,
-        "name" => LevelOrder::Name,
-        _ => LevelOrder::Levels,
-    };
-    if var.scale == Scale::Ordinal && order != LevelOrder::Levels {
-        diags.push(
-            Diagnostic::new(Code::OrdinalReordered, "an ordinal axis keeps the order of its levels")
-                .with_label(c.span, "reorders an ordinal axis")
-                .with_help(format!("`{}` is ordinal: remove `order(...)`, or declare it nominal if its levels have no order", var.name)),
-        );
-        return None;
-    }
-    if !var.scale.is_categorical() {
-        diags.push(
-            Diagnostic::new(Code::BadArgument, "`order` applies to a categorical axis")
-                .with_label(c.span, "on a numeric axis")
-                .with_help("remove `order(...)`"),
-        );
-        return None;
-    }
-    Some(order)
-}
-
 /// `colour VAR` or `panels VAR`: a categorical variable.
 fn grouping(book: &Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) -> Option<CatVar> {
     let role = p.head.name.as_str();
@@ -533,26 +415,6 @@ fn grouping(book: &Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) -> Option<C
         ordered: var.scale == Scale::Ordinal,
         span: name.span,
     })
-}
-
-/// Rule 6: a grouping or categorical role on a numeric variable or an id.
-pub fn not_categorical(var: &super::plan::Variable, span: Span, role: &str) -> Diagnostic {
-    let why = if var.scale == Scale::Id {
-        "an id names observational units; it is never a category to compare".to_string()
-    } else {
-        format!(
-            "`{}` is {}: its values are numbers, not categories",
-            var.name,
-            var.scale.as_str()
-        )
-    };
-    Diagnostic::new(
-        Code::NotCategorical,
-        format!("{role} needs a nominal or ordinal variable"),
-    )
-    .with_label(span, format!("declared {}", var.scale.as_str()))
-    .with_label(var.span, "declared here")
-    .with_help(format!("{why}; choose a nominal or ordinal variable"))
 }
 
 fn size(p: &Plain, diags: &mut Vec<Diagnostic>) -> Option<(f64, f64)> {

@@ -1,7 +1,6 @@
 //! Checking `where` filters: names resolved, levels declared, comparisons that fit the scale.
 
-use crate::diag::Code;
-use crate::diag::{did_you_mean, Diagnostic};
+use crate::diag::{did_you_mean, Code, Diagnostic};
 use crate::syntax::ast::{CompareOp, Expr, Ident, Value};
 
 use super::codebook::resolve;

@@ -7,23 +7,23 @@
 //! Invariant: the checker reads no data file. Rules that depend on the data's values are
 //! applied when the numbers are computed, using the spans kept in the plan.
 
+mod axes;
 mod codebook;
-
 mod figure;
 mod filter;
-mod layers;
+pub mod layer;
 pub mod plan;
 mod terms;
 
-use crate::diag::Code;
 use std::collections::BTreeMap;
 use std::path::{Path, PathBuf};
 
-use crate::diag::{Diagnostic, Span};
+use crate::diag::{Code, Diagnostic, Span};
 use crate::syntax::ast::{Item, SpecFile};
 
+pub use axes::AXIS_OPTIONS;
+pub use codebook::{REPLICATES_OPTIONS, VARIABLE_OPTIONS};
 pub use figure::{FigureDefaults, DEFAULT_DPI, DEFAULT_SIZE_MM, DPI_LIMITS, SIZE_LIMITS_MM};
-pub use layers::LayerKind;
 pub use plan::*;
 
 /// One parsed spec file, with the files it includes (indices into the same list).

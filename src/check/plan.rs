@@ -2,8 +2,9 @@
 //!
 //! Guarantees, once a [`FigurePlan`] exists:
 //! - every variable reference is resolved to a declared variable of its data block;
-//! - every layer fits the figure's axes and the scales of their variables (a histogram holds a
-//!   numeric x by type; a mean holds a numeric y by type; lines hold the declared subject);
+//! - every layer fits the figure's axes and the scales of their variables (the axes are typed:
+//!   a numeric axis holds a `NumVar`, a categorical one a `CatVar`), and holds its options typed
+//!   and in range (see [`super::layer`]); lines and flows hold the declared subject;
 //! - option values are in range (jitter in [0, 1], interval levels in (0, 1), sizes positive);
 //! - `colour` and `panels` are categorical variables.
 //!
@@ -14,6 +15,11 @@
 use std::path::PathBuf;
 
 use crate::diag::Span;
+
+pub use super::layer::{
+    BoxOpts, CountsOpts, DensityOpts, FitOpts, FlowsOpts, HistogramOpts, Layer, LayerPlan,
+    LinesOpts, MeanOpts, MedianOpts, PointsOpts, ViolinOpts,
+};
 
 /// Stevens' level of measurement of a variable, plus `id`.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -231,101 +237,19 @@ pub enum Bandwidth {
     Fixed(f64),
 }
 
-/// A layer over a categorical x and no y.
+/// The figure's axes; the shape (categorical or numeric x, and y) decides which layers fit.
 #[derive(Debug, Clone, PartialEq)]
-pub enum CountLayer {
-    Counts { heights: Heights, span: Span },
-}
-
-/// A layer over a categorical x and a numeric y.
-#[derive(Debug, Clone, PartialEq)]
-pub enum CatNumLayer {
-    Points {
-        jitter: f64,
-        span: Span,
-    },
-    Box {
-        whiskers: Whiskers,
-        span: Span,
-    },
-    Mean {
-        error: Option<ErrorBar>,
-        bar: bool,
-        span: Span,
-    },
-    Median {
-        error: Option<ErrorBar>,
-        span: Span,
-    },
-    Lines {
-        by: VarId,
-        span: Span,
-    },
-    Violin {
-        bandwidth: Bandwidth,
-        span: Span,
-    },
-}
-
-/// A layer over a categorical x and an ordinal y.
-#[derive(Debug, Clone, PartialEq)]
-pub enum CatOrdLayer {
-    Median { span: Span },
-}
-
-/// A layer over a numeric x and no y.
-#[derive(Debug, Clone, PartialEq)]
-pub enum DistLayer {
-    Histogram {
-        rule: BinRule,
-        heights: Heights,
-        span: Span,
-    },
-    Density {
-        bandwidth: Bandwidth,
-        span: Span,
-    },
-}
-
-/// A layer over a numeric x and a numeric y.
-#[derive(Debug, Clone, PartialEq)]
-pub enum XyLayer {
-    Points { span: Span },
-    Fit { band: Option<f64>, span: Span },
-}
-
-/// The figure's axes and layers; each shape admits only the layers that fit it.
-#[derive(Debug, Clone, PartialEq)]
-pub enum Frame {
-    /// `counts`: categorical x, bar heights on y.
-    Counts { x: CatAxis, layers: Vec<CountLayer> },
-    /// Categorical x, numeric y: points, box, mean, median, lines, violin.
-    CatNum {
-        x: CatAxis,
-        y: NumAxis,
-        layers: Vec<CatNumLayer>,
-    },
-    /// Categorical x, ordinal y: medians only.
-    CatOrd {
-        x: CatAxis,
-        y: CatAxis,
-        layers: Vec<CatOrdLayer>,
-    },
-    /// Numeric x, no y: histogram, density.
-    Dist { x: NumAxis, layers: Vec<DistLayer> },
-    /// Numeric x and y: points, fit.
-    Xy {
-        x: NumAxis,
-        y: NumAxis,
-        layers: Vec<XyLayer>,
-    },
-    /// Ordinal x occasions, categorical y states: flows.
-    Flows {
-        x: CatAxis,
-        y: CatAxis,
-        by: VarId,
-        span: Span,
-    },
+pub enum Axes {
+    /// Categorical x, no y (`counts`).
+    Cat { x: CatAxis },
+    /// Categorical x, numeric y (points, box, violin, mean, median, lines).
+    CatNum { x: CatAxis, y: NumAxis },
+    /// Categorical x and y (ordinal medians, flows).
+    CatCat { x: CatAxis, y: CatAxis },
+    /// Numeric x, no y (histogram, density).
+    Num { x: NumAxis },
+    /// Numeric x and y (points, fit).
+    NumNum { x: NumAxis, y: NumAxis },
 }
 
 /// Output formats.
@@ -366,7 +290,9 @@ pub struct FigurePlan {
     pub data: usize,
     pub title: Option<String>,
     pub caption: Option<String>,
-    pub frame: Frame,
+    pub axes: Axes,
+    /// The layers in the order written (and drawn).
+    pub layers: Vec<LayerPlan>,
     pub colour: Option<CatVar>,
     pub panels: Option<CatVar>,
     pub filter: Option<Filter>,

@@ -3,9 +3,10 @@
 //! The syntax tree does not know which words a statement accepts; these helpers turn terms into
 //! typed values and report anything unknown, repeated or of the wrong kind with its span.
 
-use crate::diag::Code;
-use crate::diag::{did_you_mean, Diagnostic, Span};
+use crate::diag::{did_you_mean, Code, Diagnostic, Span};
 use crate::syntax::ast::{Args, Call, Ident, Num, Plain, Str, Term};
+
+use super::layer::OptionDecl;
 
 /// The options (`name(args)`) and flags (bare words) of a statement, after validation.
 #[derive(Debug, Default)]
@@ -28,8 +29,35 @@ impl<'a> Options<'a> {
 pub struct Accepts<'s> {
     /// What the statement is called in messages, e.g. "`histogram`".
     pub what: &'s str,
-    pub calls: &'s [&'s str],
-    pub flags: &'s [&'s str],
+    pub calls: Vec<&'s str>,
+    pub flags: Vec<&'s str>,
+}
+
+impl<'s> Accepts<'s> {
+    /// A statement that takes only `name(args)` options.
+    pub fn calls(what: &'s str, calls: &[&'s str]) -> Accepts<'s> {
+        Accepts {
+            what,
+            calls: calls.to_vec(),
+            flags: Vec::new(),
+        }
+    }
+
+    /// The options a layer declares.
+    pub fn from_decls(what: &'s str, decls: &[OptionDecl]) -> Accepts<'s> {
+        let names = |flag: bool| {
+            decls
+                .iter()
+                .filter(|d| d.flag == flag)
+                .map(|d| d.name)
+                .collect()
+        };
+        Accepts {
+            what,
+            calls: names(false),
+            flags: names(true),
+        }
+    }
 }
 
 /// Sorts `terms` into options and flags, reporting unknown and repeated ones.

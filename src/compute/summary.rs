@@ -2,8 +2,9 @@
 //!
 //! Header `panel,layer,group,x,stat,value`. Numbers are written as the shortest text that reads
 //! back to the same double (Rust's `Display` for `f64`); an ordinal median is its level's name.
+//! The statistic names are the [`Stat`] table's.
 
-use std::fmt::Write as _;
+use super::layer::Stat;
 
 /// A value in the summary.
 #[derive(Debug, Clone, PartialEq)]
@@ -17,10 +18,11 @@ pub enum StatValue {
 #[derive(Debug, Clone, PartialEq)]
 pub struct SummaryRow {
     pub panel: String,
+    /// The layer's word.
     pub layer: &'static str,
     pub group: String,
     pub x: String,
-    pub stat: &'static str,
+    pub stat: Stat,
     pub value: StatValue,
 }
 
@@ -34,19 +36,27 @@ pub struct RowKey {
 }
 
 impl RowKey {
-    pub fn number(&self, stat: &'static str, value: f64) -> SummaryRow {
+    pub fn number(&self, stat: Stat, value: f64) -> SummaryRow {
         self.row(stat, StatValue::Number(value))
     }
 
-    pub fn count(&self, stat: &'static str, value: usize) -> SummaryRow {
+    pub fn count(&self, stat: Stat, value: usize) -> SummaryRow {
         self.row(stat, StatValue::Number(value as f64))
     }
 
-    pub fn level(&self, stat: &'static str, level: &str) -> SummaryRow {
+    pub fn level(&self, stat: Stat, level: &str) -> SummaryRow {
         self.row(stat, StatValue::Level(level.to_string()))
     }
 
-    fn row(&self, stat: &'static str, value: StatValue) -> SummaryRow {
+    /// The same place at another x.
+    pub fn at(&self, x: impl Into<String>) -> RowKey {
+        RowKey {
+            x: x.into(),
+            ..self.clone()
+        }
+    }
+
+    fn row(&self, stat: Stat, value: StatValue) -> SummaryRow {
         SummaryRow {
             panel: self.panel.clone(),
             layer: self.layer,
@@ -75,32 +85,29 @@ pub fn bin_label(lo: f64, hi: f64, last: bool) -> String {
 
 /// Renders the rows as CSV text (RFC 4180 quoting where needed).
 pub fn to_csv(rows: &[SummaryRow]) -> String {
-    let mut out = String::from("panel,layer,group,x,stat,value\n");
+    let mut out = csv::WriterBuilder::new()
+        .terminator(csv::Terminator::Any(b'\n'))
+        .from_writer(Vec::new());
+    let header = ["panel", "layer", "group", "x", "stat", "value"];
+    // Writing to a Vec cannot fail.
+    out.write_record(header).expect("writing to memory");
     for r in rows {
         let value = match &r.value {
             StatValue::Number(v) => format_number(*v),
             StatValue::Level(l) => l.clone(),
         };
-        let _ = writeln!(
-            out,
-            "{},{},{},{},{},{}",
-            quote(&r.panel),
+        out.write_record([
+            r.panel.as_str(),
             r.layer,
-            quote(&r.group),
-            quote(&r.x),
-            r.stat,
-            quote(&value)
-        );
+            r.group.as_str(),
+            r.x.as_str(),
+            r.stat.as_str(),
+            value.as_str(),
+        ])
+        .expect("writing to memory");
     }
-    out
-}
-
-fn quote(field: &str) -> String {
-    if field.contains([',', '"', '\n', '\r']) {
-        format!("\"{}\"", field.replace('"', "\"\""))
-    } else {
-        field.to_string()
-    }
+    let bytes = out.into_inner().expect("writing to memory");
+    String::from_utf8(bytes).expect("the fields are UTF-8")
 }
 
 #[cfg(test)]
@@ -125,7 +132,7 @@ mod tests {
             group: String::new(),
             x: bin_label(0.0, 2.5, false),
         };
-        let csv = to_csv(&[key.count("count", 3)]);
+        let csv = to_csv(&[key.count(Stat::Count, 3)]);
         assert_eq!(
             csv,
             "panel,layer,group,x,stat,value\n,histogram,,\"[0,2.5)\",count,3\n"

@@ -5,12 +5,11 @@
 //! while reading, should it grow or report no size). The text must be UTF-8 without NUL bytes;
 //! anything else is one error naming the line and byte offset of the first bad byte.
 
-use crate::diag::Code;
 use std::fs::File;
 use std::io::{self, Read};
 use std::path::Path;
 
-use crate::diag::Diagnostic;
+use crate::diag::{Code, Diagnostic};
 
 use super::report::{file_label, quoted};
 use super::spec::TableSpec;

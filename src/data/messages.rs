@@ -3,8 +3,7 @@
 //! Messages name the file, the row (header = row 1), the column and the value, so they read
 //! well even without the labelled excerpt; labels point at the exact field in the data file.
 
-use crate::diag::Code;
-use crate::diag::{Diagnostic, Span};
+use crate::diag::{Code, Diagnostic, Span};
 
 use super::cells::{level_hint, CellProblem, LevelHint};
 use super::numbers::{is_common_missing_marker, NonFinite, NotNumberHint};

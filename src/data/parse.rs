@@ -6,10 +6,9 @@
 //! cap, see [`super::report`]); a row of the wrong width is reported once and its cells are
 //! not read, since they cannot be matched to columns.
 
-use crate::diag::Code;
 use std::borrow::Cow;
 
-use crate::diag::{Diagnostic, SourceId, Span};
+use crate::diag::{Code, Diagnostic, SourceId, Span};
 
 use super::cells::ColumnBuilder;
 use super::load::ReadLimits;

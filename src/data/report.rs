@@ -2,12 +2,11 @@
 //! full, and the rest are summed up in one closing diagnostic so a broken file cannot flood the
 //! terminal. Also the shared wording for places in a data file (`speeds.csv row 14`).
 
-use crate::diag::Code;
 use std::collections::BTreeMap;
 use std::fmt::Write as _;
 use std::path::{Path, PathBuf};
 
-use crate::diag::{Diagnostic, Span};
+use crate::diag::{Code, Diagnostic, Span};
 
 /// How a data file is named in messages: its file name, or the whole path when it has none.
 pub(super) fn file_label(path: &Path) -> String {

@@ -3,8 +3,11 @@
 //! A statement's terms are its *fixed* terms (read by position, e.g. the variable of `x medium`
 //! or the three terms of `size 85mm x 60mm`) followed by its *options* (`name(args)` or a bare
 //! flag word such as `bar`), which the checker looks up by name, so their order carries no
-//! meaning. The formatter keeps the fixed terms as written and sorts the options by
-//! [`OPTION_ORDER`]; options it does not know keep their written order, after the known ones.
+//! meaning. The formatter keeps the fixed terms as written and sorts the options into the order
+//! their statement declares them in: a layer's options in the order of its declaration
+//! ([`crate::check::layer`]), an axis's in [`AXIS_OPTIONS`], a variable's in
+//! [`VARIABLE_OPTIONS`]; options the statement does not know keep their written order, after
+//! the known ones.
 //!
 //! Which terms are options:
 //! - in a `data` block: every term of a variable declaration (`speed: ratio label(...)`), and
@@ -16,34 +19,22 @@
 //! Terms are separated by one space, except the factor lists of `within` and `between`, which
 //! are separated by `, `.
 
-use crate::check::LayerKind;
+use crate::check::{layer, AXIS_OPTIONS, REPLICATES_OPTIONS, VARIABLE_OPTIONS};
 use crate::syntax::ast::{Plain, Term};
 
-/// The canonical order of options: what the data is (levels, labels), how it is named (label,
-/// unit, column), how an axis shows it (range, scale, order), then each layer's options in the
-/// order of the language reference (the mark before its error bars).
-pub const OPTION_ORDER: &[&str] = &[
-    "levels",
-    "labels",
-    "label",
-    "unit",
-    "column",
-    "range",
-    "scale",
-    "order",
-    "bins",
-    "width",
-    "heights",
-    "jitter",
-    "whiskers",
-    "bar",
-    "error",
-    "by",
-    "bandwidth",
-    "linear",
-    "band",
-    "collapse",
-];
+/// The options a statement declares, in canonical order; `None` when every term is fixed.
+fn declared_options(block_kind: &str, stmt: &Plain) -> Option<Vec<&'static str>> {
+    match block_kind {
+        "data" if stmt.target.is_some() => Some(VARIABLE_OPTIONS.to_vec()),
+        "data" if stmt.head.name == "replicates" => Some(REPLICATES_OPTIONS.to_vec()),
+        "figure" if stmt.target.is_some() => None,
+        "figure" if matches!(stmt.head.name.as_str(), "x" | "y") => Some(AXIS_OPTIONS.to_vec()),
+        "figure" => {
+            layer::find(&stmt.head.name).map(|d| d.options.iter().map(|o| o.name).collect())
+        }
+        _ => None,
+    }
+}
 
 /// How many leading terms of a statement are fixed; `None` when every term is fixed.
 fn fixed_terms(block_kind: &str, stmt: &Plain) -> Option<usize> {
@@ -52,7 +43,7 @@ fn fixed_terms(block_kind: &str, stmt: &Plain) -> Option<usize> {
         "data" if stmt.head.name == "replicates" => Some(1),
         "figure" if stmt.target.is_some() => None,
         "figure" if matches!(stmt.head.name.as_str(), "x" | "y") => Some(1),
-        "figure" if LayerKind::from_word(&stmt.head.name).is_some() => Some(0),
+        "figure" if layer::find(&stmt.head.name).is_some() => Some(0),
         _ => None,
     }
 }
@@ -66,19 +57,22 @@ fn option_name(term: &Term) -> Option<&str> {
     }
 }
 
-fn rank(term: &Term) -> usize {
+fn rank(order: &[&str], term: &Term) -> usize {
     option_name(term)
-        .and_then(|name| OPTION_ORDER.iter().position(|o| *o == name))
-        .unwrap_or(OPTION_ORDER.len())
+        .and_then(|name| order.iter().position(|o| *o == name))
+        .unwrap_or(order.len())
 }
 
 /// The statement's terms in canonical order.
 pub fn canonical_terms<'a>(block_kind: &str, stmt: &'a Plain) -> Vec<&'a Term> {
     let mut terms: Vec<&Term> = stmt.terms.iter().collect();
-    if let Some(fixed) = fixed_terms(block_kind, stmt) {
+    if let (Some(fixed), Some(order)) = (
+        fixed_terms(block_kind, stmt),
+        declared_options(block_kind, stmt),
+    ) {
         let fixed = fixed.min(terms.len());
         // A stable sort: options of equal rank (unknown or repeated) keep their order.
-        terms[fixed..].sort_by_key(|t| rank(t));
+        terms[fixed..].sort_by_key(|t| rank(&order, t));
     }
     terms
 }

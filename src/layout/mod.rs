@@ -9,8 +9,8 @@
 //! Invariant: no I/O and no statistics here — positions only.
 
 mod axis;
-mod flows;
-mod marks;
+mod layer;
+mod legend;
 mod style;
 mod text;
 
@@ -27,6 +27,11 @@ pub(crate) struct PanelFrame<'a> {
     pub x: XMap<'a>,
     pub y: YMap<'a>,
     pub n_groups: usize,
+    /// The figure shows every value as a dot (bars under them are pale; box outliers are not
+    /// drawn twice).
+    pub shows_points: bool,
+    /// The figure's largest width quantity (violin density, flow subjects): one scale for all.
+    pub width_peak: f64,
 }
 
 /// The x axis of a panel.
@@ -93,7 +98,7 @@ pub fn layout(plan: &FigurePlan, data: &FigureData) -> Scene {
         top = stacked_text(&mut marks, t, title(), inner_w, top) + GAP_MM * 1.5;
     }
     if let Some(legend) = &data.legend {
-        top = marks::legend(&mut marks, legend, inner_w, top) + GAP_MM;
+        top = legend::draw(&mut marks, legend, inner_w, top) + GAP_MM;
     }
     let mut bottom = h - MARGIN_MM;
     if let Some(c) = &plan.caption {
@@ -124,6 +129,10 @@ pub fn layout(plan: &FigurePlan, data: &FigureData) -> Scene {
             n: grid.y_labels.len(),
         },
     };
+    let shows_points = plan
+        .layers
+        .iter()
+        .any(|l| l.decl.shows == crate::check::layer::Shows::Values);
     for (i, panel) in data.panels.iter().enumerate() {
         let rect = grid.panel_rect(i);
         let frame = PanelFrame {
@@ -138,6 +147,8 @@ pub fn layout(plan: &FigurePlan, data: &FigureData) -> Scene {
                 YMap::Levels { n } => YMap::Levels { n: *n },
             },
             n_groups: data.legend.as_ref().map_or(1, |l| l.levels.len()),
+            shows_points,
+            width_peak: data.width_peak,
         };
         if plan.panels.is_some() {
             let at = Point::new(
@@ -163,7 +174,7 @@ pub fn layout(plan: &FigurePlan, data: &FigureData) -> Scene {
         }
         marks.push(Mark::Clip {
             rect: frame.rect,
-            marks: marks::layers(&frame, panel),
+            marks: layer::draw(&frame, panel),
         });
         let n_by_x = grid.shows_n.then_some(&panel.n_by_x);
         draw_x_axis(

@@ -20,7 +20,6 @@
 
 pub mod new;
 
-use crate::diag::Code;
 use std::fs;
 use std::path::{Path, PathBuf};
 
@@ -29,7 +28,7 @@ use toml::Spanned;
 
 use crate::build::paths::relative_to;
 use crate::check::{FigureDefaults, Formats, DPI_LIMITS};
-use crate::diag::{did_you_mean, Diagnostic, SourceId, SourceMap, Span};
+use crate::diag::{did_you_mean, Code, Diagnostic, SourceId, SourceMap, Span};
 
 /// The file that marks a project's root.
 pub const FILE_NAME: &str = "figura.toml";

@@ -7,8 +7,7 @@
 
 use super::ast::*;
 use super::recover::{is_unit, unit_apart};
-use crate::diag::Code;
-use crate::diag::Diagnostic;
+use crate::diag::{Code, Diagnostic};
 
 /// Every problem of form in `file`, whose spans point into `text`.
 pub fn check(file: &SpecFile, text: &str) -> Vec<Diagnostic> {

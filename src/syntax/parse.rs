@@ -10,7 +10,6 @@
 //! Invariant: pest types never leave this file. Every span in the tree and in the diagnostics
 //! is a byte range inside the text that was passed in.
 
-use crate::diag::Code;
 use pest::error::{ErrorVariant, InputLocation};
 use pest::iterators::Pair;
 use pest::Parser as _;
@@ -19,7 +18,7 @@ use super::ast::*;
 use super::checks;
 use super::recover::{self, Context, Expect, Failure};
 use super::scan::Scan;
-use crate::diag::{Diagnostic, SourceId, Span};
+use crate::diag::{Code, Diagnostic, SourceId, Span};
 
 /// The deepest nesting of `(` accepted; deeper text is rejected before parsing (`F0013`).
 pub const MAX_NESTING: usize = 64;

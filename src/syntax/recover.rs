@@ -11,8 +11,7 @@
 //! name grammar rules.
 
 use super::scan::{Scan, Tok, TokKind};
-use crate::diag::Code;
-use crate::diag::{Diagnostic, SourceId, Span};
+use crate::diag::{Code, Diagnostic, SourceId, Span};
 
 /// Something the parser was looking for when it stopped, in user terms. The order is the
 /// order in which they are listed in a message.

@@ -5,7 +5,7 @@
 //! - occasions sit at the centres of the x axis's category bands, so their labels and `n = `
 //!   lines are the axis's own;
 //! - one vertical scale (mm per subject) for every occasion and panel, from the most subjects at
-//!   any occasion ([`FlowMarks::peak`]); states stack with the first level at the bottom (as on
+//!   any occasion (the figure's width peak); states stack with the first level at the bottom (as on
 //!   an ordinal y axis), separated by a fixed gap, and each occasion's column is centred;
 //! - each ribbon leaves its source block and enters its target block in state order (lower
 //!   states lower), which keeps crossings few; its edges are cubic curves with horizontal
@@ -16,18 +16,9 @@
 use crate::compute::FlowMarks;
 use crate::scene::{Colour, Fill, Mark, PathSegment, Point, TextAlign, TextBaseline, TextStyle};
 
-use super::style::*;
-use super::text;
-use super::PanelFrame;
-
-/// Share of an occasion's band taken by its stacked bar, and the bar's widest and narrowest.
-const BAR_SHARE: f64 = 0.16;
-const BAR_MAX_MM: f64 = 5.0;
-const BAR_MIN_MM: f64 = 1.6;
-/// Gap between stacked states, and the most of the panel's height the gaps may take.
-const STATE_GAP_MM: f64 = 1.6;
-const GAPS_MAX_SHARE: f64 = 0.25;
-const RIBBON_OPACITY: f64 = 0.42;
+use super::super::style::*;
+use super::super::text;
+use super::super::PanelFrame;
 
 /// Vertical extent of one block: top and bottom in mm (top < bottom on the page).
 #[derive(Debug, Clone, Copy)]
@@ -37,18 +28,22 @@ struct Block {
 }
 
 /// The marks of one panel's flows.
-pub fn draw(frame: &PanelFrame, flows: &FlowMarks) -> Vec<Mark> {
+pub fn draw(marks: &mut Vec<Mark>, frame: &PanelFrame, flows: &FlowMarks) {
+    marks.extend(flow_marks(frame, flows));
+}
+
+fn flow_marks(frame: &PanelFrame, flows: &FlowMarks) -> Vec<Mark> {
     let r = frame.rect;
     let n_occasions = flows.stacks.len();
     let n_states = flows.stacks.first().map_or(0, Vec::len);
-    if n_occasions == 0 || n_states == 0 || flows.peak == 0 {
+    if n_occasions == 0 || n_states == 0 || frame.width_peak <= 0.0 {
         return Vec::new();
     }
     let band = r.width / n_occasions as f64;
-    let bar = (band * BAR_SHARE).clamp(BAR_MIN_MM, BAR_MAX_MM);
+    let bar = (band * FLOW_BAR_SHARE).clamp(FLOW_BAR_MIN_MM, FLOW_BAR_MAX_MM);
     let centre = |o: usize| r.x + band * (o as f64 + 0.5);
-    let gap = STATE_GAP_MM.min(r.height * GAPS_MAX_SHARE / (n_states.max(2) - 1) as f64);
-    let per_subject = (r.height - gap * (n_states - 1) as f64) / flows.peak as f64;
+    let gap = FLOW_STATE_GAP_MM.min(r.height * FLOW_GAPS_MAX_SHARE / (n_states.max(2) - 1) as f64);
+    let per_subject = (r.height - gap * (n_states - 1) as f64) / frame.width_peak;
     let blocks: Vec<Vec<Block>> = flows
         .stacks
         .iter()
@@ -140,7 +135,7 @@ fn ribbon(from: (f64, (f64, f64)), to: (f64, (f64, f64)), colour: Colour) -> Mar
         ],
         fill: Some(Fill {
             colour,
-            opacity: RIBBON_OPACITY,
+            opacity: FLOW_RIBBON_OPACITY,
         }),
         stroke: None,
     }

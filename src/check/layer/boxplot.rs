@@ -1,0 +1,45 @@
+//! `box`: Tukey's box plot of the values in each cell.
+
+use crate::diag::Diagnostic;
+use crate::syntax::ast::Term;
+
+use super::super::plan::Whiskers;
+use super::super::terms;
+use super::{Layer, LayerDecl, OptionDecl, ReadInput, Refusal, Shows, Traits, XNeed, YNeed};
+
+pub static DECL: LayerDecl = LayerDecl {
+    word: "box",
+    draws: "quartiles as a box, the median as a line, whiskers and outliers",
+    options: &[OptionDecl::call("whiskers", "whiskers(tukey | range)")],
+    x: XNeed::Categories,
+    y: YNeed::Numbers {
+        refusal: Refusal::Order,
+    },
+    shows: Shows::Distribution,
+    linear_x: false,
+    alone: false,
+    read,
+};
+
+/// Options of `box`.
+#[derive(Debug, Clone, PartialEq)]
+pub struct BoxOpts {
+    pub whiskers: Whiskers,
+}
+
+fn read(input: &ReadInput, diags: &mut Vec<Diagnostic>) -> Option<(Layer, Traits)> {
+    let whiskers = match input.opts.call("whiskers") {
+        None => Whiskers::Tukey,
+        Some(c) => {
+            let shape = "whiskers(tukey)";
+            let w = terms::single(c, shape, diags)
+                .and_then(|t: &Term| terms::expect_choice(t, &["tukey", "range"], shape, diags))?;
+            if w.name == "range" {
+                Whiskers::Range
+            } else {
+                Whiskers::Tukey
+            }
+        }
+    };
+    Some((Layer::Box(BoxOpts { whiskers }), Traits::default()))
+}

@@ -1,0 +1,34 @@
+//! `density`: a Gaussian kernel density curve of a numeric x.
+
+use crate::diag::Diagnostic;
+
+use super::super::plan::Bandwidth;
+use super::{options, Layer, LayerDecl, OptionDecl, ReadInput, Shows, Traits, XNeed, YNeed};
+
+pub static DECL: LayerDecl = LayerDecl {
+    word: "density",
+    draws: "a kernel density curve of x per colour group",
+    options: &[OptionDecl::call(
+        "bandwidth",
+        "bandwidth(silverman | scott | W)",
+    )],
+    x: XNeed::Numbers,
+    y: YNeed::None {
+        what: "it shows how x is distributed",
+    },
+    shows: Shows::Distribution,
+    linear_x: true,
+    alone: false,
+    read,
+};
+
+/// Options of `density`.
+#[derive(Debug, Clone, PartialEq)]
+pub struct DensityOpts {
+    pub bandwidth: Bandwidth,
+}
+
+fn read(input: &ReadInput, diags: &mut Vec<Diagnostic>) -> Option<(Layer, Traits)> {
+    let bandwidth = options::bandwidth(input.opts, diags)?;
+    Some((Layer::Density(DensityOpts { bandwidth }), Traits::default()))
+}

@@ -1,0 +1,36 @@
+//! `violin`: the kernel density of each cell's values, mirrored, with the quartiles marked.
+
+use crate::diag::Diagnostic;
+
+use super::super::plan::Bandwidth;
+use super::{
+    options, Layer, LayerDecl, OptionDecl, ReadInput, Refusal, Shows, Traits, XNeed, YNeed,
+};
+
+pub static DECL: LayerDecl = LayerDecl {
+    word: "violin",
+    draws: "the density of each cell's values, mirrored, trimmed to the data, with its quartiles",
+    options: &[OptionDecl::call(
+        "bandwidth",
+        "bandwidth(silverman | scott | W)",
+    )],
+    x: XNeed::Categories,
+    y: YNeed::Numbers {
+        refusal: Refusal::Numbers,
+    },
+    shows: Shows::Distribution,
+    linear_x: false,
+    alone: false,
+    read,
+};
+
+/// Options of `violin`.
+#[derive(Debug, Clone, PartialEq)]
+pub struct ViolinOpts {
+    pub bandwidth: Bandwidth,
+}
+
+fn read(input: &ReadInput, diags: &mut Vec<Diagnostic>) -> Option<(Layer, Traits)> {
+    let bandwidth = options::bandwidth(input.opts, diags)?;
+    Some((Layer::Violin(ViolinOpts { bandwidth }), Traits::default()))
+}

@@ -1,0 +1,577 @@
+//! The cells step: a figure's kept rows placed into cells, once, for every layer.
+//!
+//! A cell is a panel level, an x level (always 0 over a numeric x) and a colour level. The step
+//! filters the rows, chooses the levels shown, places each kept row's measured value in its
+//! cell, collapses repeated trials of a subject, and applies the rules that depend on the data
+//! (a subject twice in one cell, zeros on a log axis, more colour levels than colours).
+//!
+//! Guarantees of [`Cells`]:
+//! - [`Placed`] matches the figure's axes: rows for `counts`, values for a numeric y (or a
+//!   numeric x alone), level slots for a categorical y, pairs for a numeric x and y;
+//! - observations are in table-row order (collapsed trials take the row of their first trial);
+//!   each cell's values are also kept sorted;
+//! - a row whose panel, x or colour value is missing is in no cell (counted in `unplaced`); a
+//!   placed row whose measured value is missing counts in its cell's `n_missing`;
+//! - with `replicates`, each subject has one value per cell; without, a subject with two values
+//!   in one cell is an error when a layer joins or compares one value per subject.
+
+use std::collections::BTreeMap;
+
+use crate::check::plan::{
+    Axes, AxisScale, CatAxis, CatVar, Codebook, Collapse, FigurePlan, LevelOrder, NumAxis, VarId,
+};
+use crate::data::Table;
+use crate::diag::{Code, Diagnostic, Span};
+
+use super::filter::filter_rows;
+use super::levels::{self, axis_levels, codes, numbers, shown_levels, Levels};
+use super::ComputeError;
+
+/// A cell: panel slot, x slot (0 when x is numeric) and colour group slot.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Hash)]
+pub struct Cell {
+    pub panel: usize,
+    pub x: usize,
+    pub group: usize,
+}
+
+/// One placed value.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Obs<T> {
+    pub cell: Cell,
+    /// The table row it came from (of the first trial, when trials are collapsed).
+    pub row: usize,
+    /// The subject's code, when the data declare a subject.
+    pub subject: Option<u32>,
+    pub value: T,
+}
+
+/// Observations of one measured quantity, placed in cells.
+#[derive(Debug, Clone)]
+pub struct Placement<T> {
+    /// In table-row order.
+    pub obs: Vec<Obs<T>>,
+    /// Placed rows of each cell whose measured value is missing.
+    pub missing: BTreeMap<Cell, usize>,
+    /// Kept rows that could not be placed (missing panel, x or colour value).
+    pub unplaced: usize,
+}
+
+impl<T> Placement<T> {
+    /// Placed rows of `cell` whose measured value is missing.
+    pub fn n_missing(&self, cell: Cell) -> usize {
+        self.missing.get(&cell).copied().unwrap_or(0)
+    }
+
+    /// The observations of one panel, in row order.
+    pub fn in_panel(&self, panel: usize) -> impl Iterator<Item = &Obs<T>> {
+        self.obs.iter().filter(move |o| o.cell.panel == panel)
+    }
+}
+
+/// Numbers (a numeric y, or a numeric x alone) or level slots (a categorical y), with each
+/// cell's values sorted.
+#[derive(Debug, Clone)]
+pub struct Values {
+    pub placed: Placement<f64>,
+    sorted: BTreeMap<Cell, Vec<f64>>,
+}
+
+impl Values {
+    fn new(placed: Placement<f64>) -> Values {
+        let mut sorted: BTreeMap<Cell, Vec<f64>> = BTreeMap::new();
+        for o in &placed.obs {
+            sorted.entry(o.cell).or_default().push(o.value);
+        }
+        sorted.values_mut().for_each(|v| v.sort_by(f64::total_cmp));
+        Values { placed, sorted }
+    }
+
+    /// The values of `cell`, ascending.
+    pub fn sorted(&self, cell: Cell) -> &[f64] {
+        self.sorted.get(&cell).map_or(&[], Vec::as_slice)
+    }
+
+    /// Every placed value, in row order.
+    pub fn all(&self) -> impl Iterator<Item = f64> + '_ {
+        self.placed.obs.iter().map(|o| o.value)
+    }
+}
+
+/// An (x, y) pair.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Pair {
+    pub x: f64,
+    pub y: f64,
+}
+
+/// The figure's rows in cells, in the form its axes call for.
+#[derive(Debug, Clone)]
+pub enum Placed {
+    /// Categorical x, no y: every kept row with its x level; a row whose x is missing counts in
+    /// the `n_missing` of its panel and colour group (cell x 0).
+    Rows(Placement<()>),
+    /// A numeric y over a categorical x, or a numeric x alone.
+    Values(Values),
+    /// A categorical y: the slot of each row's level among the y levels.
+    Levels(Values),
+    /// A numeric x and y: complete pairs; a pair with either value missing is missing.
+    Pairs(Placement<Pair>),
+}
+
+/// Everything the layers compute from: the plan, the levels shown and the placed rows.
+pub struct Cells<'a> {
+    pub plan: &'a FigurePlan,
+    pub book: &'a Codebook,
+    pub table: &'a Table,
+    /// Panel levels; one unnamed level without `panels`.
+    pub panels: Levels,
+    /// Colour levels; one unnamed level without `colour`.
+    pub groups: Levels,
+    /// Levels shown on a categorical x; one unnamed level over a numeric x.
+    pub x_levels: Levels,
+    /// Every level of a categorical y (an ordinal y keeps its spacing, flow states their places).
+    pub y_levels: Option<Levels>,
+    pub placed: Placed,
+    /// The figure's jitter (set by `points`), which `lines` follow.
+    pub jitter: f64,
+    subjects: Option<&'a [String]>,
+}
+
+/// Columns that sort rows into cells.
+struct Sorter<'a> {
+    keep: Vec<bool>,
+    panel: Option<(&'a [Option<u32>], &'a Levels)>,
+    x: Option<(&'a [Option<u32>], &'a Levels)>,
+    group: Option<(&'a [Option<u32>], &'a Levels)>,
+    subject: Option<&'a [Option<u32>]>,
+}
+
+/// The slot of a row's level in `part`; slot 0 when the figure does not split by it.
+fn slot(part: Option<(&[Option<u32>], &Levels)>, row: usize) -> Option<usize> {
+    match part {
+        None => Some(0),
+        Some((codes, levels)) => codes[row].and_then(|c| levels.slot(c)),
+    }
+}
+
+impl Sorter<'_> {
+    fn cell(&self, row: usize) -> Option<Cell> {
+        Some(Cell {
+            panel: slot(self.panel, row)?,
+            x: slot(self.x, row)?,
+            group: slot(self.group, row)?,
+        })
+    }
+
+    /// Places every kept row's value (`None` when missing) in its cell.
+    fn place<T>(&self, value: impl Fn(usize) -> Option<T>) -> Placement<T> {
+        let mut out = Placement {
+            obs: Vec::new(),
+            missing: BTreeMap::new(),
+            unplaced: 0,
+        };
+        for row in (0..self.keep.len()).filter(|&r| self.keep[r]) {
+            let Some(cell) = self.cell(row) else {
+                out.unplaced += 1;
+                continue;
+            };
+            match value(row) {
+                Some(value) => out.obs.push(Obs {
+                    cell,
+                    row,
+                    subject: self.subject.and_then(|s| s[row]),
+                    value,
+                }),
+                None => *out.missing.entry(cell).or_default() += 1,
+            }
+        }
+        out
+    }
+
+    /// `counts`: kept rows with an x level in their cells; a row whose x is missing (and whose
+    /// panel and colour are known) counts in the `n_missing` of its panel and group, at x 0.
+    fn place_rows(&self) -> Placement<()> {
+        let mut placed = self.place(|_| Some(()));
+        let x_missing = |row: usize| self.x.is_some_and(|(codes, _)| codes[row].is_none());
+        for row in (0..self.keep.len()).filter(|&r| self.keep[r] && x_missing(r)) {
+            if let (Some(panel), Some(group)) = (slot(self.panel, row), slot(self.group, row)) {
+                let cell = Cell { panel, x: 0, group };
+                *placed.missing.entry(cell).or_default() += 1;
+            }
+        }
+        placed
+    }
+}
+
+impl<'a> Cells<'a> {
+    /// Runs the cells step for one figure.
+    pub fn new(
+        plan: &'a FigurePlan,
+        book: &'a Codebook,
+        table: &'a Table,
+    ) -> Result<Cells<'a>, ComputeError> {
+        let keep = filter_rows(table, book, plan.filter.as_ref())?;
+        let (panels, panel_codes) = grouping(table, book, plan.panels.as_ref(), &keep)?;
+        let (groups, group_codes) = grouping(table, book, plan.colour.as_ref(), &keep)?;
+        if let Some(c) = &plan.colour {
+            check_colours(&groups, &book.var(c.var).name, c.span)?;
+        }
+        let subjects = match book.subject {
+            Some(s) => Some(codes(table, book, s)?),
+            None => None,
+        };
+        let x_levels = match &plan.axes {
+            Axes::Cat { x } | Axes::CatNum { x, .. } | Axes::CatCat { x, .. } => {
+                axis_levels(table, book, x, &keep)?
+            }
+            Axes::Num { .. } | Axes::NumNum { .. } => Levels::single(),
+        };
+        let y_levels = match &plan.axes {
+            Axes::CatCat { y, .. } => Some(levels::levels(table, book, &y.var, y.order, &keep)?),
+            _ => None,
+        };
+        let x_codes = match &plan.axes {
+            Axes::Cat { x } | Axes::CatNum { x, .. } | Axes::CatCat { x, .. } => {
+                Some(codes(table, book, x.var.var)?.0)
+            }
+            Axes::Num { .. } | Axes::NumNum { .. } => None,
+        };
+        let mut cells = Cells {
+            plan,
+            book,
+            table,
+            panels,
+            groups,
+            x_levels,
+            y_levels,
+            placed: Placed::Rows(Placement {
+                obs: Vec::new(),
+                missing: BTreeMap::new(),
+                unplaced: 0,
+            }),
+            jitter: plan
+                .layers
+                .iter()
+                .find_map(|l| l.traits.jitter)
+                .unwrap_or(0.0),
+            subjects: subjects.map(|(_, names)| names),
+        };
+        let sorter = Sorter {
+            keep,
+            panel: panel_codes.map(|c| (c, &cells.panels)),
+            x: x_codes.map(|c| (c, &cells.x_levels)),
+            group: group_codes.map(|c| (c, &cells.groups)),
+            subject: subjects.map(|(c, _)| c),
+        };
+        let placed = match &plan.axes {
+            Axes::Cat { .. } => Placed::Rows(sorter.place_rows()),
+            Axes::CatNum { y, .. } => Placed::Values(cells.measured(&sorter, y)?),
+            Axes::Num { x } => Placed::Values(cells.measured(&sorter, x)?),
+            Axes::CatCat { y, .. } => Placed::Levels(cells.level_slots(&sorter, y)?),
+            Axes::NumNum { x, y } => Placed::Pairs(cells.pairs(&sorter, x, y)?),
+        };
+        cells.placed = placed;
+        Ok(cells)
+    }
+
+    /// The values of a numeric axis, collapsed or checked for repeated subjects, and checked
+    /// against a log scale.
+    fn measured(&self, sorter: &Sorter, axis: &NumAxis) -> Result<Values, ComputeError> {
+        let column = numbers(self.table, self.book, axis.var.var)?;
+        let mut placed = sorter.place(|row| column[row]);
+        match &self.book.replicates {
+            Some(rep) => collapse(&mut placed, rep.collapse),
+            None => self.check_one_value_per_subject(&placed)?,
+        }
+        self.check_log(axis, placed.obs.iter().map(|o| (o.row, o.value)))?;
+        Ok(Values::new(placed))
+    }
+
+    /// The slot of each row's level among the y levels.
+    fn level_slots(&self, sorter: &Sorter, y: &CatAxis) -> Result<Values, ComputeError> {
+        let (y_codes, _) = codes(self.table, self.book, y.var.var)?;
+        let y_levels = self
+            .y_levels
+            .as_ref()
+            .ok_or_else(|| ComputeError::Internal("a categorical y without levels".to_string()))?;
+        let mut placed = sorter.place(|row| {
+            y_codes[row]
+                .and_then(|c| y_levels.slot(c))
+                .map(|s| s as f64)
+        });
+        if let Some(rep) = &self.book.replicates {
+            if rep.collapse == Collapse::Median {
+                collapse(&mut placed, rep.collapse);
+            }
+        }
+        Ok(Values::new(placed))
+    }
+
+    /// Complete (x, y) pairs; with `replicates`, x and y collapsed alike per subject and cell.
+    fn pairs(
+        &self,
+        sorter: &Sorter,
+        x: &NumAxis,
+        y: &NumAxis,
+    ) -> Result<Placement<Pair>, ComputeError> {
+        let xs = numbers(self.table, self.book, x.var.var)?;
+        let ys = numbers(self.table, self.book, y.var.var)?;
+        let complete = |own: &[Option<f64>], row: usize| xs[row].and(ys[row]).and(own[row]);
+        let mut placed_x = sorter.place(|row| complete(xs, row));
+        let mut placed_y = sorter.place(|row| complete(ys, row));
+        if let Some(rep) = &self.book.replicates {
+            collapse(&mut placed_x, rep.collapse);
+            collapse(&mut placed_y, rep.collapse);
+        }
+        // Both placements saw the same rows, so their observations pair up one to one.
+        let obs = placed_x
+            .obs
+            .iter()
+            .zip(&placed_y.obs)
+            .map(|(a, b)| Obs {
+                cell: a.cell,
+                row: a.row,
+                subject: a.subject,
+                value: Pair {
+                    x: a.value,
+                    y: b.value,
+                },
+            })
+            .collect();
+        let pairs = Placement {
+            obs,
+            missing: placed_x.missing,
+            unplaced: placed_x.unplaced,
+        };
+        self.check_log(x, pairs.obs.iter().map(|o| (o.row, o.value.x)))?;
+        self.check_log(y, pairs.obs.iter().map(|o| (o.row, o.value.y)))?;
+        Ok(pairs)
+    }
+
+    /// Rule F0109 in the data: a subject with two values in one cell, under a layer that joins
+    /// or compares one value per subject.
+    fn check_one_value_per_subject(&self, placed: &Placement<f64>) -> Result<(), ComputeError> {
+        let Some(layer) = self
+            .plan
+            .layers
+            .iter()
+            .find(|l| l.traits.one_value_per_subject)
+        else {
+            return Ok(());
+        };
+        let Some((subject, cell, first, second)) = repeated_subject(placed) else {
+            return Ok(());
+        };
+        let mut parts = vec![format!("x = \"{}\"", self.x_levels.names[cell.x])];
+        if self.plan.colour.is_some() {
+            parts.push(format!("colour = \"{}\"", self.groups.names[cell.group]));
+        }
+        if self.plan.panels.is_some() {
+            parts.push(format!("panel = \"{}\"", self.panels.names[cell.panel]));
+        }
+        Err(repeated_subject_error(
+            &self.subject_name(subject),
+            &format!("({})", parts.join(", ")),
+            (self.file_row(first), self.file_row(second)),
+            layer.span,
+        )
+        .into())
+    }
+
+    /// Rule F0114 in the data: a value at or below zero on a log axis; `values` are (row, value).
+    fn check_log(
+        &self,
+        axis: &NumAxis,
+        mut values: impl Iterator<Item = (usize, f64)>,
+    ) -> Result<(), ComputeError> {
+        let (AxisScale::Log, Some(span)) = (axis.scale, axis.scale_span) else {
+            return Ok(());
+        };
+        let Some((row, _)) = values.find(|(_, v)| *v <= 0.0) else {
+            return Ok(());
+        };
+        let var = self.book.var(axis.var.var);
+        Err(Diagnostic::new(
+            Code::LogOfZero,
+            format!("`{}` has a zero (data row {}), and a log scale cannot show zero", var.name, self.file_row(row)),
+        )
+        .with_label(span, "log scale")
+        .with_help("use a linear scale, or filter out the zeros with `where` if they are not part of the question")
+        .into())
+    }
+
+    /// The row of the data file a table row came from, as a spreadsheet numbers it (the header
+    /// is row 1; blank lines count), for messages.
+    pub fn file_row(&self, row: usize) -> usize {
+        self.table.row_place(row).map_or(row + 2, |p| p.file_row)
+    }
+
+    /// An axis or legend title: the one given, else the variable's label and unit.
+    pub fn title(&self, var: VarId, given: &Option<String>) -> String {
+        given.clone().unwrap_or_else(|| self.book.var(var).title())
+    }
+
+    /// The name of a subject code.
+    pub fn subject_name(&self, code: u32) -> String {
+        self.subjects
+            .and_then(|names| names.get(code as usize).cloned())
+            .unwrap_or_default()
+    }
+
+    /// A panel's level name; empty without `panels`.
+    pub fn panel_name(&self, p: usize) -> String {
+        if self.plan.panels.is_some() {
+            self.panels.names[p].clone()
+        } else {
+            String::new()
+        }
+    }
+
+    /// A colour group's level name; empty without `colour`.
+    pub fn group_name(&self, g: usize) -> String {
+        if self.plan.colour.is_some() {
+            self.groups.names[g].clone()
+        } else {
+            String::new()
+        }
+    }
+
+    /// Every cell of a panel, x level first, then colour group.
+    pub fn cells_of(&self, panel: usize) -> impl Iterator<Item = Cell> + '_ {
+        (0..self.x_levels.len())
+            .flat_map(move |x| (0..self.groups.len()).map(move |group| Cell { panel, x, group }))
+    }
+
+    /// How many observational units each x level of a panel shows, for the `n =` labels:
+    /// distinct subjects when the data declare one (a subject seen in two colour groups counts
+    /// once), else values; rows for `counts`. Empty over a numeric x.
+    pub fn n_by_x(&self, panel: usize) -> Vec<usize> {
+        let n_x = self.x_levels.len();
+        match &self.placed {
+            Placed::Rows(rows) => {
+                let mut n = vec![0; n_x];
+                rows.in_panel(panel).for_each(|o| n[o.cell.x] += 1);
+                n
+            }
+            Placed::Values(v) | Placed::Levels(v) if self.x_is_categorical() => (0..n_x)
+                .map(|x| units(v.placed.in_panel(panel).filter(|o| o.cell.x == x).collect()))
+                .collect(),
+            Placed::Values(_) | Placed::Levels(_) | Placed::Pairs(_) => Vec::new(),
+        }
+    }
+
+    fn x_is_categorical(&self) -> bool {
+        matches!(
+            self.plan.axes,
+            Axes::Cat { .. } | Axes::CatNum { .. } | Axes::CatCat { .. }
+        )
+    }
+}
+
+/// Distinct subjects among `obs`, plus the observations without a subject.
+fn units(obs: Vec<&Obs<f64>>) -> usize {
+    let mut subjects: Vec<u32> = obs.iter().filter_map(|o| o.subject).collect();
+    if subjects.is_empty() {
+        return obs.len();
+    }
+    subjects.sort_unstable();
+    subjects.dedup();
+    subjects.len() + obs.iter().filter(|o| o.subject.is_none()).count()
+}
+
+/// Collapses repeated trials: one value per subject per cell (mean or median of its trials).
+fn collapse(placed: &mut Placement<f64>, how: Collapse) {
+    let mut by_key: BTreeMap<(Cell, u32), Vec<Obs<f64>>> = BTreeMap::new();
+    let mut without_subject = Vec::new();
+    for o in placed.obs.drain(..) {
+        match o.subject {
+            Some(s) => by_key.entry((o.cell, s)).or_default().push(o),
+            None => without_subject.push(o),
+        }
+    }
+    let mut out: Vec<Obs<f64>> = by_key
+        .into_values()
+        .map(|trials| {
+            let mut values: Vec<f64> = trials.iter().map(|o| o.value).collect();
+            let value = match how {
+                Collapse::Mean => crate::stats::mean(&values).unwrap_or(values[0]),
+                Collapse::Median => {
+                    values.sort_by(f64::total_cmp);
+                    crate::stats::quantile_sorted(&values, 0.5).unwrap_or(values[0])
+                }
+            };
+            Obs { value, ..trials[0] }
+        })
+        .collect();
+    out.extend(without_subject);
+    out.sort_by_key(|o| o.row);
+    placed.obs = out;
+}
+
+/// The first subject with more than one value in a cell, if any: (subject code, cell, rows).
+pub fn repeated_subject<T>(placed: &Placement<T>) -> Option<(u32, Cell, usize, usize)> {
+    let mut seen: BTreeMap<(Cell, u32), usize> = BTreeMap::new();
+    for o in &placed.obs {
+        let Some(s) = o.subject else { continue };
+        if let Some(first) = seen.insert((o.cell, s), o.row) {
+            return Some((s, o.cell, first, o.row));
+        }
+    }
+    None
+}
+
+/// A diagnostic for a subject with two values in one cell (rule F0109, found in the data);
+/// `rows` are the two rows of the data file (header = row 1).
+fn repeated_subject_error(
+    subject: &str,
+    cell: &str,
+    rows: (usize, usize),
+    layer_span: Span,
+) -> Diagnostic {
+    Diagnostic::new(
+        Code::SubjectRepeatedInCell,
+        format!("subject \"{subject}\" has more than one value in cell {cell} (data rows {} and {})", rows.0, rows.1),
+    )
+    .with_label(layer_span, "joins one value per subject and cell")
+    .with_help("if these are repeated trials, declare `replicates TRIAL collapse(mean)` in the data block; otherwise correct the data")
+}
+
+/// Levels told apart by colour must not outnumber the palette's colours (no colour is ever
+/// used twice: see [`crate::palette`]).
+pub fn check_colours(levels: &Levels, var: &str, span: Span) -> Result<(), ComputeError> {
+    let most = crate::palette::MAX_GROUPS;
+    if levels.len() <= most {
+        return Ok(());
+    }
+    Err(Diagnostic::new(
+        Code::TooManyColours,
+        format!(
+            "`{var}` has {} levels to tell apart by colour, more than the palette's {most}",
+            levels.len()
+        ),
+    )
+    .with_label(span, "one colour per level")
+    .with_help("show this variable in `panels` instead, or keep fewer levels with `where`")
+    .into())
+}
+
+/// The shown levels of a `panels` or `colour` variable, with its codes per row.
+type Grouping<'t> = (Levels, Option<&'t [Option<u32>]>);
+
+/// The shown levels and the codes of a `panels` or `colour` variable; one unnamed level when
+/// the figure has none.
+fn grouping<'t>(
+    table: &'t Table,
+    book: &Codebook,
+    var: Option<&CatVar>,
+    keep: &[bool],
+) -> Result<Grouping<'t>, ComputeError> {
+    match var {
+        Some(v) => Ok((
+            shown_levels(table, book, v, LevelOrder::Levels, keep)?,
+            Some(codes(table, book, v.var)?.0),
+        )),
+        None => Ok((Levels::single(), None)),
+    }
+}

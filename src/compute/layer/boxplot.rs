@@ -1,0 +1,69 @@
+//! `box`: Tukey's box plot of each cell — quartiles (Hyndman & Fan definition 7), whiskers and
+//! outliers ([`stats::box_summary`]).
+//!
+//! Summary rows per cell: `n`, `n_missing`, and when the cell has values `q1`, `median`, `q3`,
+//! `whisker_low`, `whisker_high`, one `outliers` row per outlier, `min` and `max`.
+
+use crate::check::plan::{BoxOpts, Whiskers};
+use crate::stats;
+
+use super::super::cells::Values;
+use super::super::extent::Extent;
+use super::super::ComputeError;
+use super::{n_rows, At, LayerMarks, LayerOutput, Stat};
+
+/// A box of a box plot.
+#[derive(Debug, Clone, PartialEq)]
+pub struct BoxMark {
+    pub x: usize,
+    pub group: usize,
+    pub q1: f64,
+    pub median: f64,
+    pub q3: f64,
+    pub whisker_low: f64,
+    pub whisker_high: f64,
+    pub outliers: Vec<f64>,
+}
+
+pub fn compute(opts: &BoxOpts, at: &At, values: &Values) -> Result<LayerOutput, ComputeError> {
+    let rule = match opts.whiskers {
+        Whiskers::Tukey => stats::Whiskers::Tukey,
+        Whiskers::Range => stats::Whiskers::Range,
+    };
+    let mut rows = Vec::new();
+    let mut boxes = Vec::new();
+    let mut y = Extent::default();
+    for cell in at.cells.cells_of(at.panel) {
+        let sorted = values.sorted(cell);
+        let k = at.cell_key(cell);
+        n_rows(&mut rows, &k, sorted.len(), values.placed.n_missing(cell));
+        let Ok(b) = stats::box_summary(sorted, rule) else {
+            continue;
+        };
+        rows.push(k.number(Stat::Q1, b.q1));
+        rows.push(k.number(Stat::Median, b.median));
+        rows.push(k.number(Stat::Q3, b.q3));
+        rows.push(k.number(Stat::WhiskerLow, b.whisker_low));
+        rows.push(k.number(Stat::WhiskerHigh, b.whisker_high));
+        rows.extend(b.outliers.iter().map(|o| k.number(Stat::Outliers, *o)));
+        rows.push(k.number(Stat::Min, b.min));
+        rows.push(k.number(Stat::Max, b.max));
+        y.add(b.whisker_low);
+        y.add(b.whisker_high);
+        b.outliers.iter().for_each(|o| y.add(*o));
+        boxes.push(BoxMark {
+            x: cell.x,
+            group: cell.group,
+            q1: b.q1,
+            median: b.median,
+            q3: b.q3,
+            whisker_low: b.whisker_low,
+            whisker_high: b.whisker_high,
+            outliers: b.outliers,
+        });
+    }
+    Ok(LayerOutput {
+        y,
+        ..LayerOutput::new(LayerMarks::Box(boxes), rows)
+    })
+}

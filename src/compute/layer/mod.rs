@@ -1,0 +1,294 @@
+//! What layers compute: one file per layer, each a pure function of its options, the
+//! figure's cells and a panel, returning the marks it draws (in data units), the summary rows
+//! of every number it shows, and the extent it needs on the axes.
+//!
+//! This file holds what all layers share: the one dispatch over [`Layer`], the marks every
+//! layer can return ([`LayerMarks`]), and the names of the numbers they report ([`Stat`]).
+
+mod boxplot;
+mod counts;
+mod density;
+mod fit;
+mod flows;
+mod histogram;
+mod lines;
+mod mean;
+mod median;
+mod points;
+mod violin;
+
+use crate::check::plan::{Layer, LayerPlan};
+
+use super::cells::{Cell, Cells, Placed, Placement, Values};
+use super::extent::Extent;
+use super::summary::{RowKey, SummaryRow};
+use super::{ComputeError, Legend};
+
+pub use boxplot::BoxMark;
+pub use fit::FitMark;
+pub use flows::FlowMarks;
+pub use histogram::Bin;
+pub use lines::SubjectPath;
+pub use median::LevelMark;
+pub use points::{CatPoint, PointMarks};
+pub use violin::{ViolinMark, VIOLIN_GRID};
+
+pub use density::Curve;
+pub use fit::FIT_GRID;
+
+/// What one layer draws in one panel: one variant per layer.
+#[derive(Debug, Clone, PartialEq)]
+pub enum LayerMarks {
+    Points(PointMarks),
+    Box(Vec<BoxMark>),
+    Violin(Vec<ViolinMark>),
+    /// Means, with the bars under them when drawn as bars from zero.
+    Mean {
+        bars: Option<Vec<Bar>>,
+        estimates: Vec<Estimate>,
+    },
+    Median(MedianMarks),
+    Lines(Vec<SubjectPath>),
+    Counts(Vec<Bar>),
+    Histogram(Vec<Bin>),
+    Density(Vec<Curve>),
+    Fit(Vec<FitMark>),
+    Flows(FlowMarks),
+}
+
+/// A bar on a categorical axis (counts, or a mean drawn as a bar).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Bar {
+    pub x: usize,
+    pub group: usize,
+    pub height: f64,
+}
+
+/// A central value with an optional interval.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Estimate {
+    pub x: usize,
+    pub group: usize,
+    pub centre: f64,
+    pub interval: Option<(f64, f64)>,
+}
+
+/// Medians of a numeric y (values with intervals) or of an ordinal y (levels).
+#[derive(Debug, Clone, PartialEq)]
+pub enum MedianMarks {
+    Values(Vec<Estimate>),
+    Levels(Vec<LevelMark>),
+}
+
+/// What the y axis shows, as far as one layer is concerned.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum YUse {
+    /// The data's y variable.
+    Data,
+    /// The layer's own heights from zero (count, percent, density): the axis title.
+    Heights(&'static str),
+    /// No y axis: the layer draws its own vertical quantities (flows).
+    Hidden,
+}
+
+/// One layer's results in one panel.
+#[derive(Debug, Clone)]
+pub struct LayerOutput {
+    pub marks: LayerMarks,
+    pub rows: Vec<SummaryRow>,
+    /// The data values it draws on each numeric axis.
+    pub x: Extent,
+    pub y: Extent,
+    /// Bars drawn from zero: zero must be on the y axis.
+    pub y_from_zero: bool,
+    pub y_use: YUse,
+    /// The largest width quantity it draws (a violin's density, a flow's subjects), so the
+    /// figure draws every such mark on one scale.
+    pub width_peak: f64,
+    /// A legend the layer brings (flows: its states), in place of the colour legend.
+    pub legend: Option<Legend>,
+}
+
+impl LayerOutput {
+    fn new(marks: LayerMarks, rows: Vec<SummaryRow>) -> LayerOutput {
+        LayerOutput {
+            marks,
+            rows,
+            x: Extent::default(),
+            y: Extent::default(),
+            y_from_zero: false,
+            y_use: YUse::Data,
+            width_peak: 0.0,
+            legend: None,
+        }
+    }
+}
+
+/// Computes one layer in one panel.
+pub fn compute(
+    layer: &LayerPlan,
+    cells: &Cells,
+    panel: usize,
+) -> Result<LayerOutput, ComputeError> {
+    let at = At {
+        cells,
+        panel,
+        layer: layer.decl.word,
+    };
+    match &layer.layer {
+        Layer::Points(o) => points::compute(o, &at),
+        Layer::Box(o) => boxplot::compute(o, &at, at.values()?),
+        Layer::Violin(o) => violin::compute(o, &at, at.values()?),
+        Layer::Mean(o) => mean::compute(o, &at, at.values()?),
+        Layer::Median(o) => median::compute(o, &at),
+        Layer::Lines(o) => lines::compute(o, &at, at.values()?),
+        Layer::Counts(o) => counts::compute(o, &at, at.rows()?),
+        Layer::Histogram(o) => histogram::compute(o, &at, at.values()?),
+        Layer::Density(o) => density::compute(o, &at, at.values()?),
+        Layer::Fit(o) => fit::compute(o, &at, at.pairs()?),
+        Layer::Flows(o) => flows::compute(o, &at, layer.span),
+    }
+}
+
+/// Where a layer is computed: the figure's cells, one panel, the layer's word.
+pub struct At<'c, 'a> {
+    pub cells: &'c Cells<'a>,
+    pub panel: usize,
+    pub layer: &'static str,
+}
+
+impl At<'_, '_> {
+    /// The summary key of a colour group at an x (empty for rows about a whole group).
+    fn key(&self, group: usize, x: impl Into<String>) -> RowKey {
+        RowKey {
+            panel: self.cells.panel_name(self.panel),
+            layer: self.layer,
+            group: self.cells.group_name(group),
+            x: x.into(),
+        }
+    }
+
+    /// The key of a cell: its x level's name and colour group.
+    fn cell_key(&self, cell: Cell) -> RowKey {
+        self.key(cell.group, self.cells.x_levels.names[cell.x].clone())
+    }
+
+    /// The cell of this panel at x slot `x` and colour group `group`.
+    fn cell(&self, x: usize, group: usize) -> Cell {
+        Cell {
+            panel: self.panel,
+            x,
+            group,
+        }
+    }
+
+    fn values(&self) -> Result<&Values, ComputeError> {
+        match &self.cells.placed {
+            Placed::Values(v) => Ok(v),
+            _ => Err(self.misplaced("numbers")),
+        }
+    }
+
+    fn levels(&self) -> Result<&Values, ComputeError> {
+        match &self.cells.placed {
+            Placed::Levels(v) => Ok(v),
+            _ => Err(self.misplaced("levels")),
+        }
+    }
+
+    fn rows(&self) -> Result<&Placement<()>, ComputeError> {
+        match &self.cells.placed {
+            Placed::Rows(r) => Ok(r),
+            _ => Err(self.misplaced("rows")),
+        }
+    }
+
+    fn pairs(&self) -> Result<&Placement<super::cells::Pair>, ComputeError> {
+        match &self.cells.placed {
+            Placed::Pairs(p) => Ok(p),
+            _ => Err(self.misplaced("pairs")),
+        }
+    }
+
+    fn misplaced(&self, wanted: &str) -> ComputeError {
+        ComputeError::Internal(format!(
+            "layer `{}` needs {wanted}, which the checker's axes do not give",
+            self.layer
+        ))
+    }
+}
+
+/// Pushes a cell's `n` and `n_missing` rows.
+fn n_rows(rows: &mut Vec<SummaryRow>, key: &RowKey, n: usize, n_missing: usize) {
+    rows.push(key.count(Stat::N, n));
+    rows.push(key.count(Stat::NMissing, n_missing));
+}
+
+macro_rules! stat_table {
+    ($($name:ident = $text:literal, $meaning:literal;)*) => {
+        /// The name of a number in the summary (the `stat` column): one table for every layer.
+        #[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Hash)]
+        pub enum Stat {
+            $(#[doc = $meaning] $name,)*
+        }
+
+        impl Stat {
+            /// Every statistic, in the order of the reference's table.
+            pub const ALL: &'static [Stat] = &[$(Stat::$name,)*];
+
+            /// The name as written in the summary.
+            pub fn as_str(self) -> &'static str {
+                match self {
+                    $(Stat::$name => $text,)*
+                }
+            }
+
+            /// What it means and which layers report it.
+            pub fn meaning(self) -> &'static str {
+                match self {
+                    $(Stat::$name => $meaning,)*
+                }
+            }
+        }
+    };
+}
+
+stat_table! {
+    N = "n", "Number of values used: per cell; per colour group (`x` empty) for `counts`, `histogram`, `density`, scatter `points` and `fit`; for `lines`, the subjects drawn per group; for `flows`, subjects in the panel and at each occasion.";
+    NMissing = "n_missing", "Kept rows not shown because a needed value is missing (under `ci(L, within)`, also the cell's values of subjects missing another within cell); with every `n` except that of `lines`.";
+    Count = "count", "Rows in a level or bin (`counts`, `histogram`); for `flows`, subjects in a state, or moving between two states of consecutive occasions (zeros included).";
+    Percent = "percent", "`100 · count / n` of the panel and colour group: `counts` and `histogram` with `heights(percent)`.";
+    Density = "density", "`count / (n · width)`: `histogram` with `heights(density)`.";
+    Bandwidth = "bandwidth", "The kernel bandwidth used: `density`, `violin`.";
+    Slope = "slope", "Slope of the least squares line: `fit`.";
+    Intercept = "intercept", "Intercept of the least squares line: `fit`.";
+    R = "r", "Pearson's correlation of x and y (only when y varies): `fit`.";
+    Mean = "mean", "The mean: `mean`.";
+    Sd = "sd", "Sample standard deviation: `mean error(sd)`.";
+    Se = "se", "Standard error of the mean: `mean error(se)`.";
+    CiLow = "ci_low", "Lower end of the interval: `mean error(ci(L))`, `error(ci(L, within))`, `error(boot(L))`; `median error(boot(L))`.";
+    CiHigh = "ci_high", "Upper end of the interval, as `ci_low`.";
+    Median = "median", "The median (a level name for an ordinal y): `box`, `violin`, `median`.";
+    Q1 = "q1", "First quartile (a level name for an ordinal y): `box`, `violin`, `median` of an ordinal y.";
+    Q3 = "q3", "Third quartile, as `q1`.";
+    WhiskerLow = "whisker_low", "Lower whisker end: `box`.";
+    WhiskerHigh = "whisker_high", "Upper whisker end: `box`.";
+    Outliers = "outliers", "One row per outlier, ascending: `box` with `whiskers(tukey)`.";
+    Min = "min", "Smallest value: `box`.";
+    Max = "max", "Largest value: `box`.";
+}
+
+impl std::fmt::Display for Stat {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.write_str(self.as_str())
+    }
+}
+
+/// The reference's table of statistics (§11), as Markdown.
+pub fn stat_reference_table() -> String {
+    let mut out = String::from("| stat | meaning |\n|---|---|\n");
+    for s in Stat::ALL {
+        out.push_str(&format!("| `{s}` | {} |\n", s.meaning()));
+    }
+    out
+}

@@ -1,0 +1,11 @@
+//! `counts`: a bar from zero per level and colour group.
+
+use crate::compute::Bar;
+use crate::scene::Mark;
+
+use super::super::PanelFrame;
+use super::draw_bars;
+
+pub fn draw(out: &mut Vec<Mark>, frame: &PanelFrame, bars: &[Bar]) {
+    draw_bars(out, frame, bars);
+}

@@ -1,0 +1,46 @@
+//! `fit`: the fitted line over its translucent band.
+
+use crate::compute::FitMark;
+use crate::scene::{Fill, Mark, Point, Stroke};
+
+use super::super::style::*;
+use super::super::PanelFrame;
+use super::summary_colour;
+
+pub fn draw(out: &mut Vec<Mark>, frame: &PanelFrame, fits: &[FitMark]) {
+    for f in fits {
+        draw_fit(out, frame, f);
+    }
+}
+
+/// A fitted line over its band.
+fn draw_fit(out: &mut Vec<Mark>, frame: &PanelFrame, f: &FitMark) {
+    let colour = summary_colour(f.group, frame.n_groups);
+    if !f.band.is_empty() {
+        let upper = f
+            .band
+            .iter()
+            .map(|(x, _, hi)| Point::new(frame.x_num(*x), frame.y(*hi)));
+        let lower = f
+            .band
+            .iter()
+            .rev()
+            .map(|(x, lo, _)| Point::new(frame.x_num(*x), frame.y(*lo)));
+        out.push(Mark::Polygon {
+            points: upper.chain(lower).collect(),
+            fill: Some(Fill {
+                colour,
+                opacity: FIT_BAND_OPACITY,
+            }),
+            stroke: None,
+        });
+    }
+    out.push(Mark::Line {
+        points: f
+            .line
+            .iter()
+            .map(|(x, y)| Point::new(frame.x_num(*x), frame.y(*y)))
+            .collect(),
+        stroke: Stroke::solid(colour, MEDIAN_LINE_MM),
+    });
+}

@@ -1,0 +1,150 @@
+//! Drawing each layer's marks inside a panel: one file per layer, and the one dispatch over
+//! [`LayerMarks`]. Shared here: dots, summary colours, estimates with intervals, and bars.
+//!
+//! Invariant: layers are drawn in the order written; each draws only inside its panel (the
+//! caller clips to the panel's rectangle).
+
+mod boxplot;
+mod counts;
+mod density;
+mod fit;
+mod flows;
+mod histogram;
+mod lines;
+mod mean;
+mod median;
+mod points;
+mod violin;
+
+use crate::compute::{Bar, Estimate, LayerMarks, PanelData};
+use crate::scene::{Colour, Fill, Mark, Point, Stroke};
+
+use super::style::*;
+use super::PanelFrame;
+
+/// Every layer of a panel, in the order written.
+pub fn draw(frame: &PanelFrame, panel: &PanelData) -> Vec<Mark> {
+    let mut out = Vec::new();
+    for layer in &panel.layers {
+        match layer {
+            LayerMarks::Points(points) => points::draw(&mut out, frame, points),
+            LayerMarks::Box(boxes) => boxplot::draw(&mut out, frame, boxes),
+            LayerMarks::Violin(violins) => violin::draw(&mut out, frame, violins),
+            LayerMarks::Mean { bars, estimates } => mean::draw(&mut out, frame, bars, estimates),
+            LayerMarks::Median(medians) => median::draw(&mut out, frame, medians),
+            LayerMarks::Lines(paths) => lines::draw(&mut out, frame, paths),
+            LayerMarks::Counts(bars) => counts::draw(&mut out, frame, bars),
+            LayerMarks::Histogram(bins) => histogram::draw(&mut out, frame, bins),
+            LayerMarks::Density(curves) => density::draw(&mut out, frame, curves),
+            LayerMarks::Fit(fits) => fit::draw(&mut out, frame, fits),
+            LayerMarks::Flows(flows) => flows::draw(&mut out, frame, flows),
+        }
+    }
+    out
+}
+
+/// Bars from zero on a categorical axis; pale under points, so the points stay visible.
+fn draw_bars(out: &mut Vec<Mark>, frame: &PanelFrame, bars: &[Bar]) {
+    let opacity = if frame.shows_points {
+        BAR_UNDER_POINTS_OPACITY
+    } else {
+        BAR_OPACITY
+    };
+    for b in bars {
+        let (cx, gw) = frame.group_slot(b.x, b.group);
+        let colour = group_colour(b.group, frame.n_groups);
+        let (y_top, y_zero) = (frame.y(b.height), frame.y(0.0));
+        let width = gw * BAR_SHARE;
+        out.push(Mark::Rect {
+            x: cx - width / 2.0,
+            y: y_top.min(y_zero),
+            width,
+            height: (y_zero - y_top).abs(),
+            fill: Some(Fill { colour, opacity }),
+            stroke: None,
+        });
+    }
+}
+
+/// The shape of an estimate's centre: a dot for a mean, a diamond for a median.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+enum Centre {
+    Dot,
+    Diamond,
+}
+
+fn dot(centre: Point, colour: Colour) -> Mark {
+    Mark::Circle {
+        centre,
+        radius: POINT_RADIUS_MM,
+        fill: Some(Fill {
+            colour,
+            opacity: POINT_OPACITY,
+        }),
+        stroke: None,
+    }
+}
+
+/// Summary marks use ink when there is one group, and the group's colour otherwise.
+fn summary_colour(group: usize, n_groups: usize) -> Colour {
+    if n_groups > 1 {
+        group_colour(group, n_groups)
+    } else {
+        INK
+    }
+}
+
+fn draw_estimate(out: &mut Vec<Mark>, frame: &PanelFrame, e: &Estimate, centre_shape: Centre) {
+    let (cx, gw) = frame.group_slot(e.x, e.group);
+    let colour = summary_colour(e.group, frame.n_groups);
+    // A summary mark sits on top of the values it summarises: a white halo under the interval
+    // and, with colour groups, an ink outline keep it readable over points of its own colour.
+    let outline = if frame.n_groups > 1 {
+        INK
+    } else {
+        Colour::WHITE
+    };
+    if let Some((lo, hi)) = e.interval {
+        let cap = CAP_MM.min(gw * CAP_SHARE) / 2.0;
+        let (ylo, yhi) = (frame.y(lo), frame.y(hi));
+        let segments = [
+            [Point::new(cx, ylo), Point::new(cx, yhi)],
+            [Point::new(cx - cap, ylo), Point::new(cx + cap, ylo)],
+            [Point::new(cx - cap, yhi), Point::new(cx + cap, yhi)],
+        ];
+        for stroke in [
+            Stroke::solid(Colour::WHITE, ERROR_LINE_MM + HALO_MM),
+            Stroke::solid(colour, ERROR_LINE_MM),
+        ] {
+            for segment in &segments {
+                out.push(Mark::Line {
+                    points: segment.to_vec(),
+                    stroke: stroke.clone(),
+                });
+            }
+        }
+    }
+    let centre = Point::new(cx, frame.y(e.centre));
+    let stroke = Some(Stroke::solid(outline, ESTIMATE_OUTLINE_MM));
+    match centre_shape {
+        Centre::Dot => out.push(Mark::Circle {
+            centre,
+            radius: ESTIMATE_RADIUS_MM,
+            fill: Some(Fill::solid(colour)),
+            stroke,
+        }),
+        Centre::Diamond => {
+            let half = ESTIMATE_RADIUS_MM * DIAMOND_SCALE;
+            out.push(Mark::Polygon {
+                points: vec![
+                    Point::new(cx, centre.y - half),
+                    Point::new(cx + half, centre.y),
+                    Point::new(cx, centre.y + half),
+                    Point::new(cx - half, centre.y),
+                ],
+                fill: Some(Fill::solid(colour)),
+                stroke,
+            });
+        }
+    }
+}
