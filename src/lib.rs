@@ -13,6 +13,7 @@
 pub mod build;
 pub mod check;
 pub mod cli;
+pub mod colour;
 pub mod compute;
 pub mod data;
 pub mod diag;
@@ -20,7 +21,6 @@ pub mod export;
 pub mod font;
 pub mod format;
 pub mod layout;
-pub mod palette;
 pub mod project;
 pub mod report;
 pub mod review;

@@ -375,13 +375,13 @@ impl<'a> Context<'a> {
 }
 
 /// Levels told apart by colour must not outnumber the palette's colours (no colour is ever
-/// used twice: see [`crate::palette`]).
+/// used twice: see [`crate::colour::palette`]).
 pub(crate) fn check_colours(
     levels: &Levels,
     var: &str,
     span: crate::diag::Span,
 ) -> Result<(), ComputeError> {
-    let most = crate::palette::MAX_GROUPS;
+    let most = crate::colour::palette::MAX_GROUPS;
     if levels.len() <= most {
         return Ok(());
     }
