@@ -20,13 +20,13 @@ use std::fmt::Write;
 
 use figura::colour::difference::ciede2000;
 use figura::colour::distinct::{self, closest_pair, pairs_too_close, TELL_APART};
+use figura::colour::hex::parse_hex;
 use figura::colour::ordered;
 use figura::colour::palette::{self, MAX_GROUPS, OKABE_ITO};
 use figura::colour::space::{
-    LinearRgb, Oklab, Srgb, Xyz, OKLAB_FROM_LMS, OKLAB_LMS_FROM_LINEAR, XYZ_FROM_LINEAR,
+    Lab, LinearRgb, Oklab, Srgb, Xyz, OKLAB_FROM_LMS, OKLAB_LMS_FROM_LINEAR, XYZ_FROM_LINEAR,
 };
 use figura::colour::vision::Vision;
-use figura::colour::{hex::parse_hex, space::Lab};
 use figura::scene::Colour;
 
 /// A CSV file of `tests/data/` as rows of fields, header first.

@@ -319,7 +319,6 @@ mod tests {
 
     #[test]
     fn arms_keep_their_hue_families() {
-        use super::super::space::Oklab;
         let hue = |c: Colour| Oklab::from_colour(c).to_oklch().h;
         for (palette, m) in all_diverging() {
             for (level, &c) in palette.iter().enumerate() {
