@@ -6,13 +6,15 @@
 //! `syntax` (text → tree) → `check` (tree → checked plan) → `data` (files → typed table) →
 //! `compute` (plan + table → numbers) → `layout` (numbers → scene in mm) → `svg` (scene →
 //! text) → `export` (SVG → PNG / PDF); `build` drives them over many files; `project` reads a
-//! `figura.toml`; `cli` is the command line and `report` prints diagnostics.
+//! `figura.toml`; `cli` is the command line and `report` prints diagnostics. `colour` holds the
+//! colour science (spaces, CIEDE2000, colour-vision simulation, palettes) as pure functions.
 //!
 //! Dependencies point downstream only: no stage knows the stages after it.
 
 pub mod build;
 pub mod check;
 pub mod cli;
+pub mod colour;
 pub mod compute;
 pub mod data;
 pub mod diag;
@@ -20,7 +22,6 @@ pub mod export;
 pub mod font;
 pub mod format;
 pub mod layout;
-pub mod palette;
 pub mod project;
 pub mod report;
 pub mod review;

@@ -538,9 +538,9 @@ fn repeated_subject_error(
 }
 
 /// Levels told apart by colour must not outnumber the palette's colours (no colour is ever
-/// used twice: see [`crate::palette`]).
+/// used twice: see [`crate::colour::palette`]).
 pub fn check_colours(levels: &Levels, var: &str, span: Span) -> Result<(), ComputeError> {
-    let most = crate::palette::MAX_GROUPS;
+    let most = crate::colour::palette::MAX_GROUPS;
     if levels.len() <= most {
         return Ok(());
     }

@@ -1,9 +1,9 @@
 //! The figure's look in one place: type sizes, line widths, spacing and colours.
 //!
 //! Sizes are for the final printed figure (text 6.5–9 pt, the range journals ask for).
-//! Colours of groups come from the Okabe–Ito palette (see [`crate::palette`]).
+//! Colours of groups come from the Okabe–Ito palette (see [`crate::colour::palette`]).
 
-use crate::palette;
+use crate::colour::palette;
 use crate::scene::{Colour, TextStyle, Weight};
 
 /// Ink for text, axes and summary marks.
