@@ -195,27 +195,13 @@ pub fn did_you_mean<'a>(
     let wanted = name.to_lowercase();
     let mut best: Option<(&str, usize)> = None;
     for cand in candidates {
-        let d = levenshtein(&wanted, &cand.to_lowercase());
+        let d = strsim::levenshtein(&wanted, &cand.to_lowercase());
         let limit = (wanted.chars().count().max(cand.chars().count()) / 3).max(1);
         if d <= limit && best.is_none_or(|(_, bd)| d < bd) {
             best = Some((cand, d));
         }
     }
     best.map(|(c, _)| c)
-}
-
-fn levenshtein(a: &str, b: &str) -> usize {
-    let b: Vec<char> = b.chars().collect();
-    let mut prev: Vec<usize> = (0..=b.len()).collect();
-    for (i, ca) in a.chars().enumerate() {
-        let mut cur = vec![i + 1; b.len() + 1];
-        for (j, cb) in b.iter().enumerate() {
-            let cost = usize::from(ca != *cb);
-            cur[j + 1] = (prev[j] + cost).min(prev[j + 1] + 1).min(cur[j] + 1);
-        }
-        prev = cur;
-    }
-    prev[b.len()]
 }
 
 #[cfg(test)]

@@ -10,60 +10,12 @@
 
 mod common;
 
-use std::path::{Path, PathBuf};
+use std::path::PathBuf;
 
 use figura::check::FigurePlan;
 
 fn golden_dir() -> PathBuf {
     common::root().join("tests/golden")
-}
-
-fn updating() -> bool {
-    std::env::var_os("UPDATE_EXPECT").is_some()
-}
-
-/// Where two texts first differ: the line, and both texts around that point (SVGs are too
-/// long, and their lines too long, to print whole).
-fn first_difference(expected: &str, actual: &str) -> String {
-    let at = expected
-        .bytes()
-        .zip(actual.bytes())
-        .position(|(e, a)| e != a)
-        .unwrap_or(expected.len().min(actual.len()));
-    let line = expected[..at.min(expected.len())].matches('\n').count() + 1;
-    let around = |text: &str| -> String {
-        let chars: Vec<char> = text.chars().collect();
-        // Byte offset → char offset of the same point (texts agree up to it).
-        let c = text[..at.min(text.len())].chars().count();
-        chars[c.saturating_sub(60)..(c + 60).min(chars.len())]
-            .iter()
-            .collect()
-    };
-    format!(
-        "first difference at line {line}:\n  expected: …{}…\n  actual:   …{}…",
-        around(expected),
-        around(actual)
-    )
-}
-
-/// Compares (or, when updating, writes) one expected file; returns a problem, if any.
-fn check_golden(expected_path: &Path, actual: &str) -> Option<String> {
-    if updating() {
-        std::fs::create_dir_all(golden_dir()).unwrap();
-        std::fs::write(expected_path, actual).unwrap();
-        return None;
-    }
-    let name = expected_path.file_name().unwrap().to_string_lossy();
-    match std::fs::read_to_string(expected_path) {
-        Err(_) => Some(format!(
-            "{name}: no expected file (run with UPDATE_EXPECT=1 to create it)"
-        )),
-        Ok(expected) if expected != actual => Some(format!(
-            "{name} differs; {}",
-            first_difference(&expected, actual)
-        )),
-        Ok(_) => None,
-    }
 }
 
 /// The golden files: `.svg` and `.summary.csv` outputs.
@@ -84,11 +36,11 @@ fn every_example_matches_its_expected_svg_and_summary() {
         2 * report.figures.len(),
         "every figure writes one SVG and one summary"
     );
-    let mut problems = Vec::new();
     for (name, bytes) in &built {
         let text = String::from_utf8(bytes.clone()).expect("SVG and CSV are UTF-8");
-        problems.extend(check_golden(&golden_dir().join(name), &text));
+        common::expect_file(&golden_dir().join(name), &text);
     }
+    let mut problems = Vec::new();
     let expected_files = if golden_dir().is_dir() {
         common::output_files(&golden_dir())
     } else {

@@ -4,6 +4,8 @@
 //! stores pixels per metre (PNG specification, W3C, section 11.3.5.3; section number from
 //! memory).
 
+mod common;
+
 use std::path::Path;
 
 use figura::export::{self, ExportError};
@@ -570,18 +572,5 @@ fn small_scene_svg_matches_golden_file() {
         "/tests/render/small_scene.svg"
     ));
     let actual = svg::to_svg(&sample_scene()).unwrap();
-    if std::env::var_os("UPDATE_EXPECT").is_some() {
-        std::fs::create_dir_all(path.parent().unwrap()).unwrap();
-        std::fs::write(path, &actual).unwrap();
-    }
-    let expected = std::fs::read_to_string(path).unwrap_or_else(|e| {
-        panic!(
-            "missing expected file {} ({e}); run with UPDATE_EXPECT=1 to create it",
-            path.display()
-        )
-    });
-    assert_eq!(
-        actual, expected,
-        "scene SVG changed; UPDATE_EXPECT=1 accepts the new text"
-    );
+    common::expect_file(path, &actual);
 }

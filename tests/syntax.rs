@@ -15,6 +15,8 @@ use std::fmt::Write as _;
 use std::fs;
 use std::path::{Path, PathBuf};
 
+mod common;
+
 use figura::diag::{Code, Diagnostic, SourceId, SourceMap, Span};
 use figura::syntax::ast::*;
 use figura::syntax::{parse, MAX_ERRORS, MAX_NESTING};
@@ -39,11 +41,7 @@ fn ok_cases_parse_to_the_expected_trees() {
                 for problem in span_problems(&file, &text) {
                     failures.push(format!("{}: {problem}", case.display()));
                 }
-                compare(
-                    &case.with_extension("tree"),
-                    &render_tree(&file, &map, id),
-                    &mut failures,
-                );
+                common::expect_file(&case.with_extension("tree"), &render_tree(&file, &map, id));
             }
             Err(diags) => failures.push(format!(
                 "{}: expected to parse, got:\n{}",
@@ -71,7 +69,7 @@ fn err_cases_give_the_expected_diagnostics() {
                     failures.push(format!("{}: {problem}", case.display()));
                 }
                 let rendered = render_diagnostics(&diags, &map, id);
-                compare(&case.with_extension("errors"), &rendered, &mut failures);
+                common::expect_file(&case.with_extension("errors"), &rendered);
             }
         }
     }
@@ -118,24 +116,6 @@ fn source(path: &Path, text: &str) -> (SourceMap, SourceId) {
     let mut map = SourceMap::new();
     let id = map.add(path, text);
     (map, id)
-}
-
-/// Compares with an expected file, or rewrites it when `UPDATE_EXPECT` is set.
-fn compare(expected_path: &Path, actual: &str, failures: &mut Vec<String>) {
-    let update = std::env::var_os("UPDATE_EXPECT").is_some();
-    match fs::read_to_string(expected_path) {
-        Ok(expected) if expected == actual => {}
-        _ if update => fs::write(expected_path, actual)
-            .unwrap_or_else(|e| panic!("cannot write {}: {e}", expected_path.display())),
-        Ok(expected) => failures.push(format!(
-            "{} differs (UPDATE_EXPECT=1 rewrites it)\n--- expected\n{expected}--- actual\n{actual}",
-            expected_path.display()
-        )),
-        Err(_) => failures.push(format!(
-            "{} is missing (UPDATE_EXPECT=1 creates it)\n--- actual\n{actual}",
-            expected_path.display()
-        )),
-    }
 }
 
 // ---------------------------------------------------------------------------------------------

@@ -8,25 +8,10 @@ pub fn root() -> PathBuf {
     PathBuf::from(env!("CARGO_MANIFEST_DIR"))
 }
 
-/// Compares `actual` with the file at `path`; with `UPDATE_EXPECT=1` writes it instead.
-/// A missing expected file is a failure unless updating.
+/// Compares `actual` with the expected file at `path` (expect-test: a missing file is empty;
+/// `UPDATE_EXPECT=1` writes the actual output instead). The one mechanism every runner uses.
 pub fn expect_file(path: &Path, actual: &str) {
-    if std::env::var_os("UPDATE_EXPECT").is_some() {
-        std::fs::write(path, actual).unwrap();
-        return;
-    }
-    let expected = std::fs::read_to_string(path).unwrap_or_else(|_| {
-        panic!(
-            "missing expected file {} (run with UPDATE_EXPECT=1 to create it)",
-            path.display()
-        )
-    });
-    if expected != actual {
-        panic!(
-            "\n{} differs from the actual output.\n--- expected\n{expected}\n--- actual\n{actual}\n(run with UPDATE_EXPECT=1 to accept)",
-            path.display()
-        );
-    }
+    expect_test::expect_file![path.to_path_buf()].assert_eq(actual);
 }
 
 /// Every file with `ext` in `dir`, sorted.
