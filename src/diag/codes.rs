@@ -165,28 +165,23 @@ pub const FAMILIES: &[(&str, &str)] = &[
     ("P00", "Project file errors"),
 ];
 
-/// The reference's table of codes (§13), as Markdown: one table per family.
+/// The reference's table of codes (§13), as Markdown: one row per code, in the order of the
+/// table, with the family it belongs to.
 pub fn reference_table() -> String {
-    let mut out = String::new();
-    for (prefix, heading) in FAMILIES {
-        let codes: Vec<Code> = Code::ALL
+    let mut out = String::from("| code | kind | severity | meaning |\n|---|---|---|---|\n");
+    for c in Code::ALL {
+        let family = FAMILIES
             .iter()
-            .copied()
-            .filter(|c| c.as_str().starts_with(prefix))
-            .collect();
-        let (Some(first), Some(last)) = (codes.first(), codes.last()) else {
-            continue;
+            .find(|(prefix, _)| c.as_str().starts_with(prefix))
+            .map_or("", |(_, heading)| heading);
+        let severity = match c.severity() {
+            Severity::Error => "error",
+            Severity::Warning => "warning",
         };
-        out.push_str(&format!("#### {heading} (`{first}`–`{last}`)\n\n"));
-        out.push_str("| code | severity | meaning |\n|---|---|---|\n");
-        for c in codes {
-            let severity = match c.severity() {
-                Severity::Error => "error",
-                Severity::Warning => "warning",
-            };
-            out.push_str(&format!("| `{c}` | {severity} | {} |\n", c.meaning()));
-        }
-        out.push('\n');
+        out.push_str(&format!(
+            "| `{c}` | {family} | {severity} | {} |\n",
+            c.meaning()
+        ));
     }
     out
 }
