@@ -301,7 +301,7 @@ pub fn reference_table() -> String {
         } else {
             d.options
                 .iter()
-                .map(|o| format!("`{}`", o.form))
+                .map(|o| format!("`{}`", o.form.replace('|', "\\|")))
                 .collect::<Vec<_>>()
                 .join(", ")
         };
