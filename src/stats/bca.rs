@@ -58,7 +58,7 @@ pub fn bca_interval(
     let at_or_below = replicates.partition_point(|&r| r <= estimate);
     let p0 = (below + at_or_below) as f64 / (2 * replicates.len()) as f64;
     let bias_correction = normal_quantile(p0).map_err(|_| StatError::BcaUndefined)?;
-    let acceleration = acceleration(&jackknife(values, statistic)?);
+    let acceleration = acceleration(&jackknife_deviations(values, statistic)?);
     let z_alpha = normal_quantile((1.0 - level) / 2.0)?;
     let adjusted = |z: f64| -> Result<f64, StatError> {
         let shifted = bias_correction + z;
@@ -78,23 +78,32 @@ pub fn bca_interval(
     })
 }
 
-/// The jackknife values `θ₍ᵢ₎` (the statistic without one value), one per value in some
-/// order (the acceleration does not depend on it); `values.len() ≥ 2`.
-fn jackknife(values: &[f64], statistic: BootstrapStatistic) -> Result<Vec<f64>, StatError> {
+/// The jackknife deviations `θ₍·₎ − θ₍ᵢ₎`, one per value in some order (the acceleration
+/// does not depend on it); `values.len() ≥ 2`.
+fn jackknife_deviations(
+    values: &[f64],
+    statistic: BootstrapStatistic,
+) -> Result<Vec<f64>, StatError> {
     let n = values.len();
     match statistic {
         BootstrapStatistic::Mean => {
-            // Without xᵢ the mean is x̄ + (x̄ − xᵢ)/(n − 1), exactly, with no cancellation of
-            // the whole sum.
+            // Without xᵢ the mean is x̄ + (x̄ − xᵢ)/(n − 1), and those means average to x̄, so
+            // the deviation is exactly (xᵢ − x̄)/(n − 1): no cancellation against the mean.
             let mean = accurate_mean(values);
             let others = (n - 1) as f64;
-            Ok(values.iter().map(|&v| mean + (mean - v) / others).collect())
+            Ok(values.iter().map(|&v| (v - mean) / others).collect())
         }
         BootstrapStatistic::Median => {
+            // Shifted by the middle value, so the leave-one-out midpoints are rounded at the
+            // scale of the spread, not of a large common offset (the deviations do not change).
             let sorted = sorted_values(values)?;
-            Ok((0..n)
+            let shift = sorted[n / 2];
+            let sorted: Vec<f64> = sorted.iter().map(|&v| v - shift).collect();
+            let medians: Vec<f64> = (0..n)
                 .map(|left_out| median_without(&sorted, left_out))
-                .collect())
+                .collect();
+            let centre = accurate_mean(&medians);
+            Ok(medians.iter().map(|&m| centre - m).collect())
         }
     }
 }
@@ -111,13 +120,11 @@ fn median_without(sorted: &[f64], left_out: usize) -> f64 {
     }
 }
 
-/// `Σd³ / (6 (Σd²)^(3/2))` with `d = θ₍·₎ − θ₍ᵢ₎`; 0 when every `d` is 0.
-fn acceleration(jackknife: &[f64]) -> f64 {
-    let centre = accurate_mean(jackknife);
-    let d = || jackknife.iter().map(|&t| centre - t);
-    let squares = accurate_sum(d().map(|d| d * d));
+/// `Σd³ / (6 (Σd²)^(3/2))`; 0 when every `d` is 0.
+fn acceleration(deviations: &[f64]) -> f64 {
+    let squares = accurate_sum(deviations.iter().map(|d| d * d));
     if squares <= 0.0 {
         return 0.0;
     }
-    accurate_sum(d().map(|d| d * d * d)) / (6.0 * squares * squares.sqrt())
+    accurate_sum(deviations.iter().map(|d| d * d * d)) / (6.0 * squares * squares.sqrt())
 }

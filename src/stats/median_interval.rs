@@ -10,8 +10,10 @@
 //! is usually above `L` (the binomial is discrete).
 //!
 //! Guarantees:
-//! - `P(B ≤ k)` is the regularised incomplete beta function `I_{1/2}(n − k, k + 1)` (`statrs`);
-//!   the ranks agree with `scipy.stats.binom.cdf` (differential tests).
+//! - `P(B ≤ l − 1)` is summed exactly from integer binomial coefficients up to `n = 120`
+//!   (so a level that the coverage equals exactly, such as 0.5, is decided right), and is the
+//!   regularised incomplete beta function `I_{1/2}(n − l + 1, l)` (`statrs`) beyond; the
+//!   ranks agree with `scipy.stats.binom.cdf` (differential tests).
 //! - The median reported is Hyndman & Fan definition 7 (the mean of the two middle values for
 //!   even `n`), as elsewhere; it lies in the interval.
 //! - Degenerate cases: the widest interval `[x₍₁₎, x₍ₙ₎]` covers with `1 − 2^(1−n)`; when that is
@@ -90,17 +92,33 @@ pub fn median_ranks(n: usize, level: f64) -> Result<(usize, f64), StatError> {
 
 /// `C(l) = 1 − 2·P(B ≤ l − 1)` for `B ~ Binomial(n, 1/2)`, `1 ≤ l ≤ ⌈n/2⌉`.
 fn coverage(n: usize, l: usize) -> Result<f64, StatError> {
-    Ok(1.0 - 2.0 * binomial_half_cdf(n, l - 1)?)
+    if n <= EXACT_BINOMIAL_MAX_N {
+        // 2^n·C(l) = 2^n − 2·Σ_{i<l} C(n, i), an exact integer; one rounding to a double.
+        let tail: u128 = binomial_coefficients(n).take(l).sum();
+        let inside = (1_u128 << n) - 2 * tail;
+        return Ok(inside as f64 * 2f64.powi(-(n as i32)));
+    }
+    let tail = checked_beta_reg((n - l + 1) as f64, l as f64, 0.5).map_err(|_| {
+        StatError::TooFewValues {
+            needed: 1,
+            found: n,
+        }
+    })?;
+    Ok(1.0 - 2.0 * tail)
 }
 
-/// `P(B ≤ k)` for `B ~ Binomial(n, 1/2)`, as `I_{1/2}(n − k, k + 1)`.
-fn binomial_half_cdf(n: usize, k: usize) -> Result<f64, StatError> {
-    if k >= n {
-        return Ok(1.0);
-    }
-    checked_beta_reg((n - k) as f64, k as f64 + 1.0, 0.5).map_err(|_| StatError::TooFewValues {
-        needed: 1,
-        found: n,
+/// Up to this `n` the binomial coefficients and their sums are exact in `u128`, so the
+/// coverage is exact before its one rounding (ties with a level such as 0.5 decide right).
+const EXACT_BINOMIAL_MAX_N: usize = 120;
+
+/// `C(n, 0), C(n, 1), …, C(n, n)` as exact integers (`n ≤ 120`).
+fn binomial_coefficients(n: usize) -> impl Iterator<Item = u128> {
+    let n = n as u128;
+    (0..=n).scan(1_u128, move |c, i| {
+        let current = *c;
+        // C(n, i + 1) = C(n, i)·(n − i)/(i + 1), exact; below 2^127 for n ≤ 120.
+        *c = if i < n { *c * (n - i) / (i + 1) } else { 0 };
+        Some(current)
     })
 }
 
