@@ -128,3 +128,55 @@ fn acceleration(deviations: &[f64]) -> f64 {
     }
     accurate_sum(deviations.iter().map(|d| d * d * d)) / (6.0 * squares * squares.sqrt())
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn settings() -> BootstrapSettings {
+        BootstrapSettings::default()
+    }
+
+    // Reference: the definition (module doc): equal values give [θ̂, θ̂]; two values are
+    // needed; the same input gives the same interval; the mean's acceleration is the skewness
+    // form Σd³/(6(Σd²)^(3/2)) with d = (xᵢ − x̄)/(n − 1), 0 for symmetric data.
+    #[test]
+    fn bca_edges() {
+        let equal = bca_interval(&[4.0; 5], BootstrapStatistic::Mean, 0.95, settings()).unwrap();
+        assert_eq!((equal.low, equal.estimate, equal.high), (4.0, 4.0, 4.0));
+        assert_eq!(equal.acceleration, 0.0);
+        assert_eq!(
+            bca_interval(&[1.0], BootstrapStatistic::Median, 0.95, settings()),
+            Err(StatError::TooFewValues {
+                needed: 2,
+                found: 1
+            })
+        );
+        assert_eq!(
+            bca_interval(&[1.0, 2.0], BootstrapStatistic::Mean, 1.5, settings()),
+            Err(StatError::InvalidLevel(1.5))
+        );
+        let values = [1.0, 2.0, 3.0, 4.0, 10.0, 0.5, 2.5];
+        let a = bca_interval(&values, BootstrapStatistic::Median, 0.9, settings()).unwrap();
+        let b = bca_interval(&values, BootstrapStatistic::Median, 0.9, settings()).unwrap();
+        assert_eq!(a, b);
+        assert!(a.low <= a.estimate && a.estimate <= a.high);
+        let symmetric = [1.0, 2.0, 3.0, 4.0, 5.0];
+        let s = bca_interval(&symmetric, BootstrapStatistic::Mean, 0.9, settings()).unwrap();
+        assert_eq!(s.acceleration, 0.0);
+        let skewed = bca_interval(&values, BootstrapStatistic::Mean, 0.9, settings()).unwrap();
+        assert!(
+            skewed.acceleration > 0.0,
+            "a long right tail accelerates upwards"
+        );
+    }
+
+    // Reference: hand derivation: the leave-one-out medians of 1, 2, 3, 4 are 3, 3, 2, 2.
+    #[test]
+    fn leave_one_out_medians() {
+        let sorted = [1.0, 2.0, 3.0, 4.0];
+        let got: Vec<f64> = (0..4).map(|i| median_without(&sorted, i)).collect();
+        assert_eq!(got, vec![3.0, 3.0, 2.0, 2.0]);
+        assert_eq!(median_without(&[1.0, 2.0, 3.0], 1), 2.0);
+    }
+}

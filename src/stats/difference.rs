@@ -97,3 +97,52 @@ pub fn paired_interval(a: &[f64], b: &[f64], level: f64) -> Result<DifferenceInt
         interval.half_width,
     ))
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    // Reference: hand derivation. Groups 1, 2, 3 and 4, 6, 8: variances of the means 1/3 and
+    // 4/3, se = √(5/3), ν = (5/3)² / ((1/3)²/2 + (4/3)²/2) = (25/9) / (17/18) = 50/17.
+    #[test]
+    fn welch_by_hand() {
+        let got = welch_interval(&[1.0, 2.0, 3.0], &[4.0, 6.0, 8.0], 0.95).unwrap();
+        assert_eq!(got.estimate, -4.0);
+        assert!((got.se - (5.0f64 / 3.0).sqrt()).abs() < 1e-15);
+        assert!((got.df - 50.0 / 17.0).abs() < 1e-14);
+        let t = crate::stats::t_quantile(0.975, 50.0 / 17.0).unwrap();
+        assert!((got.high - (-4.0 + t * got.se)).abs() < 1e-13);
+    }
+
+    #[test]
+    fn difference_degenerate_inputs() {
+        assert_eq!(
+            welch_interval(&[1.0, 1.0], &[2.0, 2.0, 2.0], 0.95),
+            Err(StatError::NoSpread)
+        );
+        // One group without spread: ν is the other group's n − 1.
+        let one_flat = welch_interval(&[1.0, 1.0], &[2.0, 3.0, 4.0], 0.95).unwrap();
+        assert!((one_flat.df - 2.0).abs() < 1e-15);
+        assert_eq!(
+            welch_interval(&[1.0], &[2.0, 3.0], 0.95),
+            Err(StatError::TooFewValues {
+                needed: 2,
+                found: 1
+            })
+        );
+        assert_eq!(
+            paired_interval(&[1.0, 2.0], &[1.0], 0.95),
+            Err(StatError::LengthMismatch { left: 2, right: 1 })
+        );
+        // Equal differences: a zero-width interval and no t.
+        let same = paired_interval(&[3.0, 4.0, 5.0], &[1.0, 2.0, 3.0], 0.9).unwrap();
+        assert_eq!(
+            (same.estimate, same.low, same.high, same.t),
+            (2.0, 2.0, 2.0, None)
+        );
+        assert_eq!(
+            paired_interval(&[1.0, 2.0], &[0.0, 0.0], 0.0),
+            Err(StatError::InvalidLevel(0.0))
+        );
+    }
+}

@@ -3,7 +3,9 @@
 //! Definition (Kirkwood 1979, "Geometric means and measures of dispersion", Biometrics 35:
 //! 908–909, cited from memory; the usual treatment of log-normal data):
 //! - With `lᵢ = ln xᵢ`, the geometric mean is `exp(l̄)`, `l̄` the mean of the logs
-//!   ([`super::summary`], compensated).
+//!   ([`super::summary`], compensated). It is computed as `c · exp(mean of (ln xᵢ − ln c))`
+//!   with `c` the first value, the same number, so that equal values give back exactly their
+//!   value.
 //! - An interval of kind `sd`, `se` or `ci(L)` is the interval of that kind around `l̄` on the
 //!   logs ([`super::interval`]: `l̄ ± s_l`, `l̄ ± s_l/√n`, `l̄ ± t(1 − (1 − L)/2, n − 1) · s_l/√n`)
 //!   with both ends exponentiated, so it is asymmetric around the geometric mean: `gm ÷ f` to
@@ -40,18 +42,72 @@ pub fn natural_logs(values: &[f64]) -> Result<Vec<f64>, StatError> {
 
 /// The geometric mean of positive values; needs one value.
 pub fn geometric_mean(values: &[f64]) -> Result<f64, StatError> {
-    Ok(mean(&natural_logs(values)?)?.exp())
+    let (reference, logs) = relative_logs(values)?;
+    Ok(reference * mean(&logs)?.exp())
 }
 
 /// The geometric mean of positive values with an interval of kind `spread` computed on the logs
 /// and exponentiated; needs two values.
 pub fn geometric_mean_interval(values: &[f64], spread: Spread) -> Result<GeometricMean, StatError> {
-    let on_logs = mean_interval(&natural_logs(values)?, spread)?;
+    let (reference, logs) = relative_logs(values)?;
+    let on_logs = mean_interval(&logs, spread)?;
     Ok(GeometricMean {
         n: on_logs.n,
-        mean: on_logs.mean.exp(),
-        low: on_logs.low.exp(),
-        high: on_logs.high.exp(),
+        mean: reference * on_logs.mean.exp(),
+        low: reference * on_logs.low.exp(),
+        high: reference * on_logs.high.exp(),
         log_half_width: on_logs.half_width,
     })
+}
+
+/// A reference value `c` (the first value) and `ln xᵢ − ln c`: the geometric mean is
+/// `c · exp(mean)`, the same number as `exp(mean of ln xᵢ)`, but equal values give back exactly
+/// their value (the differences are all 0).
+fn relative_logs(values: &[f64]) -> Result<(f64, Vec<f64>), StatError> {
+    let logs = natural_logs(values)?;
+    let (reference, log_reference) = match (values.first(), logs.first()) {
+        (Some(&c), Some(&l)) => (c, l),
+        _ => (1.0, 0.0),
+    };
+    Ok((reference, logs.iter().map(|l| l - log_reference).collect()))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    // Reference: hand derivation: the logs of 1, 10, 100 are 0, ln 10, 2 ln 10, mean ln 10 and
+    // sd ln 10, so the geometric mean is 10 and the sd interval 1 to 100.
+    #[test]
+    fn geometric_mean_by_hand() {
+        let values = [1.0, 10.0, 100.0];
+        assert!((geometric_mean(&values).unwrap() - 10.0).abs() < 1e-13);
+        let sd = geometric_mean_interval(&values, Spread::Sd).unwrap();
+        assert!((sd.low - 1.0).abs() < 1e-13 && (sd.high - 100.0).abs() < 1e-12);
+        assert!((sd.log_half_width - 10f64.ln()).abs() < 1e-15);
+        let equal = geometric_mean_interval(&[2.0, 2.0], Spread::Ci { level: 0.95 }).unwrap();
+        assert_eq!((equal.low, equal.mean, equal.high), (2.0, 2.0, 2.0));
+    }
+
+    #[test]
+    fn geometric_mean_degenerate_inputs() {
+        assert_eq!(geometric_mean(&[1.0, 0.0]), Err(StatError::NotPositive));
+        assert_eq!(geometric_mean(&[-1.0]), Err(StatError::NotPositive));
+        assert_eq!(
+            geometric_mean(&[]),
+            Err(StatError::TooFewValues {
+                needed: 1,
+                found: 0
+            })
+        );
+        assert_eq!(geometric_mean(&[f64::NAN]), Err(StatError::NonFiniteValue));
+        assert_eq!(geometric_mean(&[5.0]), Ok(5.0));
+        assert_eq!(
+            geometric_mean_interval(&[5.0], Spread::Se),
+            Err(StatError::TooFewValues {
+                needed: 2,
+                found: 1
+            })
+        );
+    }
 }

@@ -131,3 +131,45 @@ fn values_needed(level: f64) -> usize {
     }
     n
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    // Reference: hand derivation from the binomial: the widest interval covers with
+    // 1 − 2^(1−n); for n = 6 that is 0.96875 ≥ 0.95 with l = 1; ties keep their ranks.
+    #[test]
+    fn median_interval_edges() {
+        let got = median_interval(&[3.0, 1.0, 2.0, 2.0, 5.0, 4.0], 0.95).unwrap();
+        assert_eq!((got.lower_rank, got.upper_rank), (1, 6));
+        assert_eq!((got.low, got.high, got.coverage), (1.0, 5.0, 0.96875));
+        assert_eq!(median_ranks(2, 0.5), Ok((1, 0.5)));
+        assert_eq!(
+            median_ranks(1, 0.5),
+            Err(StatError::TooFewValues {
+                needed: 2,
+                found: 1
+            })
+        );
+        assert_eq!(
+            median_ranks(0, 0.9),
+            Err(StatError::TooFewValues {
+                needed: 5,
+                found: 0
+            })
+        );
+        assert_eq!(median_ranks(10, 1.0), Err(StatError::InvalidLevel(1.0)));
+        assert_eq!(
+            median_interval(&[1.0, f64::NAN], 0.5),
+            Err(StatError::NonFiniteValue)
+        );
+        // Above the exact range the incomplete beta gives the ranks; coverage still ≥ level.
+        for n in [121, 500, 10_000] {
+            let (l, coverage) = median_ranks(n, 0.95).unwrap();
+            assert!(coverage >= 0.95 && l < n / 2, "n={n}");
+            let narrower =
+                1.0 - 2.0 * checked_beta_reg((n - l) as f64, (l + 1) as f64, 0.5).unwrap();
+            assert!(narrower < 0.95, "n={n}: l + 1 still covers");
+        }
+    }
+}

@@ -35,3 +35,23 @@ pub fn notch(values: &[f64]) -> Result<Notch, StatError> {
         high: q.median + half,
     })
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    // Reference: the formula's degenerate cases (module doc).
+    #[test]
+    fn notch_edges() {
+        let one = notch(&[3.0]).unwrap();
+        assert_eq!((one.low, one.median, one.high), (3.0, 3.0, 3.0));
+        assert_eq!(
+            notch(&[]),
+            Err(StatError::TooFewValues {
+                needed: 1,
+                found: 0
+            })
+        );
+        assert_eq!(notch(&[f64::INFINITY]), Err(StatError::NonFiniteValue));
+    }
+}

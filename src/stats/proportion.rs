@@ -63,3 +63,42 @@ pub fn wilson_interval(
         },
     })
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    // Reference: the definition's degenerate cases and its symmetry in successes and failures
+    // (Wilson 1927: the interval for failures is one minus the interval for successes).
+    #[test]
+    fn wilson_edges_and_symmetry() {
+        assert_eq!(
+            wilson_interval(0, 0, 0.95),
+            Err(StatError::TooFewValues {
+                needed: 1,
+                found: 0
+            })
+        );
+        assert_eq!(
+            wilson_interval(3, 2, 0.95),
+            Err(StatError::SuccessesExceedTrials {
+                successes: 3,
+                trials: 2
+            })
+        );
+        assert_eq!(
+            wilson_interval(1, 2, 0.0),
+            Err(StatError::InvalidLevel(0.0))
+        );
+        let none = wilson_interval(0, 40, 0.95).unwrap();
+        let all = wilson_interval(40, 40, 0.95).unwrap();
+        assert_eq!((none.low, all.high), (0.0, 1.0));
+        assert!((none.high - (1.0 - all.low)).abs() < 1e-15);
+        for k in 0..=17 {
+            let a = wilson_interval(k, 17, 0.9).unwrap();
+            let b = wilson_interval(17 - k, 17, 0.9).unwrap();
+            assert!((a.low - (1.0 - b.high)).abs() < 1e-15, "{k}");
+            assert!(a.low <= a.proportion && a.proportion <= a.high, "{k}");
+        }
+    }
+}

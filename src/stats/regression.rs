@@ -117,6 +117,7 @@ impl LinearFit {
 
     /// Standard errors and level-`L` intervals of both coefficients, `r`, `R²` and `s`.
     pub fn inference(&self, level: f64) -> Result<FitInference, StatError> {
+        let residual_sd = self.sd()?;
         let t = two_sided_t(level, self.n as f64 - 2.0)?;
         let coefficient = |estimate: f64, se: f64| Coefficient {
             estimate,
@@ -131,7 +132,7 @@ impl LinearFit {
             intercept: coefficient(self.intercept, self.intercept_se()?),
             r: self.r,
             r_squared: self.r_squared(),
-            residual_sd: self.sd()?,
+            residual_sd,
         })
     }
 
@@ -229,4 +230,82 @@ pub fn log_log_fit(x: &[f64], y: &[f64]) -> Result<LinearFit, StatError> {
         });
     }
     linear_fit(&natural_logs(x)?, &natural_logs(y)?)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    // Reference: hand derivation. y = 1 + 2x + e with residuals ±1 at x = 0, 1, 2, 3 (signs
+    // +, −, −, +): Sxx = 5, RSS = 4 on 2 df, s = √2, se(slope) = √(2/5), se(intercept) =
+    // √2·√(1/4 + 2.25/5) = √1.4; the prediction band adds s² under the root.
+    #[test]
+    fn inference_by_hand() {
+        let x = [0.0, 1.0, 2.0, 3.0];
+        let y = [2.0, 2.0, 4.0, 8.0];
+        let fit = linear_fit(&x, &y).unwrap();
+        assert_eq!((fit.slope, fit.intercept), (2.0, 1.0));
+        let inf = fit.inference(0.95).unwrap();
+        assert!((inf.residual_sd - 2f64.sqrt()).abs() < 1e-15);
+        assert!((inf.slope.se - 0.4f64.sqrt()).abs() < 1e-15);
+        assert!((inf.intercept.se - 1.4f64.sqrt()).abs() < 1e-15);
+        let t = crate::stats::t_quantile(0.975, 2.0).unwrap();
+        assert!((inf.slope.high - (2.0 + t * 0.4f64.sqrt())).abs() < 1e-14);
+        let mean = fit.mean_band(1.5, 0.95).unwrap();
+        let new = fit.prediction_band(1.5, 0.95).unwrap();
+        assert!((mean.high - mean.fit - t * 2f64.sqrt() * 0.5).abs() < 1e-14);
+        assert!((new.high - new.fit - t * 2f64.sqrt() * 1.25f64.sqrt()).abs() < 1e-14);
+        assert_eq!(fit.band(1.5, 0.95, BandKind::Prediction), Ok(new));
+    }
+
+    // Reference: the definitions' degenerate cases (module doc).
+    #[test]
+    fn inference_degenerate_inputs() {
+        let two = linear_fit(&[0.0, 1.0], &[0.0, 1.0]).unwrap();
+        let too_few = StatError::TooFewValues {
+            needed: 3,
+            found: 2,
+        };
+        assert_eq!(two.inference(0.95), Err(too_few.clone()));
+        assert_eq!(two.slope_se(), Err(too_few.clone()));
+        assert_eq!(two.prediction_band(0.5, 0.95), Err(too_few));
+        // A perfect fit: zero standard errors and zero-width intervals.
+        let exact = linear_fit(&[0.0, 1.0, 2.0], &[1.0, 3.0, 5.0]).unwrap();
+        let inf = exact.inference(0.9).unwrap();
+        assert_eq!(
+            (inf.slope.se, inf.slope.low, inf.slope.high),
+            (0.0, 2.0, 2.0)
+        );
+        assert_eq!(inf.r_squared, Some(1.0));
+        // Flat y: no r, but standard errors exist.
+        let flat = linear_fit(&[0.0, 1.0, 2.0], &[4.0, 4.0, 4.0]).unwrap();
+        assert_eq!(flat.inference(0.9).unwrap().r_squared, None);
+        assert_eq!(exact.inference(1.0), Err(StatError::InvalidLevel(1.0)));
+        assert_eq!(
+            exact.prediction_band(f64::INFINITY, 0.9),
+            Err(StatError::NonFiniteValue)
+        );
+    }
+
+    // Reference: hand derivation: y = 3·x² is the line ln y = ln 3 + 2 ln x.
+    #[test]
+    fn power_law_on_logs() {
+        let x = [1.0, 2.0, 4.0, 8.0];
+        let y: Vec<f64> = x.iter().map(|v| 3.0 * v * v).collect();
+        let fit = log_log_fit(&x, &y).unwrap();
+        assert!((fit.slope - 2.0).abs() < 1e-14);
+        assert!((fit.intercept - 3f64.ln()).abs() < 1e-14);
+        assert_eq!(
+            log_log_fit(&[1.0, 0.0], &[1.0, 2.0]),
+            Err(StatError::NotPositive)
+        );
+        assert_eq!(
+            log_log_fit(&[1.0, 2.0], &[1.0, -2.0]),
+            Err(StatError::NotPositive)
+        );
+        assert!(matches!(
+            log_log_fit(&[1.0], &[1.0, 2.0]),
+            Err(StatError::LengthMismatch { .. })
+        ));
+    }
 }

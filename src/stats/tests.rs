@@ -636,6 +636,46 @@ fn density_curve_integrates_to_one() {
     );
 }
 
+// Reference: Silverman (1986) §2.10: the reflected estimate of non-negative data keeps its
+// area 1 on [0, ∞) (trapezoid rule), is 0 below zero, and at 0 is twice the plain estimate
+// (f̂₀(0) + f̂₀(−0)); values below zero are refused.
+#[test]
+fn reflected_density_integrates_to_one_on_the_half_line() {
+    let values = [0.0, 0.1, 0.2, 0.5, 1.0, 3.0];
+    let grid = DensityGrid {
+        points: 4001,
+        reach: 8.0,
+    };
+    let curve = kernel_density_bounded(
+        &values,
+        BandwidthRule::Silverman,
+        grid,
+        Boundary::ReflectAtZero,
+    )
+    .unwrap();
+    assert_eq!(curve.x[0], 0.0, "the grid starts at the boundary");
+    let step = curve.x[1] - curve.x[0];
+    let area: f64 = curve
+        .density
+        .windows(2)
+        .map(|w| (w[0] + w[1]) / 2.0 * step)
+        .sum();
+    assert!(close(area, 1.0, 1e-7), "area {area}");
+    let h = curve.bandwidth;
+    let plain = kde(&values, h, &[0.0]).unwrap()[0];
+    let at = |x: f64| kde_bounded(&values, h, &[x], Boundary::ReflectAtZero).unwrap()[0];
+    assert!(close(at(0.0), 2.0 * plain, 1e-15));
+    assert_eq!(at(-0.1), 0.0);
+    assert_eq!(
+        kde_bounded(&[1.0, -0.5], 1.0, &[0.0], Boundary::ReflectAtZero),
+        Err(StatError::Negative)
+    );
+    // Far from zero the reflection adds nothing visible: the plain estimate.
+    let far = [100.0, 101.0, 102.0];
+    let reflected = kde_bounded(&far, 0.5, &[101.0], Boundary::ReflectAtZero).unwrap();
+    assert_eq!(reflected, kde(&far, 0.5, &[101.0]).unwrap());
+}
+
 // --- least squares ---------------------------------------------------------------------------
 
 #[test]
