@@ -114,3 +114,78 @@ fn ensure_positive(width: f64) -> Result<(), StatError> {
         Err(StatError::InvalidWidth(width))
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    // Reference: Wilkinson's (1999) dot-density algorithm by hand with w = 1: stacks start at
+    // 1.0 (takes 1.2 and 1.9), 2.5 (takes 2.6) and 5.0; centres at the midpoints.
+    #[test]
+    fn stacks_by_hand() {
+        let values = [2.6, 1.0, 5.0, 1.9, 1.2, 2.5];
+        let got = dot_stacks(&values, 1.0).unwrap();
+        let expected = [
+            (2.55, 1),
+            (1.45, 0),
+            (5.0, 0),
+            (1.45, 2),
+            (1.45, 1),
+            (2.55, 0),
+        ];
+        for (g, (centre, height)) in got.iter().zip(expected) {
+            assert!(
+                (g.centre - centre).abs() < 1e-15 && g.height == height,
+                "{g:?}"
+            );
+        }
+        // A value exactly one width above a stack's start begins a new stack.
+        let edge = dot_stacks(&[0.0, 1.0], 1.0).unwrap();
+        assert_eq!((edge[1].centre, edge[1].height), (1.0, 0));
+        assert_eq!(dot_stacks(&[], 1.0), Ok(Vec::new()));
+        assert_eq!(dot_stacks(&[1.0], 0.0), Err(StatError::InvalidWidth(0.0)));
+    }
+
+    fn overlaps(values: &[f64], offsets: &[f64], scale: f64, radius: f64) -> bool {
+        (0..values.len()).any(|i| {
+            (0..i).any(|j| {
+                let dy = (values[i] - values[j]) * scale;
+                let dx = offsets[i] - offsets[j];
+                (dx * dx + dy * dy).sqrt() < 2.0 * radius * (1.0 - 1e-9)
+            })
+        })
+    }
+
+    // Reference: the module doc's sweep, by hand and as properties (no two dots overlap; each
+    // dot is as near the axis as the earlier dots allow).
+    #[test]
+    fn swarm_by_hand_and_without_overlap() {
+        // Equal values: 0, then +2r, then −2r, then +4r.
+        let same = swarm_offsets(&[1.0; 4], 10.0, 0.5).unwrap();
+        assert_eq!(same, vec![0.0, 1.0, -1.0, 2.0]);
+        // Far apart: all on the axis.
+        assert_eq!(
+            swarm_offsets(&[0.0, 1.0, 2.0], 10.0, 0.5).unwrap(),
+            vec![0.0; 3]
+        );
+        // Half a diameter apart in position: the second dot moves by √(1 − 0.25).
+        let near = swarm_offsets(&[0.0, 0.05], 10.0, 0.5).unwrap();
+        assert_eq!(near[0], 0.0);
+        assert!((near[1] - 0.75f64.sqrt()).abs() < 1e-15);
+        // A larger, deterministic sample.
+        let values: Vec<f64> = (0..200)
+            .map(|i| ((i * 37 % 101) as f64 / 101.0).powi(2) * 3.0)
+            .collect();
+        let offsets = swarm_offsets(&values, 20.0, 0.6).unwrap();
+        assert!(!overlaps(&values, &offsets, 20.0, 0.6));
+        assert_eq!(offsets, swarm_offsets(&values, 20.0, 0.6).unwrap());
+        assert_eq!(
+            swarm_offsets(&[1.0], 0.0, 1.0),
+            Err(StatError::InvalidWidth(0.0))
+        );
+        assert_eq!(
+            swarm_offsets(&[1e308, -1e308], 10.0, 1.0),
+            Err(StatError::NonFiniteValue)
+        );
+    }
+}

@@ -56,3 +56,30 @@ pub fn ecdf(values: &[f64]) -> Result<Ecdf, StatError> {
         proportions,
     })
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    // Reference: the definition by hand: 1, 2, 2, 3 steps to 1/4, 3/4 and 1.
+    #[test]
+    fn ecdf_by_hand() {
+        let f = ecdf(&[3.0, 2.0, 1.0, 2.0]).unwrap();
+        assert_eq!(f.values, vec![1.0, 2.0, 3.0]);
+        assert_eq!(f.proportions, vec![0.25, 0.75, 1.0]);
+        assert_eq!(
+            (f.at(0.5), f.at(2.0), f.at(2.5), f.at(9.0)),
+            (0.0, 0.75, 0.75, 1.0)
+        );
+        let one = ecdf(&[-0.0, 0.0]).unwrap();
+        assert_eq!((one.values.len(), one.proportions[0]), (1, 1.0));
+        assert_eq!(
+            ecdf(&[]),
+            Err(StatError::TooFewValues {
+                needed: 1,
+                found: 0
+            })
+        );
+        assert_eq!(ecdf(&[f64::NAN]), Err(StatError::NonFiniteValue));
+    }
+}

@@ -212,3 +212,87 @@ fn robustness_weights(ys: &[f64], fitted: &[f64]) -> Result<Vec<f64>, StatError>
         })
         .collect())
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    // Reference: Cleveland (1979): a local line reproduces a straight line exactly, whatever
+    // the weights; robustness iterations keep it (every residual 0: the s = 0 rule gives
+    // weight 1 to all).
+    #[test]
+    fn a_line_is_reproduced() {
+        let x: Vec<f64> = (0..20).map(|i| f64::from(i) * 0.5).collect();
+        let y: Vec<f64> = x.iter().map(|v| 2.0 * v + 1.0).collect();
+        for span in [0.2, 0.5, 1.0] {
+            let fit = lowess(&x, &y, span, ROBUSTNESS_ITERATIONS).unwrap();
+            for (got, want) in fit.fitted.iter().zip(&y) {
+                assert!((got - want).abs() < 1e-12, "span {span}: {got} vs {want}");
+            }
+        }
+    }
+
+    // Reference: the module doc's rules, by hand.
+    #[test]
+    fn lowess_rules_by_hand() {
+        assert_eq!(neighbour_count(10, 0.3), 3, "0.3·10 counts as 3");
+        assert_eq!(neighbour_count(10, 0.01), 2);
+        assert_eq!(neighbour_count(7, 1.0), 7);
+        // Nearest 3 of 0, 1, 2, 3 around 1.5: a tie between 0 and 3 goes left.
+        let w = Window::around(&[0.0, 1.0, 2.0, 3.0], 1.5, 3);
+        assert_eq!((w.start, w.end, w.radius), (0, 3, 1.5));
+        assert_eq!(tricube(0.5, 1.0), (1.0 - 0.125f64).powi(3));
+        assert_eq!(tricube(1.0, 1.0), 0.0);
+        assert_eq!(tricube(0.0, 0.0), 1.0);
+        // An outlier gets robustness weight 0 and leaves the smooth of the others.
+        let x: Vec<f64> = (0..12).map(f64::from).collect();
+        let mut y: Vec<f64> = x.iter().map(|v| 0.5 * v).collect();
+        y[6] = 100.0;
+        let robust = lowess(&x, &y, 0.6, 3).unwrap();
+        assert!(
+            (robust.fitted[6] - 3.0).abs() < 1e-9,
+            "{}",
+            robust.fitted[6]
+        );
+        let plain = lowess(&x, &y, 0.6, 0).unwrap();
+        assert!(plain.fitted[6] > 10.0);
+        // Equal x everywhere: the weighted mean.
+        let flat = lowess(&[2.0; 4], &[1.0, 2.0, 3.0, 6.0], 1.0, 0).unwrap();
+        assert_eq!(flat.fitted, vec![3.0; 4]);
+    }
+
+    #[test]
+    fn evaluation_between_the_data() {
+        let fit = lowess(&[0.0, 1.0, 1.0, 3.0], &[0.0, 1.0, 1.0, 3.0], 1.0, 0).unwrap();
+        assert_eq!(fit.at(2.0), Some(2.0));
+        assert_eq!(fit.at(1.0), Some(1.0));
+        assert_eq!(fit.at(0.0), Some(0.0));
+        assert_eq!(fit.at(-0.1), None);
+        assert_eq!(fit.at(3.5), None);
+        assert_eq!(fit.at(f64::NAN), None);
+        assert_eq!(fit.fitted[1], fit.fitted[2], "tied x share a fitted value");
+    }
+
+    #[test]
+    fn lowess_degenerate_inputs() {
+        assert_eq!(
+            lowess(&[1.0], &[1.0], 0.5, 3),
+            Err(StatError::TooFewValues {
+                needed: 2,
+                found: 1
+            })
+        );
+        assert_eq!(
+            lowess(&[1.0, 2.0], &[1.0, 2.0], 0.0, 3),
+            Err(StatError::InvalidProbability(0.0))
+        );
+        assert_eq!(
+            lowess(&[1.0, 2.0], &[1.0], 0.5, 3),
+            Err(StatError::LengthMismatch { left: 2, right: 1 })
+        );
+        assert_eq!(
+            lowess(&[1.0, f64::NAN], &[1.0, 2.0], 0.5, 3),
+            Err(StatError::NonFiniteValue)
+        );
+    }
+}
