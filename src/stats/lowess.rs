@@ -10,7 +10,8 @@
 //!   `u = (x_j − xᵢ)/hᵢ`, for the neighbours `j`; when `hᵢ = 0` (every neighbour at `xᵢ`) each
 //!   neighbour has weight 1. Each weight is multiplied by the point's robustness weight.
 //! - Local fit: the weighted least squares line through the neighbours, evaluated at `xᵢ`:
-//!   `ŷᵢ = ȳ_w + b·(xᵢ − x̄_w)` with weighted means and `b = Σw(x − x̄_w)(y − ȳ_w) / Σw(x − x̄_w)²`.
+//!   `ŷᵢ = ȳ_w + b·(xᵢ − x̄_w)` with weighted means and
+//!   `b = Σw(x − x̄_w)(y − ȳ_w) / Σw(x − x̄_w)²`.
 //!   When `√(Σw(x − x̄_w)² / Σw) ≤ 0.001·(x₍ₙ₎ − x₍₁₎)` the neighbours' x are too close to
 //!   define a slope and `ŷᵢ = ȳ_w` (the guard of the published program, as we recall it).
 //!   With fewer than two neighbours of positive weight `ŷᵢ = yᵢ`.

@@ -843,7 +843,9 @@ def main():
     elif len(sys.argv) >= 2 and sys.argv[1] == "inference":
         mode_inference()
     else:
-        sys.stderr.write("usage: reference.py samples | given | inference | sleep CSV | norris DAT\n")
+        sys.stderr.write(
+            "usage: reference.py samples | given | inference | sleep CSV | norris DAT\n"
+        )
         sys.exit(2)
 
 
