@@ -5,9 +5,13 @@
 //!   counts, means and sds from [`stats::moments`] are checked through it:
 //!   within SS = Σ(nᵢ − 1)sᵢ², between SS = Σnᵢ(meanᵢ − grand mean)²,
 //!   residual sd = √(within SS / (N − k)), R² = between / (between + within).
-//! - NIST StRD Norris for the least squares fit.
+//! - NIST StRD Norris for the least squares fit: certified estimates, their standard
+//!   deviations, residual sd and R²; statsmodels OLS on the same data for the intervals and
+//!   bands.
 //! - Student (1908) sleep data (`tests/data/student1908-sleep.csv`): the paired differences
-//!   as published, and the within-subject interval against a numpy Cousineau–Morey reference.
+//!   as published (also through the paired interval), the within-subject interval against a
+//!   numpy Cousineau–Morey reference, and the paired and Welch intervals against scipy.
+//! - Worked values from the sources of the other interval statistics, named at each test.
 //!
 //! Where the certified digits cannot be reached, the tolerance and its cause are stated beside
 //! the check.
@@ -279,46 +283,182 @@ fn nist_smls07_to_09() {
     }
 }
 
+/// NIST StRD Norris: the data and one certified value by its label.
+struct Norris {
+    x: Vec<f64>,
+    y: Vec<f64>,
+    text: String,
+}
+
+impl Norris {
+    fn read() -> Norris {
+        let text = read("nist/Norris.dat");
+        let lines: Vec<&str> = text.lines().collect();
+        let data_start = lines.iter().rposition(|l| l.starts_with("Data:")).unwrap();
+        let (mut x, mut y) = (Vec::new(), Vec::new());
+        for line in &lines[data_start + 1..] {
+            let t: Vec<f64> = line
+                .split_whitespace()
+                .map(|s| s.parse().unwrap())
+                .collect();
+            if t.len() == 2 {
+                y.push(t[0]);
+                x.push(t[1]);
+            }
+        }
+        assert_eq!(x.len(), 36, "Norris has 36 observations");
+        Norris { x, y, text }
+    }
+
+    /// The numbers after the first line starting with `label`.
+    fn certified(&self, label: &str) -> Vec<f64> {
+        self.text
+            .lines()
+            .filter_map(|l| l.trim_start().strip_prefix(label))
+            .map(|rest| {
+                rest.split_whitespace()
+                    .map_while(|t| t.parse().ok())
+                    .collect::<Vec<f64>>()
+            })
+            .find(|numbers| !numbers.is_empty())
+            .unwrap()
+    }
+}
+
 // Reference: NIST StRD Norris certified regression statistics (achieved: 5e-14 or better).
 #[test]
 fn nist_norris_fit() {
-    let text = read("nist/Norris.dat");
-    let lines: Vec<&str> = text.lines().collect();
-    // The first line starting with `label` and followed by a number.
-    let certified = |label: &str| -> f64 {
-        lines
-            .iter()
-            .filter_map(|l| l.trim_start().strip_prefix(label))
-            .find_map(|rest| rest.split_whitespace().next()?.parse().ok())
-            .unwrap()
-    };
-    let intercept = certified("B0");
-    let slope = certified("B1");
-    let residual_sd = certified("Standard Deviation");
-    let r_squared = certified("R-Squared");
-    let data_start = lines.iter().rposition(|l| l.starts_with("Data:")).unwrap();
-    let (mut x, mut y) = (Vec::new(), Vec::new());
-    for line in &lines[data_start + 1..] {
-        let t: Vec<f64> = line
-            .split_whitespace()
-            .map(|s| s.parse().unwrap())
-            .collect();
-        if t.len() == 2 {
-            y.push(t[0]);
-            x.push(t[1]);
-        }
-    }
-    assert_eq!(x.len(), 36, "Norris has 36 observations");
-    let fit = stats::linear_fit(&x, &y).unwrap();
-    assert_rel(fit.slope, slope, 1e-12, "Norris slope");
-    assert_rel(fit.intercept, intercept, 1e-12, "Norris intercept");
+    let norris = Norris::read();
+    let fit = stats::linear_fit(&norris.x, &norris.y).unwrap();
+    assert_rel(fit.slope, norris.certified("B1")[0], 1e-12, "Norris slope");
+    assert_rel(
+        fit.intercept,
+        norris.certified("B0")[0],
+        1e-12,
+        "Norris intercept",
+    );
     assert_rel(
         fit.residual_sd.unwrap(),
-        residual_sd,
+        norris.certified("Standard Deviation")[0],
         1e-12,
         "Norris residual sd",
     );
-    assert_rel(fit.r_squared().unwrap(), r_squared, 1e-13, "Norris R²");
+    assert_rel(
+        fit.r_squared().unwrap(),
+        norris.certified("R-Squared")[0],
+        1e-13,
+        "Norris R²",
+    );
+}
+
+// Reference: NIST StRD Norris certified "Standard Deviation of Estimate" of B0 and B1, and the
+// residual sd and R² through the inference summary (achieved: about 1e-13).
+#[test]
+fn nist_norris_standard_errors() {
+    let norris = Norris::read();
+    let fit = stats::linear_fit(&norris.x, &norris.y).unwrap();
+    let inference = fit.inference(0.95).unwrap();
+    let b0 = norris.certified("B0");
+    let b1 = norris.certified("B1");
+    assert_rel(inference.intercept.se, b0[1], 1e-11, "Norris sd of B0");
+    assert_rel(inference.slope.se, b1[1], 1e-11, "Norris sd of B1");
+    assert_rel(inference.intercept.estimate, b0[0], 1e-12, "Norris B0");
+    assert_rel(
+        inference.residual_sd,
+        norris.certified("Standard Deviation")[0],
+        1e-12,
+        "Norris residual sd",
+    );
+    assert_rel(
+        inference.r_squared.unwrap(),
+        norris.certified("R-Squared")[0],
+        1e-13,
+        "Norris R²",
+    );
+    // The certified residual mean square is s² (34 df).
+    let residual = norris.certified("Residual");
+    assert_eq!(residual[0], 34.0, "certified residual df");
+    assert_rel(
+        inference.residual_sd.powi(2),
+        residual[2],
+        1e-12,
+        "Norris residual mean square",
+    );
+}
+
+/// Runs `tests/differential/reference.py` with `args` and parses its JSON.
+fn python_reference(args: &[&str]) -> serde_json::Value {
+    let output = Command::new("python3")
+        .arg(concat!(
+            env!("CARGO_MANIFEST_DIR"),
+            "/tests/differential/reference.py"
+        ))
+        .args(args)
+        .output()
+        .unwrap_or_else(|e| {
+            panic!("cannot run python3 ({e}); install Python 3 with numpy, scipy and statsmodels")
+        });
+    assert!(
+        output.status.success(),
+        "reference.py {args:?} failed; it needs python3 with numpy, scipy and statsmodels:\n{}",
+        String::from_utf8_lossy(&output.stderr)
+    );
+    serde_json::from_slice(&output.stdout).unwrap()
+}
+
+// Reference: statsmodels OLS on Norris.dat (tests/differential/reference.py norris):
+// `conf_int(alpha)` and `get_prediction(x).summary_frame(alpha)` mean_ci and obs_ci at x = 0,
+// 500 and 1000, levels 0.9, 0.95 and 0.99 (to 1e-9 of the interval's scale).
+#[test]
+fn nist_norris_intervals_match_statsmodels() {
+    let norris = Norris::read();
+    let fit = stats::linear_fit(&norris.x, &norris.y).unwrap();
+    let path = data_path("nist/Norris.dat");
+    let reference = python_reference(&["norris", path.to_str().unwrap()]);
+    let number = |v: &serde_json::Value| v.as_f64().unwrap();
+    let close = |got: f64, want: f64, scale: f64, what: &str| {
+        assert!(
+            (got - want).abs() <= 1e-9 * want.abs().max(scale),
+            "{what}: got {got:e}, statsmodels {want:e}"
+        );
+    };
+    let mut checked = 0;
+    for level_case in reference["levels"].as_array().unwrap() {
+        let level = number(&level_case["level"]);
+        let inference = fit.inference(level).unwrap();
+        let ci = &level_case["conf_int"];
+        for (i, coefficient) in [inference.intercept, inference.slope].iter().enumerate() {
+            close(coefficient.low, number(&ci[i][0]), 1.0, "conf_int low");
+            close(coefficient.high, number(&ci[i][1]), 1.0, "conf_int high");
+            checked += 2;
+        }
+        let at: Vec<f64> = level_case["at"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .map(|b| f64::from_bits(b.as_u64().unwrap()))
+            .collect();
+        for (i, &x0) in at.iter().enumerate() {
+            let mean = fit.mean_band(x0, level).unwrap();
+            let new = fit.prediction_band(x0, level).unwrap();
+            close(
+                mean.low,
+                number(&level_case["mean_ci"][i][0]),
+                1.0,
+                "mean_ci",
+            );
+            close(
+                mean.high,
+                number(&level_case["mean_ci"][i][1]),
+                1.0,
+                "mean_ci",
+            );
+            close(new.low, number(&level_case["obs_ci"][i][0]), 1.0, "obs_ci");
+            close(new.high, number(&level_case["obs_ci"][i][1]), 1.0, "obs_ci");
+            checked += 4;
+        }
+    }
+    assert_eq!(checked, 3 * (4 + 3 * 4), "every level and point checked");
 }
 
 /// Student's sleep data as (patient, drug A, drug B).
@@ -367,23 +507,7 @@ fn student_sleep_within_subject_interval() {
         .collect();
     let ours = stats::within_subject_intervals(&rows, Spread::Ci { level: 0.95 }).unwrap();
     let csv = data_path("student1908-sleep.csv");
-    let output = Command::new("python3")
-        .arg(concat!(
-            env!("CARGO_MANIFEST_DIR"),
-            "/tests/differential/reference.py"
-        ))
-        .arg("sleep")
-        .arg(&csv)
-        .output()
-        .unwrap_or_else(|e| {
-            panic!("cannot run python3 ({e}); install Python 3 with numpy and scipy")
-        });
-    assert!(
-        output.status.success(),
-        "reference.py sleep failed; it needs python3 with numpy and scipy:\n{}",
-        String::from_utf8_lossy(&output.stderr)
-    );
-    let reference: serde_json::Value = serde_json::from_slice(&output.stdout).unwrap();
+    let reference = python_reference(&["sleep", csv.to_str().unwrap()]);
     assert_eq!(ours.n_subjects, 10);
     assert_eq!(ours.n_dropped, 0);
     let widths = &reference["ci"][0]["half_widths"];
@@ -409,4 +533,82 @@ fn student_sleep_within_subject_interval() {
             cell.half_width
         );
     }
+}
+
+// Reference: Student (1908), as in `student_sleep_paired_differences`: mean difference 1.58,
+// t = 4.06 on 9 df (published to the digits shown); and scipy.stats.ttest_rel(B, A) and
+// ttest_ind(B, A, equal_var=False) with confidence_interval(0.95), to 1e-9 (reference.py sleep).
+#[test]
+fn student_sleep_paired_and_welch_intervals() {
+    let data = sleep_data();
+    let a: Vec<f64> = data.iter().map(|&(_, a, _)| a).collect();
+    let b: Vec<f64> = data.iter().map(|&(_, _, b)| b).collect();
+    let paired = stats::paired_interval(&b, &a, 0.95).unwrap();
+    assert!((paired.estimate - 1.58).abs() <= 0.005, "{paired:?}");
+    assert!((paired.t.unwrap() - 4.06).abs() <= 0.005, "{paired:?}");
+    assert_eq!(paired.df, 9.0);
+    let welch = stats::welch_interval(&b, &a, 0.95).unwrap();
+    let csv = data_path("student1908-sleep.csv");
+    let reference = python_reference(&["sleep", csv.to_str().unwrap()]);
+    for (name, ours) in [("paired", paired), ("welch", welch)] {
+        let r = &reference[name];
+        let number = |key: &str| r[key].as_f64().unwrap();
+        assert_rel(ours.low, number("low"), 1e-9, &format!("{name} low"));
+        assert_rel(ours.high, number("high"), 1e-9, &format!("{name} high"));
+        assert_rel(ours.df, number("df"), 1e-9, &format!("{name} df"));
+        assert_rel(ours.t.unwrap(), number("t"), 1e-9, &format!("{name} t"));
+    }
+}
+
+// Reference: Newcombe (1998), "Two-sided confidence intervals for the single proportion:
+// comparison of seven methods", Statistics in Medicine 17: 857–872, Table II, Wilson score
+// method at 95%, to the 4 decimals printed (values quoted from memory; statsmodels'
+// proportion_confint(method="wilson") reproduces each to those decimals).
+#[test]
+fn wilson_newcombe_1998_examples() {
+    for (k, n, low, high) in [
+        (81, 263, 0.2553, 0.3662),
+        (15, 148, 0.0624, 0.1605),
+        (0, 20, 0.0, 0.1611),
+        (1, 29, 0.0061, 0.1718),
+    ] {
+        let got = stats::wilson_interval(k, n, 0.95).unwrap();
+        assert!(
+            (got.low - low).abs() <= 5e-5 && (got.high - high).abs() <= 5e-5,
+            "{k}/{n}: {got:?}, published {low} to {high}"
+        );
+    }
+}
+
+// Reference: hand derivation from the binomial (Conover's construction): for n = 10,
+// P(B ≤ 1) = 11/1024 and P(B ≤ 2) = 56/1024, so l = 2 covers with 1002/1024 = 0.978515625 and
+// l = 3 only with 0.890625: the 95% interval is [x₍₂₎, x₍₉₎]. For n = 5 the widest interval
+// covers with 1 − 2/32 = 0.9375 < 0.95: six values are needed.
+#[test]
+fn median_interval_by_hand() {
+    let values = [9.0, 2.0, 7.0, 4.0, 10.0, 1.0, 3.0, 8.0, 6.0, 5.0];
+    let got = stats::median_interval(&values, 0.95).unwrap();
+    assert_eq!((got.lower_rank, got.upper_rank), (2, 9));
+    assert_eq!((got.low, got.high, got.median), (2.0, 9.0, 5.5));
+    assert_eq!(got.coverage, 0.978515625);
+    assert_eq!(stats::median_ranks(10, 0.9), Ok((2, 0.978515625)));
+    assert_eq!(stats::median_ranks(10, 0.89), Ok((3, 0.890625)));
+    assert_eq!(
+        stats::median_ranks(5, 0.95),
+        Err(stats::StatError::TooFewValues {
+            needed: 6,
+            found: 5
+        })
+    );
+}
+
+// Reference: McGill, Tukey & Larsen (1978), the notch formula median ± 1.58·IQR/√n, by hand:
+// 1..=9 has Q1 = 3, median 5, Q3 = 7 (definition 7), so the notch is 5 ± 1.58·4/3.
+#[test]
+fn notch_by_hand() {
+    let values: Vec<f64> = (1..=9).map(f64::from).collect();
+    let got = stats::notch(&values).unwrap();
+    let half = 1.58 * 4.0 / 3.0;
+    assert_eq!(got.median, 5.0);
+    assert!((got.low - (5.0 - half)).abs() < 1e-15 && (got.high - (5.0 + half)).abs() < 1e-15);
 }

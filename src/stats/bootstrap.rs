@@ -1,4 +1,5 @@
 //! Percentile bootstrap intervals for the mean or the median (Efron & Tibshirani 1993, §13.3).
+//! The resampling here is shared by the BCa interval ([`super::bca`]).
 //!
 //! Guarantees:
 //! - Resampling uses [`Xoshiro256StarStar`] seeded from [`BootstrapSettings::seed`]
@@ -63,6 +64,25 @@ pub fn bootstrap_interval(
     ensure_count(values.len(), 2)?;
     ensure_level(level)?;
     ensure_count(settings.resamples, 1)?;
+    let mut replicates = replicates(values, statistic, settings)?;
+    replicates.sort_by(f64::total_cmp);
+    let tail = (1.0 - level) / 2.0;
+    let estimate = statistic_of(&mut values.to_vec(), statistic)?;
+    Ok(BootstrapInterval {
+        estimate,
+        low: quantile_sorted(&replicates, tail)?,
+        high: quantile_sorted(&replicates, 1.0 - tail)?,
+    })
+}
+
+/// The statistic of each of `settings.resamples` resamples of `values` (non-empty), in draw
+/// order: resample `r` takes its `n` indices as the next `n` draws of `below(n)` from the
+/// generator seeded with `settings.seed`.
+pub(crate) fn replicates(
+    values: &[f64],
+    statistic: BootstrapStatistic,
+    settings: BootstrapSettings,
+) -> Result<Vec<f64>, StatError> {
     let n = values.len();
     let mut rng = Xoshiro256StarStar::seed_from(settings.seed);
     let mut resample = vec![0.0; n];
@@ -74,14 +94,7 @@ pub fn bootstrap_interval(
         }
         replicates.push(statistic_of(&mut resample, statistic)?);
     }
-    replicates.sort_by(f64::total_cmp);
-    let tail = (1.0 - level) / 2.0;
-    let estimate = statistic_of(&mut values.to_vec(), statistic)?;
-    Ok(BootstrapInterval {
-        estimate,
-        low: quantile_sorted(&replicates, tail)?,
-        high: quantile_sorted(&replicates, 1.0 - tail)?,
-    })
+    Ok(replicates)
 }
 
 /// Percentile bootstrap interval for the mean with the default seed and resample count.
@@ -105,7 +118,10 @@ pub fn bootstrap_median(values: &[f64], level: f64) -> Result<BootstrapInterval,
 }
 
 /// The statistic of a non-empty sample (which may be reordered).
-fn statistic_of(sample: &mut [f64], statistic: BootstrapStatistic) -> Result<f64, StatError> {
+pub(crate) fn statistic_of(
+    sample: &mut [f64],
+    statistic: BootstrapStatistic,
+) -> Result<f64, StatError> {
     match statistic {
         BootstrapStatistic::Mean => Ok(accurate_mean(sample)),
         BootstrapStatistic::Median => {

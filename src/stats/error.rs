@@ -34,6 +34,17 @@ pub enum StatError {
     /// A width so small relative to the data's magnitude that bin edges would not be distinct
     /// doubles, or would need more than [`crate::stats::histogram::MAX_BINS`] bins.
     WidthTooFine { width: f64 },
+    /// A value is zero or negative where its logarithm is needed (a geometric mean, a fit on
+    /// logs).
+    NotPositive,
+    /// A value is below zero where the statistic has a boundary at zero (a reflected density of
+    /// a ratio variable).
+    Negative,
+    /// A count of successes larger than the number of trials.
+    SuccessesExceedTrials { successes: u64, trials: u64 },
+    /// A BCa interval is undefined: every bootstrap replicate lies on one side of the estimate
+    /// (the bias correction is infinite), or the acceleration is too large for the level.
+    BcaUndefined,
 }
 
 impl fmt::Display for StatError {
@@ -68,6 +79,18 @@ impl fmt::Display for StatError {
             StatError::WidthTooFine { width } => write!(
                 f,
                 "width {width} is too fine for the magnitude or range of the values"
+            ),
+            StatError::NotPositive => {
+                write!(f, "a value is zero or negative, so it has no logarithm")
+            }
+            StatError::Negative => write!(f, "a value is below zero"),
+            StatError::SuccessesExceedTrials { successes, trials } => {
+                write!(f, "{successes} successes is more than the {trials} trials")
+            }
+            StatError::BcaUndefined => write!(
+                f,
+                "the bias-corrected interval is undefined: the bootstrap replicates all lie on \
+                 one side of the estimate, or the skew is too large for the level"
             ),
         }
     }

@@ -18,7 +18,11 @@
 //!   positive because the range is). A value on a multiple of the width with zero range gets the
 //!   bin that starts at it.
 //! - At most [`MAX_BINS`] bins: a rule whose width would give more is widened to the smallest
-//!   readable step giving at most that many; a fixed width that would is an error.
+//!   readable step giving at most that many (counting the bins that actually cover the data);
+//!   a fixed width that would is an error.
+//! - A grid shared by several groups: [`bins_covering`] gives the bins one group needs, from
+//!   the bin of its smallest value to the bin of its largest by the same rule as the counts
+//!   ([`bin_of`]), so every value of every group falls in one of its bins.
 
 use super::error::{ensure_count, StatError};
 use super::quantile::{quartiles_sorted, sorted_values};
@@ -29,6 +33,9 @@ use super::summary::sample_sd;
 
 /// Largest number of bins a histogram may have.
 pub const MAX_BINS: usize = 10_000;
+
+/// Most widenings tried when a rule's width gives too many bins (see `choose_grid`).
+const WIDENINGS: usize = 8;
 
 /// How the bin width is chosen.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -171,13 +178,32 @@ fn choose_grid(sorted: &[f64], rule: BinRule) -> Result<(f64, Grid), StatError> 
         return Ok((0.0, Grid::Readable(step)));
     }
     let raw = raw_rule_width(sorted, rule, range)?;
-    let mut step =
-        readable_step(raw, StepRounding::Nearest).ok_or(StatError::WidthTooFine { width: raw })?;
-    if range / step.value() > (MAX_BINS - 2) as f64 {
-        step = readable_step(range / (MAX_BINS - 2) as f64, StepRounding::Up)
-            .ok_or(StatError::WidthTooFine { width: raw })?;
+    let too_fine = StatError::WidthTooFine { width: raw };
+    let step = readable_step(raw, StepRounding::Nearest).ok_or(too_fine.clone())?;
+    if bin_count(step, min, max).is_some_and(|bins| bins <= MAX_BINS) {
+        return Ok((raw, Grid::Readable(step)));
     }
-    Ok((raw, Grid::Readable(step)))
+    // Every step below range / MAX_BINS gives more than MAX_BINS bins (the bins cover the
+    // range), so start at the smallest readable step not below it and widen until the bins
+    // covering [min, max] number at most MAX_BINS.
+    let mut wider =
+        readable_step(range / MAX_BINS as f64, StepRounding::Up).ok_or(too_fine.clone())?;
+    // That step gives at most MAX_BINS + 2 bins and each larger step is at least 1.25 times
+    // wider, so one or two widenings suffice; the bound only guards against the unexpected.
+    for _ in 0..WIDENINGS {
+        if bin_count(wider, min, max).is_some_and(|bins| bins <= MAX_BINS) {
+            return Ok((raw, Grid::Readable(wider)));
+        }
+        wider = wider.larger();
+    }
+    Err(too_fine)
+}
+
+/// The number of bins of width `step` whose edges cover `[min, max]`; `None` when the indices
+/// are not exact.
+fn bin_count(step: ReadableStep, min: f64, max: f64) -> Option<usize> {
+    let (first, last) = Grid::Readable(step).edge_indices(min, max)?;
+    usize::try_from(last - first).ok()
 }
 
 /// A rule's unrounded width for data with a positive range (so `n ≥ 2`).
@@ -210,15 +236,35 @@ fn raw_rule_width(sorted: &[f64], rule: BinRule, range: f64) -> Result<f64, Stat
 /// edges there are no bins and nothing is counted.
 pub fn count_in_bins(values: &[f64], edges: &[f64]) -> Vec<u64> {
     let n_bins = edges.len().saturating_sub(1);
-    if n_bins == 0 {
-        return Vec::new();
-    }
     let mut counts = vec![0_u64; n_bins];
     for &v in values {
-        // Number of edges at or below v, minus one, is the bin; v on the last edge goes last.
-        let at_or_below = edges.partition_point(|&e| e <= v);
-        let bin = at_or_below.saturating_sub(1).min(n_bins - 1);
-        counts[bin] += 1;
+        if let Some(bin) = bin_of(v, edges) {
+            counts[bin] += 1;
+        }
     }
     counts
+}
+
+/// The bin of `edges` (ascending) that holds `v`: bins are `[e_i, e_{i+1})`, the last closed,
+/// so a value on the last edge is in the last bin; values outside go to the nearest end bin.
+/// `None` when there are fewer than two edges.
+pub fn bin_of(v: f64, edges: &[f64]) -> Option<usize> {
+    let n_bins = edges.len().checked_sub(1).filter(|&n| n > 0)?;
+    // Number of edges at or below v, minus one, is the bin; v on the last edge goes last.
+    let at_or_below = edges.partition_point(|&e| e <= v);
+    Some(at_or_below.saturating_sub(1).min(n_bins - 1))
+}
+
+/// The part of a shared grid of `edges` (ascending) that one group with values from `min` to
+/// `max` needs: the bins from the one holding `min` to the one holding `max`, by the rule of
+/// [`bin_of`], so every value of the group falls in a bin of the slice — a group whose values
+/// all equal the grid's last edge gets the grid's last bin. `None` when there are fewer than
+/// two edges or `min > max`.
+pub fn bins_covering(edges: &[f64], min: f64, max: f64) -> Option<&[f64]> {
+    if min > max {
+        return None;
+    }
+    let first = bin_of(min, edges)?;
+    let last = bin_of(max, edges)?;
+    Some(&edges[first..=last + 1])
 }

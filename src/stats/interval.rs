@@ -83,6 +83,30 @@ pub(crate) fn two_sided_t(level: f64, df: f64) -> Result<f64, StatError> {
     t_quantile(1.0 - (1.0 - level) / 2.0, df)
 }
 
+/// The `p` quantile of the standard normal distribution (`statrs`, through the inverse
+/// complementary error function); an error for `p` outside `(0, 1)`.
+pub fn normal_quantile(p: f64) -> Result<f64, StatError> {
+    if !(p > 0.0 && p < 1.0) {
+        return Err(StatError::InvalidProbability(p));
+    }
+    Ok(standard_normal().inverse_cdf(p))
+}
+
+/// The standard normal distribution function `Φ(z)`.
+pub fn normal_cdf(z: f64) -> f64 {
+    standard_normal().cdf(z)
+}
+
+/// `z(1 − (1 − L)/2)`, the normal multiplier of a two-sided level-`L` interval.
+pub(crate) fn two_sided_z(level: f64) -> Result<f64, StatError> {
+    ensure_level(level)?;
+    normal_quantile(1.0 - (1.0 - level) / 2.0)
+}
+
+fn standard_normal() -> Normal {
+    Normal::standard()
+}
+
 /// Most Newton or bisection steps taken when polishing a t quantile.
 const MAX_POLISH_STEPS: usize = 200;
 
@@ -122,8 +146,7 @@ pub fn t_quantile(p: f64, df: f64) -> Result<f64, StatError> {
 /// are checked against scipy in the differential tests). For `ν ≥ 1e4` the omitted terms are
 /// below 1e-18 relative for any practical `p`.
 fn cornish_fisher(tail: f64, df: f64) -> Result<f64, StatError> {
-    let normal = Normal::new(0.0, 1.0).map_err(|_| StatError::InvalidProbability(tail))?;
-    let z = -normal.inverse_cdf(tail);
+    let z = -normal_quantile(tail)?;
     let z2 = z * z;
     let g1 = z * (z2 + 1.0) / 4.0;
     let g2 = z * ((5.0 * z2 + 16.0) * z2 + 3.0) / 96.0;

@@ -8,6 +8,10 @@
 //! - [`ordinal_quantile`] is definition 1 on levels: the index of the first level whose
 //!   cumulative proportion reaches `p`, skipping levels nobody chose (so `p = 0` gives the
 //!   lowest observed level).
+//! - [`level_quantile`] and [`level_median`] apply definition 1 to a list of level positions
+//!   (one per observation) instead of counts, with the same result; the median of an even
+//!   number of observations is the lower middle level, so a collapsed ordinal response is
+//!   always a level some trial had.
 //! - No function panics: empty input or a probability outside `[0, 1]` is an error.
 
 use super::error::{ensure_count, ensure_finite, StatError};
@@ -82,6 +86,42 @@ pub fn quartiles(values: &[f64]) -> Result<Quartiles, StatError> {
 pub fn ordinal_quantile(counts: &[u64], p: f64) -> Result<usize, StatError> {
     ensure_probability(p)?;
     let total: u64 = counts.iter().sum();
+    let observed = counts
+        .iter()
+        .enumerate()
+        .filter(|&(_, &count)| count > 0)
+        .map(|(level, &count)| (level, count));
+    first_level_reaching(observed, total, p)
+}
+
+/// The level of the `p` quantile of a set of level positions (Hyndman & Fan definition 1):
+/// one of the given levels, never an average. `levels` holds one level index per observation,
+/// in any order (e.g. one subject's trials on an ordinal scale); the result is the same as
+/// [`ordinal_quantile`] on their counts. An error when `levels` is empty.
+pub fn level_quantile(levels: &[usize], p: f64) -> Result<usize, StatError> {
+    ensure_probability(p)?;
+    let mut sorted = levels.to_vec();
+    sorted.sort_unstable();
+    let runs = sorted
+        .chunk_by(|a, b| a == b)
+        .map(|run| (run[0], run.len() as u64));
+    first_level_reaching(runs, sorted.len() as u64, p)
+}
+
+/// The median level of a set of level positions (definition 1): with an even number of
+/// observations, the lower of the two middle levels. Collapses one subject's ordinal trials to
+/// one level: trials rated 1 and 5 give 1, never 3.
+pub fn level_median(levels: &[usize]) -> Result<usize, StatError> {
+    level_quantile(levels, 0.5)
+}
+
+/// The first level of `(level, count)` runs in ascending level order whose cumulative
+/// proportion of `total` reaches `p`; an error when `total` is zero.
+fn first_level_reaching(
+    runs: impl Iterator<Item = (usize, u64)>,
+    total: u64,
+    p: f64,
+) -> Result<usize, StatError> {
     if total == 0 {
         return Err(StatError::TooFewValues {
             needed: 1,
@@ -90,10 +130,7 @@ pub fn ordinal_quantile(counts: &[u64], p: f64) -> Result<usize, StatError> {
     }
     let mut cumulative = 0_u64;
     let mut last_observed = 0;
-    for (level, &count) in counts.iter().enumerate() {
-        if count == 0 {
-            continue;
-        }
+    for (level, count) in runs {
         cumulative += count;
         last_observed = level;
         if cumulative as f64 / total as f64 >= p {

@@ -9,8 +9,20 @@
 //!   y values vary. A fit needs two distinct x values.
 //! - [`LinearFit::mean_band`] is the confidence interval for the mean response at `x`:
 //!   `ŷ(x) ± t(1 − (1 − L)/2, n − 2) · s · √(1/n + (x − x̄)²/Sxx)`.
+//! - [`LinearFit::prediction_band`] is the prediction interval for one new observation at `x`:
+//!   `ŷ(x) ± t(1 − (1 − L)/2, n − 2) · s · √(1 + 1/n + (x − x̄)²/Sxx)`.
+//! - [`LinearFit::inference`] gives the standard errors `se(slope) = s / √Sxx` and
+//!   `se(intercept) = s · √(1/n + x̄²/Sxx)`, their intervals `estimate ± t(1 − (1 − L)/2, n − 2)
+//!   · se`, `r`, `R² = r²` and `s` (Draper & Smith 1998, *Applied Regression Analysis*, 3rd ed.,
+//!   §1.4 and §3.1; the certified values of NIST StRD Norris and statsmodels OLS are the checks).
+//! - Degenerate cases: two distinct x values are needed for a line (`NoSpread` otherwise); `s`,
+//!   the standard errors, intervals and bands need `n ≥ 3` (`TooFewValues`); a perfect fit has
+//!   `s = 0` and intervals of zero width; `r` and `R²` are `None` when every y is equal.
+//! - [`log_log_fit`] is the same fit on `(ln x, ln y)`: a power law `y = e^intercept · x^slope`,
+//!   refused (`NotPositive`) when any x or y is zero or negative.
 
 use super::error::{ensure_count, ensure_finite, ensure_level, StatError};
+use super::geometric::natural_logs;
 use super::interval::two_sided_t;
 use super::summary::{accurate_mean, accurate_sum};
 
@@ -39,6 +51,40 @@ pub struct BandPoint {
     pub high: f64,
 }
 
+/// An estimated coefficient with its standard error and confidence interval.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Coefficient {
+    pub estimate: f64,
+    pub se: f64,
+    pub low: f64,
+    pub high: f64,
+}
+
+/// What a reader of a fitted line asks for: coefficients with intervals and the goodness of fit.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct FitInference {
+    pub n: usize,
+    /// The confidence level of the coefficients' intervals.
+    pub level: f64,
+    pub slope: Coefficient,
+    pub intercept: Coefficient,
+    /// Pearson correlation; `None` when all y values are equal.
+    pub r: Option<f64>,
+    /// `r²`; `None` when `r` is.
+    pub r_squared: Option<f64>,
+    /// `√(RSS / (n − 2))`.
+    pub residual_sd: f64,
+}
+
+/// Which interval a band shows at each x.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum BandKind {
+    /// The confidence interval for the mean response.
+    Mean,
+    /// The prediction interval for one new observation.
+    Prediction,
+}
+
 impl LinearFit {
     /// `r²`; `None` when `r` is.
     pub fn r_squared(&self) -> Option<f64> {
@@ -50,19 +96,70 @@ impl LinearFit {
         self.intercept + self.slope * x
     }
 
+    /// `s`, which needs `n ≥ 3`.
+    fn sd(&self) -> Result<f64, StatError> {
+        self.residual_sd.ok_or(StatError::TooFewValues {
+            needed: 3,
+            found: self.n,
+        })
+    }
+
+    /// The standard error of the slope, `s / √Sxx`; needs `n ≥ 3`.
+    pub fn slope_se(&self) -> Result<f64, StatError> {
+        Ok(self.sd()? / self.sxx.sqrt())
+    }
+
+    /// The standard error of the intercept, `s · √(1/n + x̄²/Sxx)`; needs `n ≥ 3`.
+    pub fn intercept_se(&self) -> Result<f64, StatError> {
+        let leverage = 1.0 / self.n as f64 + self.mean_x * self.mean_x / self.sxx;
+        Ok(self.sd()? * leverage.sqrt())
+    }
+
+    /// Standard errors and level-`L` intervals of both coefficients, `r`, `R²` and `s`.
+    pub fn inference(&self, level: f64) -> Result<FitInference, StatError> {
+        let residual_sd = self.sd()?;
+        let t = two_sided_t(level, self.n as f64 - 2.0)?;
+        let coefficient = |estimate: f64, se: f64| Coefficient {
+            estimate,
+            se,
+            low: estimate - t * se,
+            high: estimate + t * se,
+        };
+        Ok(FitInference {
+            n: self.n,
+            level,
+            slope: coefficient(self.slope, self.slope_se()?),
+            intercept: coefficient(self.intercept, self.intercept_se()?),
+            r: self.r,
+            r_squared: self.r_squared(),
+            residual_sd,
+        })
+    }
+
     /// The level-`L` confidence interval for the mean response at `x`; needs `n ≥ 3`.
     pub fn mean_band(&self, x: f64, level: f64) -> Result<BandPoint, StatError> {
+        self.band(x, level, BandKind::Mean)
+    }
+
+    /// The level-`L` prediction interval for a new observation at `x`; needs `n ≥ 3`.
+    pub fn prediction_band(&self, x: f64, level: f64) -> Result<BandPoint, StatError> {
+        self.band(x, level, BandKind::Prediction)
+    }
+
+    /// The level-`L` band of `kind` at `x`; needs `n ≥ 3`.
+    pub fn band(&self, x: f64, level: f64, kind: BandKind) -> Result<BandPoint, StatError> {
         ensure_level(level)?;
         if !x.is_finite() {
             return Err(StatError::NonFiniteValue);
         }
-        let sd = self.residual_sd.ok_or(StatError::TooFewValues {
-            needed: 3,
-            found: self.n,
-        })?;
+        let sd = self.sd()?;
         let t = two_sided_t(level, self.n as f64 - 2.0)?;
         let dx = x - self.mean_x;
-        let half = t * sd * (1.0 / self.n as f64 + dx * dx / self.sxx).sqrt();
+        let new_observation = match kind {
+            BandKind::Mean => 0.0,
+            BandKind::Prediction => 1.0,
+        };
+        let half = t * sd * (new_observation + 1.0 / self.n as f64 + dx * dx / self.sxx).sqrt();
         let fit = self.mean_y + self.slope * dx;
         Ok(BandPoint {
             x,
@@ -120,4 +217,95 @@ pub fn linear_fit(x: &[f64], y: &[f64]) -> Result<LinearFit, StatError> {
         mean_y,
         sxx,
     })
+}
+
+/// Least squares fit of `ln y` on `ln x` (a power law `y = e^intercept · x^slope`); every x and y
+/// must be positive. The fit, its intervals and bands are in logs: exponentiate a band's
+/// limits to draw it on log axes.
+pub fn log_log_fit(x: &[f64], y: &[f64]) -> Result<LinearFit, StatError> {
+    if x.len() != y.len() {
+        return Err(StatError::LengthMismatch {
+            left: x.len(),
+            right: y.len(),
+        });
+    }
+    linear_fit(&natural_logs(x)?, &natural_logs(y)?)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    // Reference: hand derivation. y = 1 + 2x + e with residuals ±1 at x = 0, 1, 2, 3 (signs
+    // +, −, −, +): Sxx = 5, RSS = 4 on 2 df, s = √2, se(slope) = √(2/5), se(intercept) =
+    // √2·√(1/4 + 2.25/5) = √1.4; the prediction band adds s² under the root.
+    #[test]
+    fn inference_by_hand() {
+        let x = [0.0, 1.0, 2.0, 3.0];
+        let y = [2.0, 2.0, 4.0, 8.0];
+        let fit = linear_fit(&x, &y).unwrap();
+        assert_eq!((fit.slope, fit.intercept), (2.0, 1.0));
+        let inf = fit.inference(0.95).unwrap();
+        assert!((inf.residual_sd - 2f64.sqrt()).abs() < 1e-15);
+        assert!((inf.slope.se - 0.4f64.sqrt()).abs() < 1e-15);
+        assert!((inf.intercept.se - 1.4f64.sqrt()).abs() < 1e-15);
+        let t = crate::stats::t_quantile(0.975, 2.0).unwrap();
+        assert!((inf.slope.high - (2.0 + t * 0.4f64.sqrt())).abs() < 1e-14);
+        let mean = fit.mean_band(1.5, 0.95).unwrap();
+        let new = fit.prediction_band(1.5, 0.95).unwrap();
+        assert!((mean.high - mean.fit - t * 2f64.sqrt() * 0.5).abs() < 1e-14);
+        assert!((new.high - new.fit - t * 2f64.sqrt() * 1.25f64.sqrt()).abs() < 1e-14);
+        assert_eq!(fit.band(1.5, 0.95, BandKind::Prediction), Ok(new));
+    }
+
+    // Reference: the definitions' degenerate cases (module doc).
+    #[test]
+    fn inference_degenerate_inputs() {
+        let two = linear_fit(&[0.0, 1.0], &[0.0, 1.0]).unwrap();
+        let too_few = StatError::TooFewValues {
+            needed: 3,
+            found: 2,
+        };
+        assert_eq!(two.inference(0.95), Err(too_few.clone()));
+        assert_eq!(two.slope_se(), Err(too_few.clone()));
+        assert_eq!(two.prediction_band(0.5, 0.95), Err(too_few));
+        // A perfect fit: zero standard errors and zero-width intervals.
+        let exact = linear_fit(&[0.0, 1.0, 2.0], &[1.0, 3.0, 5.0]).unwrap();
+        let inf = exact.inference(0.9).unwrap();
+        assert_eq!(
+            (inf.slope.se, inf.slope.low, inf.slope.high),
+            (0.0, 2.0, 2.0)
+        );
+        assert_eq!(inf.r_squared, Some(1.0));
+        // Flat y: no r, but standard errors exist.
+        let flat = linear_fit(&[0.0, 1.0, 2.0], &[4.0, 4.0, 4.0]).unwrap();
+        assert_eq!(flat.inference(0.9).unwrap().r_squared, None);
+        assert_eq!(exact.inference(1.0), Err(StatError::InvalidLevel(1.0)));
+        assert_eq!(
+            exact.prediction_band(f64::INFINITY, 0.9),
+            Err(StatError::NonFiniteValue)
+        );
+    }
+
+    // Reference: hand derivation: y = 3·x² is the line ln y = ln 3 + 2 ln x.
+    #[test]
+    fn power_law_on_logs() {
+        let x = [1.0, 2.0, 4.0, 8.0];
+        let y: Vec<f64> = x.iter().map(|v| 3.0 * v * v).collect();
+        let fit = log_log_fit(&x, &y).unwrap();
+        assert!((fit.slope - 2.0).abs() < 1e-14);
+        assert!((fit.intercept - 3f64.ln()).abs() < 1e-14);
+        assert_eq!(
+            log_log_fit(&[1.0, 0.0], &[1.0, 2.0]),
+            Err(StatError::NotPositive)
+        );
+        assert_eq!(
+            log_log_fit(&[1.0, 2.0], &[1.0, -2.0]),
+            Err(StatError::NotPositive)
+        );
+        assert!(matches!(
+            log_log_fit(&[1.0], &[1.0, 2.0]),
+            Err(StatError::LengthMismatch { .. })
+        ));
+    }
 }

@@ -206,6 +206,31 @@ fn within_subject_drops_incomplete_subjects_and_removes_subject_offsets() {
         .all(|c| c.half_width.abs() < 1e-12 && c.n == 3));
 }
 
+// Reference: Hyndman & Fan (1996) definition 1 by hand: the lower middle level for an even
+// count, a level some trial had; the same as the counts form.
+#[test]
+fn level_median_is_a_level() {
+    assert_eq!(level_median(&[1, 5]), Ok(1));
+    assert_eq!(level_median(&[5, 1]), Ok(1));
+    assert_eq!(level_median(&[2, 2, 3]), Ok(2));
+    assert_eq!(level_median(&[4, 0, 4, 0]), Ok(0));
+    assert_eq!(level_median(&[3]), Ok(3));
+    assert_eq!(level_quantile(&[0, 1, 2, 3], 0.75), Ok(2));
+    assert_eq!(level_quantile(&[0, 1, 2, 3], 0.76), Ok(3));
+    assert_eq!(ordinal_quantile(&[1, 1, 1, 1], 0.75), Ok(2));
+    assert_eq!(
+        level_median(&[]),
+        Err(StatError::TooFewValues {
+            needed: 1,
+            found: 0
+        })
+    );
+    assert_eq!(
+        level_quantile(&[1], 1.5),
+        Err(StatError::InvalidProbability(1.5))
+    );
+}
+
 // --- box -------------------------------------------------------------------------------------
 
 #[test]
@@ -467,6 +492,73 @@ fn histogram_degenerate_inputs() {
     assert_eq!(h.counts.iter().sum::<u64>(), 101);
 }
 
+// Reference: the documented cap of 10 000 bins (language reference §9, "At most 10 000
+// bins"), by hand. Values 0 and 9999 with about 9999 bins: width 1 gives edges 0..=9999, 9999
+// bins, within the cap, so the width stays 1 (it used to be widened to 2 by a test against
+// 9998). 0 and 10 000 with width 1 give exactly 10 000 bins, still allowed. 0.5 and 10 000.5
+// with width 1 would need edges 0..=10 001, 10 001 bins: widened to the next readable step, 2.
+#[test]
+fn histogram_bin_cap_is_ten_thousand() {
+    let h = histogram(&[0.0, 9999.0], BinRule::Count(9999)).unwrap();
+    assert_eq!((h.width, h.counts.len()), (1.0, 9999));
+    let h = histogram(&[0.0, 10_000.0], BinRule::Count(10_000)).unwrap();
+    assert_eq!((h.width, h.counts.len()), (1.0, histogram::MAX_BINS));
+    let h = histogram(&[0.5, 10_000.5], BinRule::Count(10_000)).unwrap();
+    assert_eq!((h.width, h.counts.len()), (2.0, 5001));
+    assert_eq!(h.counts.iter().sum::<u64>(), 2);
+}
+
+// Reference: the bin rule of the language reference §9 (half-open bins, the last closed), by
+// hand on the grid 0, 10, …, 100.
+#[test]
+fn values_on_edges_fall_in_a_bin() {
+    let grid: Vec<f64> = (0..=10).map(|k| f64::from(k) * 10.0).collect();
+    // On the last edge: the last bin.
+    assert_eq!(bin_of(100.0, &grid), Some(9));
+    assert_eq!(count_in_bins(&[100.0, 100.0], &grid)[9], 2);
+    // On an inner edge: the bin that starts there.
+    assert_eq!(bin_of(20.0, &grid), Some(2));
+    // Outside: the nearest end bin; no bins without two edges.
+    assert_eq!(bin_of(-5.0, &grid), Some(0));
+    assert_eq!(bin_of(1.0, &[0.0]), None);
+    assert!(count_in_bins(&[1.0], &[0.0]).is_empty());
+    // A group whose values all equal the grid's last edge (a ceiling) gets the last bin.
+    assert_eq!(bins_covering(&grid, 100.0, 100.0), Some(&grid[9..=10]));
+    assert_eq!(count_in_bins(&[100.0; 3], &grid[9..=10]), vec![3]);
+    // A group whose largest value is on an inner edge gets the bin starting there.
+    assert_eq!(bins_covering(&grid, 5.0, 20.0), Some(&grid[0..=3]));
+    assert_eq!(bins_covering(&grid, 20.0, 10.0), None);
+    assert_eq!(bins_covering(&[1.0], 1.0, 1.0), None);
+}
+
+// Reference: common practice (every value counted once): on a shared grid, each group's slice
+// holds all its values, and its counts agree with the counts on the whole grid.
+#[test]
+fn every_group_value_falls_in_its_slice_of_a_shared_grid() {
+    let groups: [&[f64]; 5] = [
+        &[0.0, 3.0, 7.5],
+        &[10.0, 10.0],
+        &[42.0, 60.0, 60.0],
+        &[60.0],
+        &[0.0, 60.0],
+    ];
+    let all: Vec<f64> = groups.iter().flat_map(|g| g.iter().copied()).collect();
+    let shared = histogram(&all, BinRule::Width(10.0)).unwrap().edges;
+    for group in groups {
+        let (min, max) = (group[0], group[group.len() - 1]);
+        let slice = bins_covering(&shared, min, max).unwrap();
+        let counts = count_in_bins(group, slice);
+        assert_eq!(counts.iter().sum::<u64>(), group.len() as u64, "{group:?}");
+        let first = bin_of(min, &shared).unwrap();
+        let whole = count_in_bins(group, &shared);
+        assert_eq!(
+            &whole[first..first + counts.len()],
+            &counts[..],
+            "{group:?}"
+        );
+    }
+}
+
 // --- kernel density --------------------------------------------------------------------------
 
 #[test]
@@ -542,6 +634,46 @@ fn density_curve_integrates_to_one() {
             .len(),
         2
     );
+}
+
+// Reference: Silverman (1986) §2.10: the reflected estimate of non-negative data keeps its
+// area 1 on [0, ∞) (trapezoid rule), is 0 below zero, and at 0 is twice the plain estimate
+// (f̂₀(0) + f̂₀(−0)); values below zero are refused.
+#[test]
+fn reflected_density_integrates_to_one_on_the_half_line() {
+    let values = [0.0, 0.1, 0.2, 0.5, 1.0, 3.0];
+    let grid = DensityGrid {
+        points: 4001,
+        reach: 8.0,
+    };
+    let curve = kernel_density_bounded(
+        &values,
+        BandwidthRule::Silverman,
+        grid,
+        Boundary::ReflectAtZero,
+    )
+    .unwrap();
+    assert_eq!(curve.x[0], 0.0, "the grid starts at the boundary");
+    let step = curve.x[1] - curve.x[0];
+    let area: f64 = curve
+        .density
+        .windows(2)
+        .map(|w| (w[0] + w[1]) / 2.0 * step)
+        .sum();
+    assert!(close(area, 1.0, 1e-7), "area {area}");
+    let h = curve.bandwidth;
+    let plain = kde(&values, h, &[0.0]).unwrap()[0];
+    let at = |x: f64| kde_bounded(&values, h, &[x], Boundary::ReflectAtZero).unwrap()[0];
+    assert!(close(at(0.0), 2.0 * plain, 1e-15));
+    assert_eq!(at(-0.1), 0.0);
+    assert_eq!(
+        kde_bounded(&[1.0, -0.5], 1.0, &[0.0], Boundary::ReflectAtZero),
+        Err(StatError::Negative)
+    );
+    // Far from zero the reflection adds nothing visible: the plain estimate.
+    let far = [100.0, 101.0, 102.0];
+    let reflected = kde_bounded(&far, 0.5, &[101.0], Boundary::ReflectAtZero).unwrap();
+    assert_eq!(reflected, kde(&far, 0.5, &[101.0]).unwrap());
 }
 
 // --- least squares ---------------------------------------------------------------------------

@@ -1,5 +1,6 @@
 #!/usr/bin/env python3
-"""Reference values from numpy and scipy for tests/stats_differential.rs and tests/stats_reference.rs.
+"""Reference values from numpy, scipy and statsmodels for tests/stats_differential.rs and
+tests/stats_reference.rs.
 
 Modes (the result is JSON on stdout):
   reference.py samples        random samples (fixed seed) with numpy/scipy references
@@ -7,7 +8,9 @@ Modes (the result is JSON on stdout):
                               chosen by the Rust code, answers with numpy.histogram counts and
                               scipy.stats.gaussian_kde densities
   reference.py sleep CSV      Cousineau-Morey intervals (numpy) for the two drugs of Student's
-                              (1908) sleep data
+                              (1908) sleep data, and scipy's paired and Welch intervals on them
+  reference.py norris DAT     statsmodels OLS on NIST StRD Norris.dat
+  reference.py inference      references for the interval statistics (below), fixed seed
 
 Every input double travels as its IEEE-754 bit pattern (an unsigned 64-bit integer), so both
 sides see exactly the same values; reference outputs are plain JSON numbers (the Rust side
@@ -21,12 +24,23 @@ The references are computed independently of the Rust code, from numpy/scipy:
   scipy.stats.linregress                  least squares slope, intercept, r
   numpy.histogram                         counts for given edges
   scipy.stats.gaussian_kde                Gaussian kernel density for a given bandwidth
+  statsmodels OLS                         standard errors, conf_int, rsquared, mean_ci, obs_ci
+  statsmodels proportion_confint          Wilson score interval
+  scipy.stats.gmean                       geometric mean
+  scipy.stats.binom                       order-statistic ranks of the median interval
+  scipy.stats.bootstrap(method="BCa")     BCa intervals (Monte Carlo, 20 000 resamples)
+  scipy.stats.ttest_ind / ttest_rel       Welch and paired intervals (confidence_interval)
+  statsmodels lowess                      LOWESS smooth
+  scipy.stats.ecdf                        empirical distribution function
+  scipy.stats.norm                        normal quantiles and densities
 Some references restate a published definition in numpy (Cousineau-Morey, Tukey's whiskers,
-the histogram and bandwidth rules, the percentile bootstrap); the comment beside each says so.
+the histogram and bandwidth rules, the percentile bootstrap, the BCa interval with Figura's
+generator, the reflected density, the notch); the comment beside each says so.
 """
 
 import json
 import math
+from fractions import Fraction
 import struct
 import sys
 
@@ -39,6 +53,20 @@ except ImportError as err:  # the Rust test reports this text and fails
         "reference.py needs numpy and scipy (pip install numpy scipy): %s\n" % err
     )
     sys.exit(3)
+
+
+def statsmodels_api():
+    """statsmodels, imported only by the modes that need it."""
+    try:
+        import statsmodels.api as sm
+        from statsmodels.nonparametric.smoothers_lowess import lowess
+        from statsmodels.stats.proportion import proportion_confint
+    except ImportError as err:  # the Rust test reports this text and fails
+        sys.stderr.write(
+            "reference.py needs statsmodels (pip install statsmodels): %s\n" % err
+        )
+        sys.exit(3)
+    return sm, lowess, proportion_confint
 
 SEED = 19_081  # fixed, so the samples are the same on every run
 MASK64 = (1 << 64) - 1
@@ -391,6 +419,347 @@ def bootstrap_references(samples):
     return out
 
 
+# --- interval statistics (mode "inference") -------------------------------------------------
+
+LEVELS = [0.8, 0.9, 0.95, 0.99]
+
+
+def ols_case(sm, x, y, x_new, levels):
+    """statsmodels OLS of y on x: coefficients, standard errors, intervals, R-squared, and the
+    mean (mean_ci) and new-observation (obs_ci) intervals at x_new."""
+    model = sm.OLS(y, sm.add_constant(x)).fit()
+    case = {
+        "x": [bits(a) for a in x],
+        "y": [bits(b) for b in y],
+        "params": [num(p) for p in model.params],
+        "bse": [num(b) for b in model.bse],
+        "rsquared": num(model.rsquared),
+        "residual_sd": num(math.sqrt(model.scale)),
+        "levels": [],
+    }
+    exog_new = sm.add_constant(np.asarray(x_new, dtype=float), has_constant="add")
+    for level in levels:
+        alpha = 1.0 - level
+        ci = model.conf_int(alpha=alpha)
+        frame = model.get_prediction(exog_new).summary_frame(alpha=alpha)
+        case["levels"].append({
+            "level": level,
+            "conf_int": [[num(lo), num(hi)] for lo, hi in ci],
+            "at": [bits(v) for v in x_new],
+            "mean_ci": [[num(a), num(b)] for a, b in
+                        zip(frame["mean_ci_lower"], frame["mean_ci_upper"])],
+            "obs_ci": [[num(a), num(b)] for a, b in
+                       zip(frame["obs_ci_lower"], frame["obs_ci_upper"])],
+        })
+    return case
+
+
+def ols_references(sm, rng):
+    cases = []
+    for n, centre, spread, slope, noise in [(3, 0.0, 1.0, 2.0, 0.5), (5, 10.0, 3.0, -0.7, 1.0),
+                                            (12, 0.0, 1.0, 3.0, 0.1), (30, 1e6, 10.0, 0.02, 0.05),
+                                            (80, 100.0, 30.0, -4.0, 20.0)]:
+        x = centre + spread * rng.normal(0.0, 1.0, n)
+        y = 7.0 + slope * x + noise * rng.normal(0.0, 1.0, n)
+        x_new = [float(np.min(x)), float(np.mean(x)), float(np.max(x)) + spread]
+        case = ols_case(sm, x, y, x_new, [0.9, 0.95])
+        case["kind"] = "linear n=%d" % n
+        cases.append(case)
+    # A power law: statsmodels OLS on numpy.log of both variables.
+    for n in [8, 40]:
+        x = rng.lognormal(1.0, 0.8, n)
+        y = 2.5 * x ** 0.7 * rng.lognormal(0.0, 0.1, n)
+        case = ols_case(sm, np.log(x), np.log(y), [0.0, 1.0], [0.95])
+        case["x"] = [bits(a) for a in x]
+        case["y"] = [bits(b) for b in y]
+        case["kind"] = "log-log n=%d" % n
+        case["logs"] = True
+        cases.append(case)
+    return cases
+
+
+def wilson_references(proportion_confint, rng):
+    """statsmodels proportion_confint(method="wilson"), including 0 and n successes."""
+    pairs = [(0, 1), (1, 1), (0, 10), (10, 10), (1, 10), (5, 10), (9, 10), (0, 250), (250, 250),
+             (3, 1000), (997, 1000), (1, 2), (0, 1_000_000), (17, 23)]
+    for _ in range(20):
+        n = int(rng.integers(1, 500))
+        pairs.append((int(rng.integers(0, n + 1)), n))
+    out = []
+    for k, n in pairs:
+        for level in LEVELS:
+            low, high = proportion_confint(k, n, alpha=1.0 - level, method="wilson")
+            out.append({"k": k, "n": n, "level": level, "low": num(low), "high": num(high)})
+    return out
+
+
+def positive_samples(samples):
+    return [(kind, v) for kind, v in samples if len(v) >= 1 and np.all(v > 0)]
+
+
+def gmean_references(samples):
+    """scipy.stats.gmean; intervals: a t interval on numpy.log, exponentiated."""
+    out = []
+    for kind, v in positive_samples(samples):
+        logs = np.log(v)
+        n = len(v)
+        case = {"kind": kind, "values": [bits(x) for x in v], "gmean": num(stats.gmean(v)),
+                "intervals": []}
+        if n >= 2:
+            m, sd = float(np.mean(logs)), float(np.std(logs, ddof=1))
+            se = sd / math.sqrt(n)
+            case["intervals"].append({"spread": "sd", "low": num(math.exp(m - sd)),
+                                      "high": num(math.exp(m + sd))})
+            case["intervals"].append({"spread": "se", "low": num(math.exp(m - se)),
+                                      "high": num(math.exp(m + se))})
+            for level in LEVELS:
+                t = stats.t.ppf(1.0 - (1.0 - level) / 2.0, n - 1)
+                case["intervals"].append({"spread": "ci", "level": level,
+                                          "low": num(math.exp(m - t * se)),
+                                          "high": num(math.exp(m + t * se))})
+        out.append(case)
+    return out
+
+
+def median_rank(n, level):
+    """The largest l with 1 - 2 binom.cdf(l - 1, n, 1/2) >= level (scipy.stats.binom)."""
+    best = None
+    for l in range(1, (n + 1) // 2 + 1):
+        coverage = 1.0 - 2.0 * stats.binom.cdf(l - 1, n, 0.5)
+        if coverage >= level:
+            best = (l, coverage)
+        else:
+            break
+    return best
+
+
+def median_interval_references(samples):
+    ranks = []
+    for n in list(range(1, 80)) + [99, 100, 101, 250, 1000, 1001]:
+        for level in LEVELS + [0.5, 0.999]:
+            found = median_rank(n, level)
+            ranks.append({"n": n, "level": level,
+                          "rank": found[0] if found else None,
+                          "coverage": num(found[1]) if found else None})
+    intervals = []
+    for kind, v in samples:
+        s = np.sort(v)
+        for level in [0.9, 0.95]:
+            found = median_rank(len(v), level)
+            if found is None:
+                continue
+            l = found[0]
+            intervals.append({"values": [bits(x) for x in v], "level": level,
+                              "low": bits(s[l - 1]), "high": bits(s[len(v) - l])})
+    return ranks, intervals
+
+
+def notch_references(samples):
+    """McGill, Tukey & Larsen (1978) restated in numpy: median +- 1.58 IQR / sqrt(n)."""
+    out = []
+    for kind, v in samples:
+        q1, med, q3 = np.quantile(v, [0.25, 0.5, 0.75], method="linear")
+        half = 1.58 * (q3 - q1) / math.sqrt(len(v))
+        out.append({"values": [bits(x) for x in v], "low": num(med - half),
+                    "high": num(med + half), "median": num(med)})
+    return out
+
+
+def normal_cdf(z):
+    return float(stats.norm.cdf(z))
+
+
+def exact_mean(values):
+    """The mean rounded once from its exact rational value, so a permuted resample ties
+    with the data's mean exactly, as with Figura's compensated mean."""
+    return float(sum(Fraction(float(x)) for x in values) / len(values))
+
+
+def bca_restated(v, statistic, seed, resamples, levels):
+    """Efron (1987) BCa restated with Figura's generator (the same draws), scipy's norm.ppf /
+    norm.cdf, the tie rule of the module doc and numpy.quantile(method="linear"). The mean's
+    jackknife deviations are (x_i - mean)/(n - 1), its exact value."""
+    f = exact_mean if statistic == "mean" else np.median
+    rng = Xoshiro256StarStar(seed)
+    n = len(v)
+    reps = np.array([f(v[[rng.below(n) for _ in range(n)]]) for _ in range(resamples)])
+    theta = f(v)
+    p0 = (np.count_nonzero(reps < theta) + np.count_nonzero(reps <= theta)) / (2 * resamples)
+    z0 = stats.norm.ppf(p0)
+    if statistic == "mean":
+        d = (v - theta) / (n - 1)
+    else:
+        # Shifted by the middle value (the deviations do not change), so midpoints near a
+        # large common offset keep their digits.
+        shifted = v - np.sort(v)[n // 2]
+        jack = np.array([np.median(np.delete(shifted, i)) for i in range(n)])
+        d = math.fsum(jack) / n - jack
+    den = math.fsum(d**2)
+    a = 0.0 if den == 0 else math.fsum(d**3) / (6.0 * den**1.5)
+    out = []
+    for level in levels:
+        za = stats.norm.ppf((1.0 - level) / 2.0)
+        a1 = stats.norm.cdf(z0 + (z0 + za) / (1 - a * (z0 + za)))
+        a2 = stats.norm.cdf(z0 + (z0 - za) / (1 - a * (z0 - za)))
+        out.append((level, np.quantile(reps, [a1, a2], method="linear")))
+    return out, z0, a
+
+
+def bca_references(samples):
+    exact = []
+    for kind, v in samples:
+        n = len(v)
+        if n < 3 or n > 40 or kind.startswith("all") or kind.startswith("two"):
+            continue
+        for statistic in ["mean", "median"]:
+            intervals, z0, a = bca_restated(v, statistic, 11, 400, [0.9, 0.95])
+            for level, (low, high) in intervals:
+                exact.append({"values": [bits(x) for x in v], "statistic": statistic,
+                              "seed": 11, "resamples": 400, "level": level, "low": num(low),
+                              "high": num(high), "z0": num(z0), "a": num(a)})
+    # Monte Carlo comparison with scipy's own resampling; the data are those whose endpoint
+    # spread was measured over 30 scipy seeds (see the Rust test's tolerance).
+    rng = np.random.default_rng(5)
+    data = [("lognormal n=30", rng.lognormal(0, 1, 30)), ("normal n=50", rng.normal(10, 2, 50)),
+            ("exponential n=25", rng.exponential(3, 25))]
+    monte_carlo = []
+    for kind, v in data:
+        for statistic, f in [("mean", np.mean), ("median", np.median)]:
+            for level in [0.9, 0.95]:
+                r = stats.bootstrap((v,), f, n_resamples=20000, method="BCa",
+                                    confidence_level=level, rng=np.random.default_rng(2024))
+                monte_carlo.append({"kind": kind, "values": [bits(x) for x in v],
+                                    "statistic": statistic, "level": level,
+                                    "low": num(r.confidence_interval.low),
+                                    "high": num(r.confidence_interval.high),
+                                    "standard_error": num(r.standard_error)})
+    return exact, monte_carlo
+
+
+def reflected_density_references(rng):
+    """Silverman (1986) section 2.10 restated: the plain Gaussian estimate (scipy.stats.norm.pdf)
+    at x plus at -x for x >= 0, and 0 below."""
+    out = []
+    for n, scale in [(1, 1.0), (5, 2.0), (40, 1.0), (200, 0.3)]:
+        v = rng.exponential(scale, n)
+        if n == 1:
+            v = np.array([0.0])
+        h = 0.4 * scale
+        grid = np.linspace(-h, float(np.max(v)) + 4 * h, 57)
+        plain = lambda x: float(np.sum(stats.norm.pdf((x - v) / h)) / (n * h))
+        dens = [0.0 if x < 0 else plain(x) + plain(-x) for x in grid]
+        out.append({"values": [bits(x) for x in v], "bandwidth": h,
+                    "grid": [bits(x) for x in grid], "density": [num(d) for d in dens]})
+    return out
+
+
+def difference_references(rng):
+    """scipy.stats.ttest_ind(equal_var=False) and ttest_rel, with confidence_interval(L)."""
+    welch, paired = [], []
+    for na, nb, sa, sb, shift in [(2, 2, 1.0, 1.0, 0.0), (2, 9, 1.0, 5.0, 1.0),
+                                  (10, 10, 1.0, 1.0, 0.5), (7, 30, 3.0, 0.5, -2.0),
+                                  (100, 60, 2.0, 2.5, 0.1), (15, 4, 1e-3, 1e-3, 1e-3)]:
+        a = rng.normal(5.0 + shift, sa, na)
+        b = rng.normal(5.0, sb, nb)
+        for level in [0.9, 0.95, 0.99]:
+            r = stats.ttest_ind(a, b, equal_var=False)
+            ci = r.confidence_interval(confidence_level=level)
+            welch.append({"a": [bits(x) for x in a], "b": [bits(x) for x in b], "level": level,
+                          "low": num(ci.low), "high": num(ci.high), "df": num(r.df),
+                          "t": num(r.statistic)})
+    for n in [2, 3, 10, 40]:
+        a = rng.normal(10.0, 2.0, n)
+        b = a + rng.normal(0.3, 0.5, n)
+        for level in [0.9, 0.95, 0.99]:
+            r = stats.ttest_rel(a, b)
+            ci = r.confidence_interval(confidence_level=level)
+            paired.append({"a": [bits(x) for x in a], "b": [bits(x) for x in b], "level": level,
+                           "low": num(ci.low), "high": num(ci.high), "df": num(r.df),
+                           "t": num(r.statistic)})
+    return welch, paired
+
+
+def lowess_references(lowess, rng):
+    """statsmodels lowess(y, x, frac=f, it=iterations, delta=0): fitted values sorted by x."""
+    out = []
+    for n, frac, iterations in [(10, 0.5, 3), (20, 2.0 / 3.0, 3), (50, 0.3, 3), (50, 0.3, 0),
+                                (120, 0.2, 3), (120, 1.0, 3), (200, 0.1, 1)]:
+        x = rng.uniform(0.0, 10.0, n)
+        y = np.sin(x) + rng.normal(0.0, 0.3, n)
+        y[rng.random(n) < 0.05] += 5.0  # outliers for the robustness weights
+        fit = lowess(y, x, frac=frac, it=iterations, delta=0.0, return_sorted=True)
+        out.append({"x": [bits(a) for a in x], "y": [bits(b) for b in y], "span": frac,
+                    "iterations": iterations, "sorted_x": [bits(a) for a in fit[:, 0]],
+                    "fitted": [num(b) for b in fit[:, 1]]})
+    return out
+
+
+def ecdf_references(samples):
+    out = []
+    for kind, v in samples:
+        cdf = stats.ecdf(v).cdf
+        out.append({"values": [bits(x) for x in v], "steps": [bits(q) for q in cdf.quantiles],
+                    "proportions": [num(p) for p in cdf.probabilities]})
+    return out
+
+
+def level_median_references(rng):
+    """numpy.quantile(method="inverted_cdf") (Hyndman & Fan definition 1) on level lists."""
+    out = []
+    lists = [[1, 5], [5, 1], [0], [2, 2, 3], [0, 4, 4, 0], [3, 1, 2, 0]]
+    for _ in range(40):
+        lists.append([int(a) for a in rng.integers(0, 7, int(rng.integers(1, 9)))])
+    for levels in lists:
+        out.append({"levels": levels, "quantiles": [
+            [p, int(np.quantile(np.array(levels), p, method="inverted_cdf"))]
+            for p in ORDINAL_PS]})
+    return out
+
+
+def normal_references():
+    ps = [1e-12, 1e-6, 0.0005, 0.025, 0.05, 0.1, 0.3, 0.5, 0.7, 0.9, 0.95, 0.975, 0.9995]
+    return [{"p": p, "quantile": num(stats.norm.ppf(p))} for p in ps]
+
+
+def mode_inference():
+    sm, lowess, proportion_confint = statsmodels_api()
+    rng = np.random.default_rng(SEED + 1)
+    samples = make_samples(rng)
+    ranks, intervals = median_interval_references(samples)
+    exact, monte_carlo = bca_references(samples)
+    welch, paired = difference_references(rng)
+    result = {
+        "ols": ols_references(sm, rng),
+        "wilson": wilson_references(proportion_confint, rng),
+        "gmean": gmean_references(samples),
+        "median_ranks": ranks,
+        "median_intervals": intervals,
+        "notches": notch_references(samples),
+        "bca_exact": exact,
+        "bca_monte_carlo": monte_carlo,
+        "reflected": reflected_density_references(rng),
+        "welch": welch,
+        "paired": paired,
+        "lowess": lowess_references(lowess, rng),
+        "ecdf": ecdf_references(samples),
+        "level_median": level_median_references(rng),
+        "normal": normal_references(),
+    }
+    json.dump(result, sys.stdout)
+
+
+def mode_norris(path):
+    """statsmodels OLS on the NIST StRD file Norris.dat (data lines after "Data:", y then x)."""
+    sm, _, _ = statsmodels_api()
+    with open(path) as f:
+        lines = f.read().splitlines()
+    start = max(i for i, line in enumerate(lines) if line.startswith("Data:"))
+    rows = [[float(t) for t in line.split()] for line in lines[start + 1:] if line.strip()]
+    data = np.array(rows)
+    y, x = data[:, 0], data[:, 1]
+    json.dump(ols_case(sm, x, y, [0.0, 500.0, 1000.0], [0.9, 0.95, 0.99]), sys.stdout)
+
+
 # --- modes ---------------------------------------------------------------------------------
 
 
@@ -452,7 +821,14 @@ def mode_sleep(path):
             by_patient.setdefault(int(row["patient"]), {})[row["drug"]] = float(row["extra_hours"])
     patients = sorted(by_patient)
     matrix = np.array([[by_patient[p]["A"], by_patient[p]["B"]] for p in patients])
-    json.dump(cousineau_morey(matrix, [0.95]), sys.stdout)
+    result = cousineau_morey(matrix, [0.95])
+    # scipy.stats.ttest_rel(B, A) and ttest_ind(B, A, equal_var=False), 95% intervals.
+    for name, r in [("paired", stats.ttest_rel(matrix[:, 1], matrix[:, 0])),
+                    ("welch", stats.ttest_ind(matrix[:, 1], matrix[:, 0], equal_var=False))]:
+        ci = r.confidence_interval(confidence_level=0.95)
+        result[name] = {"low": num(ci.low), "high": num(ci.high), "df": num(r.df),
+                        "t": num(r.statistic)}
+    json.dump(result, sys.stdout)
 
 
 def main():
@@ -462,8 +838,14 @@ def main():
         mode_given()
     elif len(sys.argv) >= 3 and sys.argv[1] == "sleep":
         mode_sleep(sys.argv[2])
+    elif len(sys.argv) >= 3 and sys.argv[1] == "norris":
+        mode_norris(sys.argv[2])
+    elif len(sys.argv) >= 2 and sys.argv[1] == "inference":
+        mode_inference()
     else:
-        sys.stderr.write("usage: reference.py samples | given | sleep CSV\n")
+        sys.stderr.write(
+            "usage: reference.py samples | given | inference | sleep CSV | norris DAT\n"
+        )
         sys.exit(2)
 
 
