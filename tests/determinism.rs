@@ -6,7 +6,8 @@ mod common;
 use std::path::Path;
 use std::process::Command;
 
-use figura::compute::{self, LayerMarks, PointMarks};
+use figura::compute::layer::PointMarks;
+use figura::compute::{self, LayerMarks};
 
 /// Names of the files in two folders, and the first file whose bytes differ.
 fn compare_folders(a: &Path, b: &Path) {

@@ -16,10 +16,7 @@ use std::path::PathBuf;
 
 use crate::diag::Span;
 
-pub use super::layer::{
-    BoxOpts, CountsOpts, DensityOpts, FitOpts, FlowsOpts, HistogramOpts, Layer, LayerPlan,
-    LinesOpts, MeanOpts, MedianOpts, PointsOpts, ViolinOpts,
-};
+pub use super::layer::{Layer, LayerPlan};
 
 /// Stevens' level of measurement of a variable, plus `id`.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]

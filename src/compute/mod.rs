@@ -29,10 +29,7 @@ use cells::{Cells, Placed};
 use extent::Extent;
 use layer::YUse;
 
-pub use layer::{
-    Bar, Bin, BoxMark, CatPoint, Curve, Estimate, FitMark, FlowMarks, LayerMarks, LevelMark,
-    MedianMarks, PointMarks, Stat, SubjectPath, ViolinMark, FIT_GRID, VIOLIN_GRID,
-};
+pub use layer::{LayerMarks, Stat};
 pub use levels::Levels;
 pub use summary::{StatValue, SummaryRow};
 

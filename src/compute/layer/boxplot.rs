@@ -4,7 +4,8 @@
 //! Summary rows per cell: `n`, `n_missing`, and when the cell has values `q1`, `median`, `q3`,
 //! `whisker_low`, `whisker_high`, one `outliers` row per outlier, `min` and `max`.
 
-use crate::check::plan::{BoxOpts, Whiskers};
+use crate::check::layer::BoxOpts;
+use crate::check::plan::Whiskers;
 use crate::stats;
 
 use super::super::cells::Values;

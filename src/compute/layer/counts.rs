@@ -4,7 +4,8 @@
 //! Summary rows per colour group: `n` and `n_missing` (rows whose x is missing), then per x
 //! level `count` (and `percent` with `heights(percent)`).
 
-use crate::check::plan::{CountsOpts, Heights};
+use crate::check::layer::CountsOpts;
+use crate::check::plan::Heights;
 
 use super::super::cells::Placement;
 use super::super::extent::Extent;

@@ -3,7 +3,8 @@
 //!
 //! Summary rows per colour group: `n`, `n_missing`, and `bandwidth` when it is defined.
 
-use crate::check::plan::{Bandwidth, DensityOpts};
+use crate::check::layer::DensityOpts;
+use crate::check::plan::Bandwidth;
 use crate::stats;
 
 use super::super::cells::Values;

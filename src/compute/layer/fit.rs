@@ -10,7 +10,7 @@
 //! Summary rows per colour group: `n`, `n_missing`, and when the line exists `slope`,
 //! `intercept` and `r` (`r` only when y varies).
 
-use crate::check::plan::FitOpts;
+use crate::check::layer::FitOpts;
 use crate::stats;
 
 use super::super::cells::{Pair, Placement};

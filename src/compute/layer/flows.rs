@@ -17,7 +17,8 @@
 
 use std::collections::BTreeMap;
 
-use crate::check::plan::{Axes, FlowsOpts};
+use crate::check::layer::FlowsOpts;
+use crate::check::plan::Axes;
 use crate::diag::{Code, Diagnostic, Span};
 
 use super::super::cells::{check_colours, repeated_subject, Values};

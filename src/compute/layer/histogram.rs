@@ -10,7 +10,8 @@
 //! Summary rows per colour group: `n`, `n_missing`, then per bin (`x` = `[lo,hi)`, the last
 //! `[lo,hi]`) `count`, and `percent` or `density` when those are the heights drawn.
 
-use crate::check::plan::{BinRule, Heights, HistogramOpts};
+use crate::check::layer::HistogramOpts;
+use crate::check::plan::{BinRule, Heights};
 use crate::stats;
 
 use super::super::cells::Values;

@@ -5,7 +5,7 @@
 
 use std::collections::BTreeMap;
 
-use crate::check::plan::LinesOpts;
+use crate::check::layer::LinesOpts;
 
 use super::super::cells::{Obs, Values};
 use super::super::extent::Extent;

@@ -7,7 +7,8 @@
 
 use std::collections::BTreeMap;
 
-use crate::check::plan::{ErrorBar, MeanOpts};
+use crate::check::layer::MeanOpts;
+use crate::check::plan::ErrorBar;
 use crate::stats;
 
 use super::super::cells::{Cell, Values};

@@ -5,7 +5,8 @@
 //! Summary rows per cell: `n`, `n_missing`, then `median` (and `ci_low`, `ci_high`), or for an
 //! ordinal y the level names `median`, `q1`, `q3`.
 
-use crate::check::plan::{ErrorBar, MedianOpts};
+use crate::check::layer::MedianOpts;
+use crate::check::plan::ErrorBar;
 use crate::stats;
 
 use super::super::cells::{Placed, Values};

@@ -3,7 +3,7 @@
 //!
 //! Summary rows: `n` and `n_missing` per cell (per colour group over a numeric x).
 
-use crate::check::plan::PointsOpts;
+use crate::check::layer::PointsOpts;
 use crate::stats;
 
 use super::super::cells::{Obs, Pair, Placed, Placement, Values};

@@ -14,7 +14,7 @@
 //! its `n` reported and draws nothing. Summary rows per cell: `n`, `n_missing`, `bandwidth`,
 //! `q1`, `median`, `q3`.
 
-use crate::check::plan::ViolinOpts;
+use crate::check::layer::ViolinOpts;
 use crate::stats;
 
 use super::super::cells::Values;

@@ -1,7 +1,7 @@
 //! `box`: a box from the first to the third quartile, the median line, whiskers, and (when no
 //! points show them) the outliers as open circles.
 
-use crate::compute::BoxMark;
+use crate::compute::layer::BoxMark;
 use crate::scene::{Colour, Fill, Mark, Point, Stroke};
 
 use super::super::style::*;

@@ -1,6 +1,6 @@
 //! `counts`: a bar from zero per level and colour group.
 
-use crate::compute::Bar;
+use crate::compute::layer::Bar;
 use crate::scene::Mark;
 
 use super::super::PanelFrame;

@@ -1,6 +1,6 @@
 //! `density`: a curve over a pale area down to zero, per colour group.
 
-use crate::compute::Curve;
+use crate::compute::layer::Curve;
 use crate::scene::{Fill, Mark, Point, Stroke};
 
 use super::super::style::*;

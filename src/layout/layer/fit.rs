@@ -1,6 +1,6 @@
 //! `fit`: the fitted line over its translucent band.
 
-use crate::compute::FitMark;
+use crate::compute::layer::FitMark;
 use crate::scene::{Fill, Mark, Point, Stroke};
 
 use super::super::style::*;

@@ -13,7 +13,7 @@
 //! - blocks are drawn over the ribbons in their state's colour, with the count written inside
 //!   when it fits.
 
-use crate::compute::FlowMarks;
+use crate::compute::layer::FlowMarks;
 use crate::scene::{Colour, Fill, Mark, PathSegment, Point, TextAlign, TextBaseline, TextStyle};
 
 use super::super::style::*;

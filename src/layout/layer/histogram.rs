@@ -1,7 +1,7 @@
 //! `histogram`: adjacent bars over the bins; translucent and outlined in their colour when
 //! colour groups overlap.
 
-use crate::compute::Bin;
+use crate::compute::layer::Bin;
 use crate::scene::{Colour, Fill, Mark, Stroke};
 
 use super::super::style::*;

@@ -1,6 +1,6 @@
 //! `lines`: each subject's values joined, meeting the dots they join.
 
-use crate::compute::SubjectPath;
+use crate::compute::layer::SubjectPath;
 use crate::scene::{Mark, Point, Stroke};
 
 use super::super::style::*;

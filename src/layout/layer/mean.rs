@@ -1,6 +1,6 @@
 //! `mean`: bars from zero (with `bar`) under dots with their error bars.
 
-use crate::compute::{Bar, Estimate};
+use crate::compute::layer::{Bar, Estimate};
 use crate::scene::Mark;
 
 use super::super::PanelFrame;

@@ -1,7 +1,7 @@
 //! `median`: a diamond with its interval over a numeric y; over an ordinal y, a thick line
 //! from the first to the third quartile level with a dot at the median level.
 
-use crate::compute::MedianMarks;
+use crate::compute::layer::MedianMarks;
 use crate::scene::{Colour, Fill, Mark, Point, Stroke};
 
 use super::super::style::*;

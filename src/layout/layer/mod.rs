@@ -16,7 +16,8 @@ mod median;
 mod points;
 mod violin;
 
-use crate::compute::{Bar, Estimate, LayerMarks, PanelData};
+use crate::compute::layer::{Bar, Estimate};
+use crate::compute::{LayerMarks, PanelData};
 use crate::scene::{Colour, Fill, Mark, Point, Stroke};
 
 use super::style::*;

@@ -1,6 +1,6 @@
 //! `points`: dots, jittered across their band over a categorical x.
 
-use crate::compute::PointMarks;
+use crate::compute::layer::PointMarks;
 use crate::scene::{Mark, Point};
 
 use super::super::style::*;

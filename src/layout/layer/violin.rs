@@ -1,6 +1,6 @@
 //! `violin`: the density mirrored about the slot's centre, with the quartiles marked.
 
-use crate::compute::ViolinMark;
+use crate::compute::layer::ViolinMark;
 use crate::scene::{Fill, Mark, Point, Stroke};
 
 use super::super::style::*;
