@@ -44,7 +44,8 @@ pub const BIN_OPACITY: f64 = 0.8;
 pub const BIN_OVERLAY_OPACITY: f64 = 0.45;
 pub const BIN_EDGE_MM: f64 = 0.2;
 pub const DENSITY_AREA_OPACITY: f64 = 0.15;
-pub const DENSITY_LINE_MM: f64 = 0.4;
+/// Lines of distribution curves (density, cumulative distribution).
+pub const CURVE_LINE_MM: f64 = 0.4;
 /// A box's width as a share of its group's band, and at most this.
 pub const BOX_WIDTH_SHARE: f64 = 0.5;
 pub const BOX_MAX_WIDTH_MM: f64 = 8.0;

@@ -29,7 +29,7 @@ pub fn draw(out: &mut Vec<Mark>, frame: &PanelFrame, curves: &[Curve]) {
         });
         out.push(Mark::Line {
             points: line,
-            stroke: Stroke::solid(colour, DENSITY_LINE_MM),
+            stroke: Stroke::solid(colour, CURVE_LINE_MM),
         });
     }
 }
