@@ -182,31 +182,11 @@ impl Summary {
 /// Runs `tests/features/end_to_end.py MODE` with `request` on stdin; fails with a clear message
 /// when python3, numpy or scipy is missing.
 fn reference(mode: &str, request: Value) -> Value {
-    let script = common::root().join("tests/features/end_to_end.py");
-    let mut child = Command::new("python3")
-        .arg(&script)
-        .arg(mode)
-        .stdin(Stdio::piped())
-        .stdout(Stdio::piped())
-        .stderr(Stdio::piped())
-        .spawn()
-        .unwrap_or_else(|e| {
-            panic!("cannot run python3 ({e}); install Python 3 with numpy and scipy")
-        });
-    child
-        .stdin
-        .take()
-        .expect("stdin is piped")
-        .write_all(request.to_string().as_bytes())
-        .expect("write the request");
-    let out = child.wait_with_output().expect("wait for end_to_end.py");
-    assert!(
-        out.status.success(),
-        "end_to_end.py {mode} failed ({}); it needs python3 with numpy and scipy:\n{}",
-        out.status,
-        String::from_utf8_lossy(&out.stderr)
-    );
-    serde_json::from_slice(&out.stdout).expect("end_to_end.py prints JSON")
+    common::python(
+        &common::root().join("tests/features/end_to_end.py"),
+        mode,
+        &request,
+    )
 }
 
 /// The code and message of a build's only error.

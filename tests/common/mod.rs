@@ -94,3 +94,35 @@ pub fn output_files(dir: &Path) -> Vec<(String, Vec<u8>)> {
     out.sort();
     out
 }
+
+/// Runs `python3 SCRIPT MODE` with `request` (JSON) on its standard input and returns the JSON
+/// it prints: the tests' outside references (numpy, scipy, statsmodels).
+pub fn python(script: &Path, mode: &str, request: &serde_json::Value) -> serde_json::Value {
+    use std::io::Write as _;
+    use std::process::{Command, Stdio};
+    let mut child = Command::new("python3")
+        .arg(script)
+        .arg(mode)
+        .stdin(Stdio::piped())
+        .stdout(Stdio::piped())
+        .stderr(Stdio::piped())
+        .spawn()
+        .unwrap_or_else(|e| {
+            panic!("cannot run python3 ({e}); install Python 3 with numpy and scipy")
+        });
+    child
+        .stdin
+        .take()
+        .expect("stdin is piped")
+        .write_all(request.to_string().as_bytes())
+        .expect("write the request");
+    let out = child.wait_with_output().expect("wait for python3");
+    assert!(
+        out.status.success(),
+        "{} {mode} failed ({}); it needs python3 with numpy, scipy and statsmodels:\n{}",
+        script.display(),
+        out.status,
+        String::from_utf8_lossy(&out.stderr)
+    );
+    serde_json::from_slice(&out.stdout).expect("the reference script prints JSON")
+}

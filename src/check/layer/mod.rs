@@ -17,6 +17,7 @@
 mod boxplot;
 mod counts;
 mod density;
+mod ecdf;
 mod fit;
 mod flows;
 mod histogram;
@@ -38,6 +39,7 @@ use super::terms::{Accepts, Options};
 pub use boxplot::BoxOpts;
 pub use counts::CountsOpts;
 pub use density::DensityOpts;
+pub use ecdf::EcdfOpts;
 pub use fit::FitOpts;
 pub use flows::FlowsOpts;
 pub use histogram::HistogramOpts;
@@ -58,6 +60,7 @@ pub static LAYERS: &[&LayerDecl] = &[
     &counts::DECL,
     &histogram::DECL,
     &density::DECL,
+    &ecdf::DECL,
     &fit::DECL,
     &flows::DECL,
 ];
@@ -79,6 +82,7 @@ pub enum Layer {
     Counts(CountsOpts),
     Histogram(HistogramOpts),
     Density(DensityOpts),
+    Ecdf(EcdfOpts),
     Fit(FitOpts),
     Flows(FlowsOpts),
 }

@@ -8,6 +8,7 @@
 mod boxplot;
 mod counts;
 mod density;
+mod ecdf;
 mod fit;
 mod flows;
 mod histogram;
@@ -34,6 +35,7 @@ pub use points::{CatPoint, PointMarks};
 pub use violin::{ViolinMark, VIOLIN_GRID};
 
 pub use density::Curve;
+pub use ecdf::EcdfMark;
 pub use fit::FIT_GRID;
 
 /// What one layer draws in one panel: one variant per layer.
@@ -52,6 +54,7 @@ pub enum LayerMarks {
     Counts(Vec<Bar>),
     Histogram(Vec<Bin>),
     Density(Vec<Curve>),
+    Ecdf(Vec<EcdfMark>),
     Fit(Vec<FitMark>),
     Flows(FlowMarks),
 }
@@ -145,6 +148,7 @@ pub fn compute(
         Layer::Counts(o) => counts::compute(o, &at, at.rows()?),
         Layer::Histogram(o) => histogram::compute(o, &at, at.values()?),
         Layer::Density(o) => density::compute(o, &at, at.values()?),
+        Layer::Ecdf(o) => ecdf::compute(o, &at, at.values()?),
         Layer::Fit(o) => fit::compute(o, &at, at.pairs()?),
         Layer::Flows(o) => flows::compute(o, &at, layer.span),
     }
@@ -259,6 +263,7 @@ stat_table! {
     Count = "count", "Rows in a level or bin (`counts`, `histogram`); for `flows`, subjects in a state, or moving between two states of consecutive occasions (zeros included).";
     Percent = "percent", "`100 · count / n` of the panel and colour group: `counts` and `histogram` with `heights(percent)`.";
     Density = "density", "`count / (n · width)`: `histogram` with `heights(density)`.";
+    Proportion = "proportion", "The proportion of values at or below `x` (each distinct value): `ecdf`.";
     Bandwidth = "bandwidth", "The kernel bandwidth used: `density`, `violin`.";
     Slope = "slope", "Slope of the least squares line: `fit`.";
     Intercept = "intercept", "Intercept of the least squares line: `fit`.";

@@ -7,6 +7,7 @@
 mod boxplot;
 mod counts;
 mod density;
+mod ecdf;
 mod fit;
 mod flows;
 mod histogram;
@@ -37,6 +38,7 @@ pub fn draw(frame: &PanelFrame, panel: &PanelData) -> Vec<Mark> {
             LayerMarks::Counts(bars) => counts::draw(&mut out, frame, bars),
             LayerMarks::Histogram(bins) => histogram::draw(&mut out, frame, bins),
             LayerMarks::Density(curves) => density::draw(&mut out, frame, curves),
+            LayerMarks::Ecdf(steps) => ecdf::draw(&mut out, frame, steps),
             LayerMarks::Fit(fits) => fit::draw(&mut out, frame, fits),
             LayerMarks::Flows(flows) => flows::draw(&mut out, frame, flows),
         }
