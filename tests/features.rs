@@ -11,9 +11,7 @@
 
 mod common;
 
-use std::io::Write as _;
 use std::path::PathBuf;
-use std::process::{Command, Stdio};
 
 use figura::build::{self, BuildOptions, BuildReport};
 use figura::check::{self, SpecUnit};
