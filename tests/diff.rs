@@ -84,7 +84,7 @@ fn two_commits() -> (tempfile::TempDir, PathBuf) {
     copy_example(&repo, "commute.figura", "data/commute.tsv");
     // The scenario below is written for these seven figures; later examples stay out of it.
     edit(&repo.join("seedlings.figura"), |t| {
-        without_figure(&t, "height_density")
+        without_figure(&without_figure(&t, "height_density"), "height_cumulative")
     });
     git(&repo, &["add", "-A"]);
     git(&repo, &["commit", "-q", "-m", "figures"]);
