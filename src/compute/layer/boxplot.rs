@@ -11,7 +11,7 @@ use crate::stats;
 use super::super::cells::Values;
 use super::super::extent::Extent;
 use super::super::ComputeError;
-use super::{n_rows, At, LayerMarks, LayerOutput, Stat};
+use super::{At, LayerMarks, LayerOutput, Stat};
 
 /// A box of a box plot.
 #[derive(Debug, Clone, PartialEq)]
@@ -34,12 +34,9 @@ pub fn compute(opts: &BoxOpts, at: &At, values: &Values) -> Result<LayerOutput, 
     let mut rows = Vec::new();
     let mut boxes = Vec::new();
     let mut y = Extent::default();
-    for cell in at.cells.cells_of(at.panel) {
-        let sorted = values.sorted(cell);
-        let k = at.cell_key(cell);
-        n_rows(&mut rows, &k, sorted.len(), values.placed.n_missing(cell));
+    at.each_cell(values, &mut rows, |cell, sorted, k, rows| {
         let Ok(b) = stats::box_summary(sorted, rule) else {
-            continue;
+            return;
         };
         rows.push(k.number(Stat::Q1, b.q1));
         rows.push(k.number(Stat::Median, b.median));
@@ -62,7 +59,7 @@ pub fn compute(opts: &BoxOpts, at: &At, values: &Values) -> Result<LayerOutput, 
             whisker_high: b.whisker_high,
             outliers: b.outliers,
         });
-    }
+    });
     Ok(LayerOutput {
         y,
         ..LayerOutput::new(LayerMarks::Box(boxes), rows)

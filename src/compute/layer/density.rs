@@ -10,7 +10,7 @@ use crate::stats;
 use super::super::cells::Values;
 use super::super::extent::Extent;
 use super::super::ComputeError;
-use super::{n_rows, At, LayerMarks, LayerOutput, Stat, YUse};
+use super::{At, LayerMarks, LayerOutput, Stat, YUse};
 
 /// Points at which a density curve is evaluated, across the padded data range.
 const DENSITY_GRID: usize = 256;
@@ -27,16 +27,12 @@ pub fn compute(opts: &DensityOpts, at: &At, values: &Values) -> Result<LayerOutp
     let mut curves = Vec::new();
     let (mut x, mut y) = (Extent::default(), Extent::default());
     y.add(0.0);
-    for g in 0..at.cells.groups.len() {
-        let cell = at.cell(0, g);
-        let v = values.sorted(cell);
-        let k = at.key(g, "");
-        n_rows(&mut rows, &k, v.len(), values.placed.n_missing(cell));
+    at.each_group(values, &mut rows, |g, v, k, rows| {
         let (Some(first), Some(last)) = (v.first(), v.last()) else {
-            continue;
+            return;
         };
         let Ok(h) = stats::bandwidth(v, bandwidth_rule(opts.bandwidth)) else {
-            continue;
+            return;
         };
         rows.push(k.number(Stat::Bandwidth, h));
         let (lo, hi) = (first - 3.0 * h, last + 3.0 * h);
@@ -44,7 +40,7 @@ pub fn compute(opts: &DensityOpts, at: &At, values: &Values) -> Result<LayerOutp
             .map(|i| lo + (hi - lo) * i as f64 / (DENSITY_GRID - 1) as f64)
             .collect();
         let Ok(ys) = stats::kde(v, h, &grid) else {
-            continue;
+            return;
         };
         x.add(lo);
         x.add(hi);
@@ -53,7 +49,7 @@ pub fn compute(opts: &DensityOpts, at: &At, values: &Values) -> Result<LayerOutp
             group: g,
             points: grid.into_iter().zip(ys).collect(),
         });
-    }
+    });
     Ok(LayerOutput {
         x,
         y,

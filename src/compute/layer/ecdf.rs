@@ -11,7 +11,7 @@ use super::super::cells::Values;
 use super::super::extent::Extent;
 use super::super::summary::format_number;
 use super::super::ComputeError;
-use super::{n_rows, At, LayerMarks, LayerOutput, Stat, YUse};
+use super::{At, LayerMarks, LayerOutput, Stat, YUse};
 
 /// The steps of one colour group.
 #[derive(Debug, Clone, PartialEq)]
@@ -27,13 +27,9 @@ pub fn compute(_opts: &EcdfOpts, at: &At, values: &Values) -> Result<LayerOutput
     let (mut x, mut y) = (Extent::default(), Extent::default());
     y.add(0.0);
     y.add(1.0);
-    for g in 0..at.cells.groups.len() {
-        let cell = at.cell(0, g);
-        let sorted = values.sorted(cell);
-        let k = at.key(g, "");
-        n_rows(&mut rows, &k, sorted.len(), values.placed.n_missing(cell));
+    at.each_group(values, &mut rows, |g, sorted, k, rows| {
         let Ok(e) = stats::ecdf(sorted) else {
-            continue;
+            return;
         };
         let steps: Vec<(f64, f64)> = e.values.into_iter().zip(e.proportions).collect();
         for (v, p) in &steps {
@@ -41,7 +37,7 @@ pub fn compute(_opts: &EcdfOpts, at: &At, values: &Values) -> Result<LayerOutput
             x.add(*v);
         }
         marks.push(EcdfMark { group: g, steps });
-    }
+    });
     Ok(LayerOutput {
         x,
         y,

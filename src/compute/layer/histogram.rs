@@ -18,7 +18,7 @@ use super::super::cells::Values;
 use super::super::extent::Extent;
 use super::super::summary::bin_label;
 use super::super::ComputeError;
-use super::{n_rows, At, LayerMarks, LayerOutput, Stat, YUse};
+use super::{At, LayerMarks, LayerOutput, Stat, YUse};
 
 /// A histogram bar.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -41,13 +41,9 @@ pub fn compute(
     let mut bins = Vec::new();
     let (mut x, mut y) = (Extent::default(), Extent::default());
     y.add(0.0);
-    for g in 0..at.cells.groups.len() {
-        let cell = at.cell(0, g);
-        let v = values.sorted(cell);
-        let k = at.key(g, "");
-        n_rows(&mut rows, &k, v.len(), values.placed.n_missing(cell));
+    at.each_group(values, &mut rows, |g, v, k, rows| {
         let Some(edges) = group_edges(&shared, v) else {
-            continue;
+            return;
         };
         let counts = stats::count_in_bins(v, edges);
         let n_bins = counts.len();
@@ -78,7 +74,7 @@ pub fn compute(
                 height,
             });
         }
-    }
+    });
     let title = match opts.heights {
         Heights::Count => "Count",
         Heights::Percent => "Percent",

@@ -36,12 +36,9 @@ pub fn compute(opts: &MedianOpts, at: &At) -> Result<LayerOutput, ComputeError> 
 fn of_numbers(opts: &MedianOpts, at: &At, values: &Values) -> LayerOutput {
     let mut rows = Vec::new();
     let mut marks = Vec::new();
-    for cell in at.cells.cells_of(at.panel) {
-        let sorted = values.sorted(cell);
-        let k = at.cell_key(cell);
-        n_rows(&mut rows, &k, sorted.len(), values.placed.n_missing(cell));
+    at.each_cell(values, &mut rows, |cell, sorted, k, rows| {
         let Ok(median) = stats::quantile_sorted(sorted, 0.5) else {
-            continue;
+            return;
         };
         rows.push(k.number(Stat::Median, median));
         let interval = match opts.error {
@@ -62,7 +59,7 @@ fn of_numbers(opts: &MedianOpts, at: &At, values: &Values) -> LayerOutput {
             centre: median,
             interval,
         });
-    }
+    });
     let mut y = Extent::default();
     for e in &marks {
         y.add(e.centre);

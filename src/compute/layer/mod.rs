@@ -186,6 +186,39 @@ impl At<'_, '_> {
         }
     }
 
+    /// Visits every cell of the panel (x level, then colour group): pushes the cell's `n` and
+    /// `n_missing` rows, then calls `f` with the cell, its sorted values and its key.
+    fn each_cell<'v>(
+        &self,
+        values: &'v Values,
+        rows: &mut Vec<SummaryRow>,
+        mut f: impl FnMut(Cell, &'v [f64], &RowKey, &mut Vec<SummaryRow>),
+    ) {
+        for cell in self.cells.cells_of(self.panel) {
+            let sorted = values.sorted(cell);
+            let key = self.cell_key(cell);
+            n_rows(rows, &key, sorted.len(), values.placed.n_missing(cell));
+            f(cell, sorted, &key, rows);
+        }
+    }
+
+    /// Visits every colour group of the panel over a numeric x: pushes its `n` and `n_missing`
+    /// rows (`x` empty), then calls `f` with the group, its sorted values and its key.
+    fn each_group<'v>(
+        &self,
+        values: &'v Values,
+        rows: &mut Vec<SummaryRow>,
+        mut f: impl FnMut(usize, &'v [f64], &RowKey, &mut Vec<SummaryRow>),
+    ) {
+        for group in 0..self.cells.groups.len() {
+            let cell = self.cell(0, group);
+            let sorted = values.sorted(cell);
+            let key = self.key(group, "");
+            n_rows(rows, &key, sorted.len(), values.placed.n_missing(cell));
+            f(group, sorted, &key, rows);
+        }
+    }
+
     fn values(&self) -> Result<&Values, ComputeError> {
         match &self.cells.placed {
             Placed::Values(v) => Ok(v),

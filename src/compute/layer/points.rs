@@ -42,15 +42,7 @@ pub fn compute(opts: &PointsOpts, at: &At) -> Result<LayerOutput, ComputeError> 
 
 fn over_categories(opts: &PointsOpts, at: &At, values: &Values) -> LayerOutput {
     let mut rows = Vec::new();
-    for cell in at.cells.cells_of(at.panel) {
-        let n = values.sorted(cell).len();
-        n_rows(
-            &mut rows,
-            &at.cell_key(cell),
-            n,
-            values.placed.n_missing(cell),
-        );
-    }
+    at.each_cell(values, &mut rows, |_, _, _, _| {});
     let points: Vec<CatPoint> = values
         .placed
         .in_panel(at.panel)

@@ -21,7 +21,7 @@ use super::super::cells::Values;
 use super::super::extent::Extent;
 use super::super::ComputeError;
 use super::density::bandwidth_rule;
-use super::{n_rows, At, LayerMarks, LayerOutput, Stat};
+use super::{At, LayerMarks, LayerOutput, Stat};
 
 /// Points at which each violin's density is evaluated.
 pub const VIOLIN_GRID: usize = 128;
@@ -41,22 +41,19 @@ pub struct ViolinMark {
 pub fn compute(opts: &ViolinOpts, at: &At, values: &Values) -> Result<LayerOutput, ComputeError> {
     let mut rows = Vec::new();
     let mut marks = Vec::new();
-    for cell in at.cells.cells_of(at.panel) {
-        let sorted = values.sorted(cell);
-        let k = at.cell_key(cell);
-        n_rows(&mut rows, &k, sorted.len(), values.placed.n_missing(cell));
+    at.each_cell(values, &mut rows, |cell, sorted, k, rows| {
         let Ok(h) = stats::bandwidth(sorted, bandwidth_rule(opts.bandwidth)) else {
-            continue;
+            return;
         };
         let Ok(q) = stats::quartiles_sorted(sorted) else {
-            continue;
+            return;
         };
         rows.push(k.number(Stat::Bandwidth, h));
         rows.push(k.number(Stat::Q1, q.q1));
         rows.push(k.number(Stat::Median, q.median));
         rows.push(k.number(Stat::Q3, q.q3));
         let Some(outline) = outline(sorted, h) else {
-            continue;
+            return;
         };
         marks.push(ViolinMark {
             x: cell.x,
@@ -66,7 +63,7 @@ pub fn compute(opts: &ViolinOpts, at: &At, values: &Values) -> Result<LayerOutpu
             median: q.median,
             q3: q.q3,
         });
-    }
+    });
     let mut y = Extent::default();
     let mut width_peak: f64 = 0.0;
     for (v, d) in marks.iter().flat_map(|m| &m.outline) {
