@@ -5,8 +5,9 @@
 //!
 //! `syntax` (text → tree) → `check` (tree → checked plan) → `data` (files → typed table) →
 //! `compute` (plan + table → numbers) → `layout` (numbers → scene in mm) → `svg` (scene →
-//! text) → `export` (SVG → PNG / PDF); `build` drives them over many files; `project` reads a
-//! `figura.toml`; `cli` is the command line and `report` prints diagnostics.
+//! text) → `export` (scene → SVG, PNG, TIFF and PDF bytes); `build` drives them over many
+//! files; `project` reads a `figura.toml`; `cli` is the command line and `report` prints
+//! diagnostics. `trim` keeps marks within reach of the page before anything is drawn.
 //!
 //! Dependencies point downstream only: no stage knows the stages after it.
 
@@ -28,3 +29,4 @@ pub mod scene;
 pub mod stats;
 pub mod svg;
 pub mod syntax;
+pub mod trim;
