@@ -400,3 +400,86 @@ fn every_format_is_byte_identical_across_processes_and_threads() {
         }
     }
 }
+
+#[test]
+fn check_finds_an_image_too_large_to_draw_as_build_does() {
+    // 600 mm at 2400 dpi is round(600 / 25.4 × 2400) = 56693 pixels a side, far more than the
+    // limit of 10^8 pixels; `check` does not draw, but still knows.
+    let dir = tempfile::tempdir().unwrap();
+    std::fs::write(dir.path().join("t.csv"), "g,v\na,1\nb,2\n").unwrap();
+    let spec = dir.path().join("t.figura");
+    std::fs::write(
+        &spec,
+        "data t \"t.csv\" {\n  g: nominal\n  v: ratio\n}\nfigure huge {\n  from t\n  x g\n  \
+         y v\n  points\n  size 600mm x 600mm\n  formats tiff\n  dpi 2400\n}\n",
+    )
+    .unwrap();
+    let mut codes = Vec::new();
+    for command in ["check", "build"] {
+        let out = Command::new(env!("CARGO_BIN_EXE_figura"))
+            .arg(command)
+            .arg(&spec)
+            .output()
+            .expect("run figura");
+        let stderr = String::from_utf8_lossy(&out.stderr);
+        assert!(!out.status.success(), "{command}: {stderr}");
+        codes.push(out.status.code());
+        assert!(
+            stderr.contains("56693 x 56693 pixels, more than the limit"),
+            "{command}: {stderr}"
+        );
+    }
+    assert_eq!(codes[0], codes[1], "check and build end alike");
+    assert!(!dir.path().join("out/huge.tiff").exists());
+}
+
+#[test]
+fn bars_far_beyond_a_narrow_range_are_drawn_in_every_format() {
+    // Means of about 10^11 on an axis that ends at 0.001: the bars reach some 10^16 mm past
+    // the panel. This once overflowed the rasteriser (a panic that stopped the build).
+    let dir = tempfile::tempdir().unwrap();
+    let mut csv = String::from("id,g,v\n");
+    for i in 0..40 {
+        csv.push_str(&format!(
+            "{i},{},{}\n",
+            ["a", "b"][i % 2],
+            1e9 * (1 + i * 7) as f64
+        ));
+    }
+    std::fs::write(dir.path().join("big.csv"), csv).unwrap();
+    let spec = dir.path().join("big.figura");
+    std::fs::write(
+        &spec,
+        "data big \"big.csv\" {\n  id: id\n  g: nominal\n  v: ratio\n  subject id\n  \
+         between g\n}\nfigure tiny_range {\n  from big\n  x g\n  y v range(0, 0.001)\n  \
+         points\n  mean bar error(sd)\n  formats svg png pdf tiff\n}\n",
+    )
+    .unwrap();
+    let out = Command::new(env!("CARGO_BIN_EXE_figura"))
+        .arg("build")
+        .arg(&spec)
+        .output()
+        .expect("run figura");
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let folder = dir.path().join("out");
+    let svg_text = std::fs::read_to_string(folder.join("tiny_range.svg")).unwrap();
+    // No coordinate (after the embedded font) is more than a few hundred millimetres from
+    // the page.
+    let (_, drawing) = svg_text.split_once("</style>").expect("an embedded font");
+    for number in drawing
+        .split(|c: char| !(c.is_ascii_digit() || c == '.'))
+        .filter_map(|n| n.parse::<f64>().ok())
+    {
+        assert!(number < 1e6, "{number} in the SVG");
+    }
+    // The bars fill the panel up to its top: the PNG is drawn.
+    let (w, h, _) = png_pixels(&std::fs::read(folder.join("tiny_range.png")).unwrap());
+    assert_eq!((w, h), (1004, 768));
+    for ext in ["pdf", "tiff"] {
+        assert!(folder.join(format!("tiny_range.{ext}")).exists());
+    }
+}

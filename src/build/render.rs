@@ -101,6 +101,11 @@ pub fn render_figure(
         Purpose::Files(p) => p,
         Purpose::Validate => {
             scene.validate().map_err(|e| internal(e.into()))?;
+            if plan.formats.png || plan.formats.tiff {
+                // The raster limits, without drawing.
+                export::png_pixel_size(scene.width_mm, scene.height_mm, f64::from(plan.dpi))
+                    .map_err(limit)?;
+            }
             return Ok(FigureOutputs { files: Vec::new() });
         }
     };
