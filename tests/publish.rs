@@ -184,35 +184,6 @@ fn png_pixels(bytes: &[u8]) -> (u32, u32, Vec<u8>) {
     (info.width, info.height, buf)
 }
 
-/// The SVG drawn by resvg with the bundled font at `dpi`, one user unit per millimetre as the
-/// PNG is drawn, as 8-bit RGB.
-fn resvg_pixels(svg_text: &str, dpi: f64, width: u32, height: u32) -> Vec<u8> {
-    let options = usvg::Options {
-        font_family: figura::font::FAMILY.to_string(),
-        fontdb: figura::font::fontdb(),
-        // `85mm` is 85 user units at 25.4 units to the inch.
-        dpi: 25.4,
-        ..usvg::Options::default()
-    };
-    let tree = usvg::Tree::from_str(svg_text, &options).unwrap();
-    let mut pixmap = resvg::tiny_skia::Pixmap::new(width, height).unwrap();
-    pixmap.fill(resvg::tiny_skia::Color::WHITE);
-    let scale = (dpi / 25.4) as f32;
-    resvg::render(
-        &tree,
-        resvg::tiny_skia::Transform::from_scale(scale, scale),
-        &mut pixmap.as_mut(),
-    );
-    pixmap
-        .pixels()
-        .iter()
-        .flat_map(|p| {
-            let c = p.demultiply();
-            [c.red(), c.green(), c.blue()]
-        })
-        .collect()
-}
-
 #[test]
 fn every_example_svg_draws_exactly_its_png() {
     let plans: BTreeMap<String, u32> = common::example_plans()
@@ -222,7 +193,7 @@ fn every_example_svg_draws_exactly_its_png() {
     for (figure, files) in every_format(TextForm::Editable) {
         let (w, h, png) = png_pixels(file(&files, &figure, "png"));
         let svg_text = std::str::from_utf8(file(&files, &figure, "svg")).unwrap();
-        let again = resvg_pixels(svg_text, f64::from(plans[&figure]), w, h);
+        let again = common::draw_svg_file(svg_text, f64::from(plans[&figure]), w, h);
         assert!(
             again == png,
             "{figure}: the SVG draws other pixels than the PNG"
@@ -344,20 +315,21 @@ fn chromium_draws_the_svg_with_the_embedded_font() {
     );
 }
 
-/// Builds `spec` (every format, both text forms) with the binary into `out`.
-fn build_with_binary(spec: &Path, out: &Path, jobs: &str) {
-    let status = Command::new(env!("CARGO_BIN_EXE_figura"))
-        .arg("build")
-        .arg(spec)
-        .arg("--out")
-        .arg(out)
-        .args(["--jobs", jobs])
+/// Runs the figura binary.
+fn figura(args: &[&std::ffi::OsStr]) -> std::process::Output {
+    Command::new(env!("CARGO_BIN_EXE_figura"))
+        .args(args)
         .output()
-        .expect("run figura");
+        .expect("run figura")
+}
+
+/// Runs the figura binary, which must succeed.
+fn figura_ok(args: &[&std::ffi::OsStr]) {
+    let out = figura(args);
     assert!(
-        status.status.success(),
-        "figura build failed:\n{}",
-        String::from_utf8_lossy(&status.stderr)
+        out.status.success(),
+        "figura {args:?} failed:\n{}",
+        String::from_utf8_lossy(&out.stderr)
     );
 }
 
@@ -388,7 +360,14 @@ fn every_format_is_byte_identical_across_processes_and_threads() {
         .into_iter()
         .map(|(jobs, name)| {
             let out = dir.path().join(name);
-            build_with_binary(&spec_path, &out, jobs);
+            figura_ok(&[
+                "build".as_ref(),
+                spec_path.as_ref(),
+                "--out".as_ref(),
+                out.as_ref(),
+                "--jobs".as_ref(),
+                jobs.as_ref(),
+            ]);
             common::output_files(&out)
         })
         .collect();
@@ -416,11 +395,7 @@ fn check_finds_an_image_too_large_to_draw_as_build_does() {
     .unwrap();
     let mut codes = Vec::new();
     for command in ["check", "build"] {
-        let out = Command::new(env!("CARGO_BIN_EXE_figura"))
-            .arg(command)
-            .arg(&spec)
-            .output()
-            .expect("run figura");
+        let out = figura(&[command.as_ref(), spec.as_ref()]);
         let stderr = String::from_utf8_lossy(&out.stderr);
         assert!(!out.status.success(), "{command}: {stderr}");
         codes.push(out.status.code());
@@ -455,16 +430,7 @@ fn bars_far_beyond_a_narrow_range_are_drawn_in_every_format() {
          points\n  mean bar error(sd)\n  formats svg png pdf tiff\n}\n",
     )
     .unwrap();
-    let out = Command::new(env!("CARGO_BIN_EXE_figura"))
-        .arg("build")
-        .arg(&spec)
-        .output()
-        .expect("run figura");
-    assert!(
-        out.status.success(),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
+    figura_ok(&["build".as_ref(), spec.as_ref()]);
     let folder = dir.path().join("out");
     let svg_text = std::fs::read_to_string(folder.join("tiny_range.svg")).unwrap();
     // No coordinate (after the embedded font) is more than a few hundred millimetres from

@@ -4,6 +4,8 @@
 //! stores pixels per metre (PNG specification, W3C, section 11.3.5.3; section number from
 //! memory).
 
+mod common;
+
 use std::path::Path;
 
 use figura::export::{self, ExportError, Provenance};
@@ -182,7 +184,6 @@ fn first_text_node(group: &usvg::Group) -> Option<&usvg::Text> {
 #[test]
 fn outlined_svg_has_paths_where_text_was() {
     let scene = text_only_scene("Reaction time (ms)");
-
     let rendered = export::render(&scene).unwrap();
     let svg_text = rendered.svg(TextForm::Outlined).unwrap();
     assert!(!svg_text.contains("<text"), "text must be outlined");
@@ -198,7 +199,6 @@ fn outlined_svg_has_paths_where_text_was() {
 #[test]
 fn text_only_scene_draws_dark_pixels() {
     let scene = text_only_scene("Reaction time (ms)");
-
     let rendered = export::render(&scene).unwrap();
     let (info, _, rgb) = decode_png(&rendered.png(300.0).unwrap());
     let dark = rgb.chunks(3).filter(|p| p.iter().all(|&c| c < 128)).count();
@@ -380,7 +380,6 @@ fn png_draws_colours_and_honours_clips() {
 #[test]
 fn png_rejects_bad_dpi() {
     let scene = sample_scene();
-
     let rendered = export::render(&scene).unwrap();
     for dpi in [0.0, -300.0, f64::NAN, f64::INFINITY] {
         assert!(matches!(rendered.png(dpi), Err(ExportError::BadDpi { .. })));
@@ -480,7 +479,6 @@ fn provenance() -> Provenance {
 #[test]
 fn svg_file_keeps_size_viewbox_title_desc_and_provenance() {
     let scene = sample_scene();
-
     let rendered = export::render(&scene)
         .unwrap()
         .with_provenance(provenance());
@@ -596,42 +594,18 @@ fn editable_svg_embeds_a_subset_of_each_face_it_uses() {
     }
     // A scene without text embeds nothing.
     let scene = Scene::new(10.0, 5.0);
-
     let empty = export::render(&scene).unwrap();
     assert!(!empty.svg(TextForm::Editable).unwrap().contains("<style>"));
-}
-
-/// Draws an SVG file with resvg as the PNG was drawn: one user unit per millimetre (usvg's
-/// dpi set to 25.4 makes `85mm` 85 units), scaled to `dpi`.
-fn draw_svg_file(svg_text: &str, dpi: f64, width: u32, height: u32) -> Vec<u8> {
-    let tree = parse_at_dpi(svg_text, 25.4);
-    let mut pixmap = resvg::tiny_skia::Pixmap::new(width, height).unwrap();
-    pixmap.fill(resvg::tiny_skia::Color::WHITE);
-    let scale = (dpi / 25.4) as f32;
-    resvg::render(
-        &tree,
-        resvg::tiny_skia::Transform::from_scale(scale, scale),
-        &mut pixmap.as_mut(),
-    );
-    pixmap
-        .pixels()
-        .iter()
-        .flat_map(|p| {
-            let c = p.demultiply();
-            [c.red(), c.green(), c.blue()]
-        })
-        .collect()
 }
 
 #[test]
 fn editable_svg_file_draws_exactly_the_png() {
     let dpi = 200.0;
     let scene = sample_scene();
-
     let rendered = export::render(&scene).unwrap();
     let (info, _, png_pixels) = decode_png(&rendered.png(dpi).unwrap());
     let file = rendered.svg(TextForm::Editable).unwrap();
-    let again = draw_svg_file(&file, dpi, info.width, info.height);
+    let again = common::draw_svg_file(&file, dpi, info.width, info.height);
     assert!(again == png_pixels, "the SVG file draws other pixels");
 }
 
@@ -639,11 +613,10 @@ fn editable_svg_file_draws_exactly_the_png() {
 fn outlined_svg_file_draws_the_png_but_for_edge_pixels() {
     let dpi = 200.0;
     let scene = sample_scene();
-
     let rendered = export::render(&scene).unwrap();
     let (info, _, ours) = decode_png(&rendered.png(dpi).unwrap());
     let file = rendered.svg(TextForm::Outlined).unwrap();
-    let again = draw_svg_file(&file, dpi, info.width, info.height);
+    let again = common::draw_svg_file(&file, dpi, info.width, info.height);
     let differing = ours
         .chunks(3)
         .zip(again.chunks(3))
@@ -716,7 +689,6 @@ fn malformed_scenes_are_refused() {
 #[test]
 fn empty_scene_renders_a_white_page() {
     let scene = Scene::new(10.0, 5.0);
-
     let rendered = export::render(&scene).unwrap();
     let (info, _, rgb) = decode_png(&rendered.png(254.0).unwrap());
     assert_eq!((info.width, info.height), (100, 50));
@@ -834,7 +806,6 @@ fn tiff_holds_the_png_pixels_lzw_compressed_with_its_resolution() {
     use tiff::decoder::{Decoder, DecodingResult};
     use tiff::tags::Tag;
     let scene = sample_scene();
-
     let rendered = export::render(&scene)
         .unwrap()
         .with_provenance(provenance());

@@ -80,7 +80,7 @@ pub(super) fn write(tree: &Tree, text: TextForm, about: &About) -> Result<Vec<u8
 fn write_catalog(pdf: &mut Pdf, ids: &Ids, about: &About) {
     let mut catalog = pdf.catalog(ids.catalog);
     catalog.pages(ids.pages);
-    catalog.lang(TextStr("en"));
+    // No `/Lang`: the labels are the user's, in a language Figura does not know.
     catalog.mark_info().marked(true);
     catalog.pair(Name(b"StructTreeRoot"), ids.struct_root);
     if about.title.is_some() {
