@@ -169,7 +169,8 @@ fn write_info(pdf: &mut Pdf, ids: &Ids, about: &About) {
 }
 
 /// Renumbers the drawing's objects from `first`, in the order a walk from `root` reaches them;
-/// returns the renumbered chunk and the new number of `root`.
+/// returns the renumbered chunk and the new number of `root`. A reference to an object the
+/// chunk does not hold gets a number too (pdf-writer then lists it as free).
 ///
 /// Each object's references are visited in increasing order of their old numbers. That order
 /// is the same in every run: svg2pdf numbers every object in the order it meets them in the
@@ -191,8 +192,9 @@ fn canonical_numbers(chunk: &Chunk, root: Ref, first: Ref) -> Result<(Chunk, Ref
             queue.extend(refs.iter().copied());
         }
     }
-    if graph.keys().any(|id| !new_ids.contains_key(id)) {
-        return Err("the drawing has objects that nothing refers to".to_string());
+    // Objects nothing refers to (svg2pdf writes none) follow, in the order of their numbers.
+    for &old in graph.keys() {
+        new_ids.entry(old).or_insert_with(|| next.bump());
     }
     let renumbered = chunk.renumber(|old| new_ids.get(&old).copied().unwrap_or(old));
     Ok((renumbered, new_ids[&root]))
@@ -419,6 +421,33 @@ mod tests {
         assert!(sorted.ends_with(format!("startxref\n{xref}\n%%EOF").as_bytes()));
         // Sorting a sorted file changes nothing.
         assert_eq!(sort_objects(&sorted).unwrap(), sorted);
+    }
+
+    #[test]
+    fn objects_are_numbered_by_a_walk_from_the_root() {
+        // Root 10 refers to 12 and 11; 11 refers to 13; written out of order.
+        let mut chunk = Chunk::new();
+        chunk.indirect(Ref::new(12)).primitive(Name(b"Twelve"));
+        chunk
+            .indirect(Ref::new(10))
+            .array()
+            .items([Ref::new(12), Ref::new(11)]);
+        chunk.indirect(Ref::new(13)).primitive(Name(b"Thirteen"));
+        chunk.indirect(Ref::new(11)).array().item(Ref::new(13));
+        let (renumbered, root) = canonical_numbers(&chunk, Ref::new(10), Ref::new(1)).unwrap();
+        assert_eq!(root, Ref::new(1));
+        // 11 before 12 (smaller old number), then 13 reached through 11.
+        let text = String::from_utf8(renumbered.as_bytes().to_vec()).unwrap();
+        assert!(text.contains("1 0 obj\n[3 0 R 2 0 R]"), "{text}");
+        assert!(text.contains("2 0 obj\n[4 0 R]"), "{text}");
+        assert!(text.contains("3 0 obj\n/Twelve"), "{text}");
+        assert!(text.contains("4 0 obj\n/Thirteen"), "{text}");
+        let numbers: Vec<i32> = renumbered.refs().map(|r| r.get()).collect();
+        assert_eq!(
+            numbers,
+            [3, 1, 4, 2],
+            "the objects keep their places until sorted"
+        );
     }
 
     #[test]
