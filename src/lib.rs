@@ -5,9 +5,11 @@
 //!
 //! `syntax` (text → tree) → `check` (tree → checked plan) → `data` (files → typed table) →
 //! `compute` (plan + table → numbers) → `layout` (numbers → scene in mm) → `svg` (scene →
-//! text) → `export` (SVG → PNG / PDF); `build` drives them over many files; `project` reads a
-//! `figura.toml`; `cli` is the command line and `report` prints diagnostics. `colour` holds the
-//! colour science (spaces, CIEDE2000, colour-vision simulation, palettes) as pure functions.
+//! text) → `export` (scene → SVG, PNG, TIFF and PDF bytes); `build` drives them over many
+//! files; `project` reads a `figura.toml`; `cli` is the command line and `report` prints
+//! diagnostics. `trim` keeps marks within reach of the page before anything is drawn. `colour`
+//! holds the colour science (spaces, CIEDE2000, colour-vision simulation, palettes) as pure
+//! functions.
 //!
 //! Dependencies point downstream only: no stage knows the stages after it.
 
@@ -29,3 +31,4 @@ pub mod scene;
 pub mod stats;
 pub mod svg;
 pub mod syntax;
+pub mod trim;

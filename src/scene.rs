@@ -206,6 +206,16 @@ pub enum TextRotation {
     Up,
 }
 
+/// How the text of a figure is written into its SVG and PDF files.
+#[derive(Debug, Clone, Copy, Default, PartialEq, Eq, Hash)]
+pub enum TextForm {
+    /// Real text in the bundled font, embedded as a subset: selectable, searchable, editable.
+    #[default]
+    Editable,
+    /// Every glyph converted to a filled outline: no font involved, nothing to select.
+    Outlined,
+}
+
 /// One line of text.
 #[derive(Debug, Clone, PartialEq)]
 pub struct TextMark {
@@ -320,6 +330,20 @@ impl Scene {
             description: None,
             marks: Vec::new(),
         }
+    }
+
+    /// Calls `visit` with every text mark, in drawing order (inside clips too).
+    pub fn for_each_text(&self, visit: &mut impl FnMut(&TextMark)) {
+        fn walk(marks: &[Mark], visit: &mut impl FnMut(&TextMark)) {
+            for mark in marks {
+                match mark {
+                    Mark::Text(text) => visit(text),
+                    Mark::Clip { marks, .. } => walk(marks, visit),
+                    _ => {}
+                }
+            }
+        }
+        walk(&self.marks, visit);
     }
 
     /// Checks the invariants listed in the module doc; returns the first violation found.

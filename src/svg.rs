@@ -10,19 +10,26 @@
 //! - The scene's title and description are written as `<title>` and `<desc>` (XML-escaped)
 //!   for screen readers.
 //! - Colours are written as `#rrggbb`; opacities only when below 1.
-//! - Text uses the bundled font ([`crate::font::FAMILY`]); its vertical alignment is resolved
-//!   here into a plain baseline position, so no renderer's handling of `dominant-baseline`
-//!   matters. Text is written as [`crate::font::display_text`] gives it, which is exactly what
-//!   [`crate::font::measure`] measured.
+//! - Text is real `<text>` in the bundled font ([`crate::font::FAMILY`]), anchored exactly
+//!   where layout placed it; its vertical alignment is resolved here into a plain baseline
+//!   position, so no renderer's handling of `dominant-baseline` matters. Text is written as
+//!   [`crate::font::display_text`] gives it, which is exactly what [`crate::font::measure`]
+//!   measured. [`font_faces`] embeds the font itself (see [`crate::export`]).
+//! - Marks are trimmed to their reach first ([`crate::trim`]), so no coordinate lies more than
+//!   a page's side beyond what clips it.
 //! - A scene that breaks [`Scene::validate`] is refused, never written half-broken.
 
+use std::collections::{BTreeMap, BTreeSet};
 use std::fmt::Write as _;
+
+use base64::Engine as _;
 
 use crate::font;
 use crate::scene::{
     Fill, Mark, PathSegment, Point, Rect, Scene, SceneError, Stroke, TextAlign, TextMark,
     TextRotation, Weight,
 };
+use crate::trim;
 
 /// How the root element states the figure's size.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -34,13 +41,21 @@ pub(crate) enum RootSize {
     UserUnits,
 }
 
-/// Writes a scene as a standalone SVG document.
+/// Writes a scene as a standalone SVG document, its text as `<text>` without an embedded
+/// font (the SVG file adds one: [`crate::export::Rendered::svg`]).
 pub fn to_svg(scene: &Scene) -> Result<String, SceneError> {
-    write_document(scene, RootSize::Millimetres)
+    write_document(scene, RootSize::Millimetres, "")
 }
 
-pub(crate) fn write_document(scene: &Scene, size: RootSize) -> Result<String, SceneError> {
+/// The document: root element, title and description, then `head` (already formatted
+/// elements, each line ending in a newline), then the marks.
+pub(crate) fn write_document(
+    scene: &Scene,
+    size: RootSize,
+    head: &str,
+) -> Result<String, SceneError> {
     scene.validate()?;
+    let scene = trim::trimmed(scene);
     let mut out = String::new();
     out.push_str(&root_start_tag(
         scene.width_mm,
@@ -49,7 +64,8 @@ pub(crate) fn write_document(scene: &Scene, size: RootSize) -> Result<String, Sc
         Xlink::Omit,
     ));
     out.push('\n');
-    out.push_str(&metadata(scene));
+    out.push_str(&metadata(&scene));
+    out.push_str(head);
     let mut writer = Writer {
         out,
         next_clip_id: 1,
@@ -60,6 +76,51 @@ pub(crate) fn write_document(scene: &Scene, size: RootSize) -> Result<String, Sc
     let mut out = writer.out;
     out.push_str("</svg>\n");
     Ok(out)
+}
+
+/// The characters each weight of the font draws in the scene, exactly as they are written.
+pub fn drawn_chars(scene: &Scene) -> BTreeMap<Weight, BTreeSet<char>> {
+    let mut chars: BTreeMap<Weight, BTreeSet<char>> = BTreeMap::new();
+    scene.for_each_text(&mut |text| {
+        chars
+            .entry(text.style.weight)
+            .or_default()
+            .extend(font::display_text(&text.text).chars());
+    });
+    chars.retain(|_, set| !set.is_empty());
+    chars
+}
+
+/// A `<style>` element declaring each face (TrueType bytes, by weight) as the bundled font's
+/// family, as a `data:` URL, so viewers draw the text with exactly this font. Empty when there
+/// is no face.
+pub fn font_faces(faces: &[(Weight, Vec<u8>)]) -> String {
+    if faces.is_empty() {
+        return String::new();
+    }
+    let mut out = String::from("<style>\n");
+    for (weight, bytes) in faces {
+        let weight = match weight {
+            Weight::Regular => 400,
+            Weight::Bold => 700,
+        };
+        let data = base64::engine::general_purpose::STANDARD.encode(bytes);
+        let _ = writeln!(
+            out,
+            r#"@font-face {{ font-family: "{}"; font-weight: {weight}; src: url("data:font/ttf;base64,{data}") format("truetype"); }}"#,
+            font::FAMILY
+        );
+    }
+    out.push_str("</style>\n");
+    out
+}
+
+/// A `<metadata>` element holding `text` (XML-escaped), on one line.
+pub fn metadata_element(text: &str) -> String {
+    format!(
+        "<metadata>{}</metadata>\n",
+        escape_xml(&font::display_text(text))
+    )
 }
 
 /// Whether the root element declares the XLink namespace (needed when the body uses

@@ -1,4 +1,4 @@
-//! Back end checks: scene → SVG text → outlined SVG, PNG and PDF.
+//! Back end checks: scene → SVG (editable or outlined text), PNG, TIFF and PDF.
 //!
 //! Unit facts used below: 1 in = 25.4 mm = 72 pt (common practice); the PNG `pHYs` chunk
 //! stores pixels per metre (PNG specification, W3C, section 11.3.5.3; section number from
@@ -8,11 +8,11 @@ mod common;
 
 use std::path::Path;
 
-use figura::export::{self, ExportError};
+use figura::export::{self, ExportError, Provenance};
 use figura::font::{self, TextExtent};
 use figura::scene::{
-    Colour, Fill, Mark, PathSegment, Point, Rect, Scene, Stroke, TextAlign, TextBaseline, TextMark,
-    TextRotation, TextStyle, Weight,
+    Colour, Fill, Mark, PathSegment, Point, Rect, Scene, Stroke, TextAlign, TextBaseline, TextForm,
+    TextMark, TextRotation, TextStyle, Weight,
 };
 use figura::svg;
 
@@ -183,8 +183,9 @@ fn first_text_node(group: &usvg::Group) -> Option<&usvg::Text> {
 
 #[test]
 fn outlined_svg_has_paths_where_text_was() {
-    let rendered = export::render(&text_only_scene("Reaction time (ms)")).unwrap();
-    let svg_text = rendered.svg();
+    let scene = text_only_scene("Reaction time (ms)");
+    let rendered = export::render(&scene).unwrap();
+    let svg_text = rendered.svg(TextForm::Outlined).unwrap();
     assert!(!svg_text.contains("<text"), "text must be outlined");
     let path_data: Vec<&str> = svg_text
         .split(" d=\"")
@@ -197,7 +198,8 @@ fn outlined_svg_has_paths_where_text_was() {
 
 #[test]
 fn text_only_scene_draws_dark_pixels() {
-    let rendered = export::render(&text_only_scene("Reaction time (ms)")).unwrap();
+    let scene = text_only_scene("Reaction time (ms)");
+    let rendered = export::render(&scene).unwrap();
     let (info, _, rgb) = decode_png(&rendered.png(300.0).unwrap());
     let dark = rgb.chunks(3).filter(|p| p.iter().all(|&c| c < 128)).count();
     let total = (info.width * info.height) as usize;
@@ -377,7 +379,8 @@ fn png_draws_colours_and_honours_clips() {
 
 #[test]
 fn png_rejects_bad_dpi() {
-    let rendered = export::render(&sample_scene()).unwrap();
+    let scene = sample_scene();
+    let rendered = export::render(&scene).unwrap();
     for dpi in [0.0, -300.0, f64::NAN, f64::INFINITY] {
         assert!(matches!(rendered.png(dpi), Err(ExportError::BadDpi { .. })));
     }
@@ -414,7 +417,10 @@ fn pdf_page_is_the_figure_size_in_points() {
         let mut scene = sample_scene();
         scene.width_mm = w_mm;
         scene.height_mm = h_mm;
-        let pdf = export::render(&scene).unwrap().pdf().unwrap();
+        let pdf = export::render(&scene)
+            .unwrap()
+            .pdf(TextForm::Editable)
+            .unwrap();
         assert!(pdf.starts_with(b"%PDF-"));
         let [x0, y0, x1, y1] = media_box(&pdf);
         assert_eq!((x0, y0), (0.0, 0.0));
@@ -425,70 +431,199 @@ fn pdf_page_is_the_figure_size_in_points() {
 
 // ------------------------------------------------------------------------------ determinism
 
+/// Every file of a scene, in every form.
+fn all_files(scene: &Scene) -> Vec<Vec<u8>> {
+    let r = export::render(scene).unwrap().with_provenance(provenance());
+    vec![
+        r.svg(TextForm::Editable).unwrap().into_bytes(),
+        r.svg(TextForm::Outlined).unwrap().into_bytes(),
+        r.png(150.0).unwrap(),
+        r.tiff(150.0).unwrap(),
+        r.pdf(TextForm::Editable).unwrap(),
+        r.pdf(TextForm::Outlined).unwrap(),
+    ]
+}
+
 #[test]
 fn output_is_byte_identical_across_renders_and_threads() {
+    // The sample scene has regular and bold text, so its PDF embeds two fonts: the PDF writer
+    // keeps them in a hash map whose order differs between maps, so twenty renders would all
+    // but surely show a difference that was not removed (1 in 2^19 to miss it).
     let scene = sample_scene();
-    let once = |scene: &Scene| {
-        let r = export::render(scene).unwrap();
-        (r.svg().to_string(), r.png(150.0).unwrap(), r.pdf().unwrap())
-    };
-    let first = once(&scene);
-    assert_eq!(first, once(&scene));
+    let first = all_files(&scene);
+    for _ in 0..20 {
+        assert!(first == all_files(&scene), "a render gave other bytes");
+    }
     let from_threads: Vec<_> = std::thread::scope(|s| {
-        let handles: Vec<_> = (0..4).map(|_| s.spawn(|| once(&scene))).collect();
+        let handles: Vec<_> = (0..4).map(|_| s.spawn(|| all_files(&scene))).collect();
         handles.into_iter().map(|h| h.join().unwrap()).collect()
     });
     for result in from_threads {
-        assert_eq!(first, result);
+        assert!(
+            first == result,
+            "a render on another thread gave other bytes"
+        );
     }
 }
 
 // --------------------------------------------------------------------- the SVG file itself
 
-#[test]
-fn svg_file_keeps_size_viewbox_title_and_desc() {
-    let rendered = export::render(&sample_scene()).unwrap();
-    let svg_text = rendered.svg();
-    assert!(svg_text.starts_with(
-        r#"<svg xmlns="http://www.w3.org/2000/svg" width="85mm" height="65mm" viewBox="0 0 85 65">"#
-    ));
-    assert!(svg_text.contains("<title>Reading speed by medium</title>"));
-    assert!(svg_text.contains("<desc>Means with 95% confidence intervals.</desc>"));
-    // It reads back as the same physical size (96 px per inch is the CSS pixel).
-    let tree = parse_with_bundled_font(svg_text);
-    assert!((f64::from(tree.size().width()) - 85.0 / 25.4 * 96.0).abs() < 1e-3);
-    assert!((f64::from(tree.size().height()) - 65.0 / 25.4 * 96.0).abs() < 1e-3);
+fn provenance() -> Provenance {
+    Provenance {
+        tool: "figura 9.9.9".to_string(),
+        spec: "ab".repeat(32),
+        data: "cd".repeat(32),
+    }
 }
 
 #[test]
-fn svg_file_draws_the_same_picture_as_the_png() {
-    // Rendering the written SVG file again must give the PNG we wrote (the three agree).
-    let dpi = 200.0;
-    let rendered = export::render(&sample_scene()).unwrap();
-    let (info, _, ours) = decode_png(&rendered.png(dpi).unwrap());
-    let tree = parse_with_bundled_font(rendered.svg());
-    let mut pixmap = resvg::tiny_skia::Pixmap::new(info.width, info.height).unwrap();
-    pixmap.fill(resvg::tiny_skia::Color::WHITE);
-    let scale = (dpi / 96.0) as f32;
-    resvg::render(
-        &tree,
-        resvg::tiny_skia::Transform::from_scale(scale, scale),
-        &mut pixmap.as_mut(),
-    );
-    let again: Vec<u8> = pixmap
-        .pixels()
-        .iter()
-        .flat_map(|p| {
-            let c = p.demultiply();
-            [c.red(), c.green(), c.blue()]
+fn svg_file_keeps_size_viewbox_title_desc_and_provenance() {
+    let scene = sample_scene();
+    let rendered = export::render(&scene)
+        .unwrap()
+        .with_provenance(provenance());
+    for form in [TextForm::Editable, TextForm::Outlined] {
+        let svg_text = rendered.svg(form).unwrap();
+        assert!(svg_text.starts_with(
+            r#"<svg xmlns="http://www.w3.org/2000/svg" width="85mm" height="65mm" viewBox="0 0 85 65">"#
+        ));
+        assert!(svg_text.contains("<title>Reading speed by medium</title>"));
+        assert!(svg_text.contains("<desc>Means with 95% confidence intervals.</desc>"));
+        assert!(svg_text.contains(&format!(
+            "<metadata>Made by figura 9.9.9 from spec blake3:{} and data blake3:{}</metadata>",
+            "ab".repeat(32),
+            "cd".repeat(32)
+        )));
+        // It reads back as the same physical size (96 px per inch is the CSS pixel).
+        let tree = parse_with_bundled_font(&svg_text);
+        assert!((f64::from(tree.size().width()) - 85.0 / 25.4 * 96.0).abs() < 1e-3);
+        assert!((f64::from(tree.size().height()) - 65.0 / 25.4 * 96.0).abs() < 1e-3);
+    }
+}
+
+/// The `<text>` elements of an SVG, as (attributes, content).
+fn text_elements(svg_text: &str) -> Vec<(&str, &str)> {
+    svg_text
+        .split("<text ")
+        .skip(1)
+        .filter_map(|rest| {
+            let (attributes, rest) = rest.split_once('>')?;
+            let (content, _) = rest.split_once("</text>")?;
+            Some((attributes, content))
         })
-        .collect();
+        .collect()
+}
+
+#[test]
+fn editable_svg_keeps_each_text_where_layout_put_it() {
+    let scene = sample_scene();
+    let file = export::render(&scene)
+        .unwrap()
+        .svg(TextForm::Editable)
+        .unwrap();
+    let texts = text_elements(&file);
+    assert_eq!(
+        texts.iter().map(|t| t.1).collect::<Vec<_>>(),
+        ["Medium", "Words per minute", "250"]
+    );
+    // "Medium": centred, top at y = 52, so the baseline is the ascent below it.
+    let medium = font::measure("Medium", &style(8.0, Weight::Regular));
+    let baseline = svg::format_number(52.0 + medium.ascent_mm);
+    assert!(texts[0]
+        .0
+        .starts_with(&format!(r#"x="47" y="{baseline}" font-family="Noto Sans""#)));
+    assert!(texts[0].0.contains(r#"text-anchor="middle""#));
+    assert!(texts[1].0.contains(r#"transform="rotate(-90 5 27.5)""#));
+    assert!(texts[2].0.contains(r#"font-weight="700""#));
+    // The same text as the plain scene SVG, with the font added.
+    let bare = svg::to_svg(&scene).unwrap();
+    assert_eq!(text_elements(&bare), texts);
+}
+
+/// The fonts an SVG file embeds: (weight, TrueType bytes).
+fn embedded_fonts(svg_text: &str) -> Vec<(u32, Vec<u8>)> {
+    use base64::Engine as _;
+    svg_text
+        .split("@font-face {")
+        .skip(1)
+        .map(|rule| {
+            let weight = rule
+                .split("font-weight: ")
+                .nth(1)
+                .and_then(|w| w.split(';').next())
+                .and_then(|w| w.parse().ok())
+                .expect("a font weight");
+            let data = rule
+                .split("data:font/ttf;base64,")
+                .nth(1)
+                .and_then(|d| d.split('"').next())
+                .expect("a data URL");
+            let bytes = base64::engine::general_purpose::STANDARD
+                .decode(data)
+                .expect("base64");
+            (weight, bytes)
+        })
+        .collect()
+}
+
+#[test]
+fn editable_svg_embeds_a_subset_of_each_face_it_uses() {
+    let file = export::render(&sample_scene())
+        .unwrap()
+        .svg(TextForm::Editable)
+        .unwrap();
+    let fonts = embedded_fonts(&file);
+    assert_eq!(
+        fonts.iter().map(|f| f.0).collect::<Vec<_>>(),
+        [400, 700],
+        "regular and bold"
+    );
+    for (weight, bytes) in &fonts {
+        let face = ttf_parser::Face::parse(bytes, 0).expect("a TrueType font");
+        let needed = if *weight == 400 {
+            "MediumWords per minute"
+        } else {
+            "250"
+        };
+        for c in needed.chars() {
+            assert!(face.glyph_index(c).is_some(), "{c:?} missing at {weight}");
+        }
+        assert!(face.glyph_index('Q').is_none(), "unused letters stay out");
+        // A subset, not the whole face (about 600 KB).
+        assert!(bytes.len() < 20_000, "{} bytes", bytes.len());
+    }
+    // A scene without text embeds nothing.
+    let scene = Scene::new(10.0, 5.0);
+    let empty = export::render(&scene).unwrap();
+    assert!(!empty.svg(TextForm::Editable).unwrap().contains("<style>"));
+}
+
+#[test]
+fn editable_svg_file_draws_exactly_the_png() {
+    let dpi = 200.0;
+    let scene = sample_scene();
+    let rendered = export::render(&scene).unwrap();
+    let (info, _, png_pixels) = decode_png(&rendered.png(dpi).unwrap());
+    let file = rendered.svg(TextForm::Editable).unwrap();
+    let again = common::draw_svg_file(&file, dpi, info.width, info.height);
+    assert!(again == png_pixels, "the SVG file draws other pixels");
+}
+
+#[test]
+fn outlined_svg_file_draws_the_png_but_for_edge_pixels() {
+    let dpi = 200.0;
+    let scene = sample_scene();
+    let rendered = export::render(&scene).unwrap();
+    let (info, _, ours) = decode_png(&rendered.png(dpi).unwrap());
+    let file = rendered.svg(TextForm::Outlined).unwrap();
+    let again = common::draw_svg_file(&file, dpi, info.width, info.height);
     let differing = ours
         .chunks(3)
         .zip(again.chunks(3))
         .filter(|(a, b)| a.iter().zip(b.iter()).any(|(x, y)| x.abs_diff(*y) > 8))
         .count();
-    // Only anti-aliased edge pixels may differ by rounding of the scale factor.
+    // Glyph outlines are written with three decimals (a micrometre): only anti-aliased edge
+    // pixels may differ.
     assert!(
         differing * 1000 < ours.len() / 3,
         "{differing} pixels differ"
@@ -507,11 +642,14 @@ fn titles_and_text_are_xml_escaped() {
     assert!(text_svg.contains("<desc>R&amp;D line two</desc>"));
     assert!(text_svg.contains(">a &lt; b &amp; c &gt; &quot;d&quot;</text>"));
     let rendered = export::render(&scene).unwrap();
-    assert!(rendered
-        .svg()
-        .contains("<title>Speed &lt;fast&gt; &amp; &quot;slow&quot; &apos;x&apos;</title>"));
-    // The file is well-formed XML that reads back.
-    parse_with_bundled_font(rendered.svg());
+    for form in [TextForm::Editable, TextForm::Outlined] {
+        let file = rendered.svg(form).unwrap();
+        assert!(
+            file.contains("<title>Speed &lt;fast&gt; &amp; &quot;slow&quot; &apos;x&apos;</title>")
+        );
+        // The file is well-formed XML that reads back.
+        parse_with_bundled_font(&file);
+    }
 }
 
 #[test]
@@ -550,17 +688,217 @@ fn malformed_scenes_are_refused() {
 
 #[test]
 fn empty_scene_renders_a_white_page() {
-    let rendered = export::render(&Scene::new(10.0, 5.0)).unwrap();
+    let scene = Scene::new(10.0, 5.0);
+    let rendered = export::render(&scene).unwrap();
     let (info, _, rgb) = decode_png(&rendered.png(254.0).unwrap());
     assert_eq!((info.width, info.height), (100, 50));
     assert!(rgb.iter().all(|&c| c == 255));
-    parse_with_bundled_font(rendered.svg());
+    parse_with_bundled_font(&rendered.svg(TextForm::Editable).unwrap());
 }
 
 #[test]
 fn rendered_figures_can_move_between_threads() {
     fn send_and_share<T: Send + Sync>() {}
     send_and_share::<export::Rendered>();
+}
+
+// --------------------------------------------------------------------- far outside the panel
+
+#[test]
+fn marks_far_outside_their_panel_are_drawn_without_trouble() {
+    // A bar a million kilometres tall in a 45 mm panel (a value far beyond a narrow
+    // `range`): renderers once overflowed sizing their work by it. The visible part is the
+    // panel filled from top to bottom.
+    let blue = Colour::from_hex(0x0072B2);
+    let mut scene = Scene::new(85.0, 65.0);
+    scene.marks.push(Mark::Clip {
+        rect: Rect::new(12.0, 5.0, 70.0, 45.0),
+        marks: vec![
+            Mark::Rect {
+                x: 20.0,
+                y: -1e12,
+                width: 15.0,
+                height: 1e12 + 50.0,
+                fill: Some(Fill::solid(blue)),
+                stroke: Some(Stroke::solid(Colour::WHITE, 0.3)),
+            },
+            Mark::Line {
+                points: vec![Point::new(40.0, 40.0), Point::new(60.0, -1e15)],
+                stroke: Stroke::solid(Colour::BLACK, 0.5),
+            },
+        ],
+    });
+    let rendered = export::render(&scene).unwrap();
+    let files = [
+        rendered.svg(TextForm::Editable).unwrap(),
+        rendered.svg(TextForm::Outlined).unwrap(),
+    ];
+    for file in &files {
+        assert!(
+            !file.contains("e12") && !file.contains("1000000000"),
+            "{file}"
+        );
+    }
+    // 254 dpi: 10 pixels a millimetre. The bar spans the panel's height at x = 20..35 mm.
+    let (info, _, rgb) = decode_png(&rendered.png(254.0).unwrap());
+    for y_mm in [6, 25, 49] {
+        assert_eq!(
+            pixel(&info, &rgb, 275, y_mm * 10),
+            [0x00, 0x72, 0xB2],
+            "y {y_mm}"
+        );
+    }
+    assert_eq!(
+        pixel(&info, &rgb, 275, 550),
+        [255, 255, 255],
+        "below the panel"
+    );
+    rendered.tiff(254.0).unwrap();
+    rendered.pdf(TextForm::Editable).unwrap();
+}
+
+// ------------------------------------------------------------------- metadata in each file
+
+#[test]
+fn png_records_title_description_and_provenance_as_text() {
+    let mut scene = sample_scene();
+    scene.title = Some("Reading speed – by medium".to_string());
+    let png = export::render(&scene)
+        .unwrap()
+        .with_provenance(provenance())
+        .png(100.0)
+        .unwrap();
+    let decoder = png::Decoder::new(png.as_slice());
+    let reader = decoder.read_info().unwrap();
+    let info = reader.info();
+    let latin1: Vec<(&str, &str)> = info
+        .uncompressed_latin1_text
+        .iter()
+        .map(|t| (t.keyword.as_str(), t.text.as_str()))
+        .collect();
+    assert_eq!(
+        latin1,
+        [
+            ("Description", "Means with 95% confidence intervals."),
+            ("Software", "figura 9.9.9"),
+            (
+                "Comment",
+                format!(
+                    "Made by figura 9.9.9 from spec blake3:{} and data blake3:{}",
+                    "ab".repeat(32),
+                    "cd".repeat(32)
+                )
+                .as_str()
+            ),
+        ]
+    );
+    // The en dash is not Latin-1: that title goes in a UTF-8 chunk.
+    let utf8: Vec<(&str, String)> = info
+        .utf8_text
+        .iter()
+        .map(|t| (t.keyword.as_str(), t.get_text().unwrap()))
+        .collect();
+    assert_eq!(utf8, [("Title", "Reading speed – by medium".to_string())]);
+}
+
+#[test]
+fn tiff_holds_the_png_pixels_lzw_compressed_with_its_resolution() {
+    use tiff::decoder::{Decoder, DecodingResult};
+    use tiff::tags::Tag;
+    let scene = sample_scene();
+    let rendered = export::render(&scene)
+        .unwrap()
+        .with_provenance(provenance());
+    let (info, _, png_pixels) = decode_png(&rendered.png(300.0).unwrap());
+    let tiff_bytes = rendered.tiff(300.0).unwrap();
+    // Little-endian TIFF (TIFF 6.0 specification, section 2: "II" and 42).
+    assert_eq!(&tiff_bytes[..4], b"II*\0");
+    let mut decoder = Decoder::new(std::io::Cursor::new(&tiff_bytes)).unwrap();
+    assert_eq!(decoder.dimensions().unwrap(), (info.width, info.height));
+    let tag = |decoder: &mut Decoder<_>, tag| decoder.get_tag_u32(tag).unwrap();
+    // Compression 5 is LZW, predictor 2 horizontal differencing, resolution unit 2 the inch
+    // (TIFF 6.0 specification, sections 8, 13 and 14; numbers from memory).
+    assert_eq!(tag(&mut decoder, Tag::Compression), 5);
+    assert_eq!(tag(&mut decoder, Tag::Predictor), 2);
+    assert_eq!(tag(&mut decoder, Tag::ResolutionUnit), 2);
+    let x_resolution = decoder.get_tag_u32_vec(Tag::XResolution).unwrap();
+    assert_eq!(
+        f64::from(x_resolution[0]) / f64::from(x_resolution[1]),
+        300.0
+    );
+    let y_resolution = decoder.get_tag_u32_vec(Tag::YResolution).unwrap();
+    assert_eq!(y_resolution, x_resolution);
+    assert_eq!(
+        decoder.get_tag_ascii_string(Tag::Software).unwrap(),
+        "figura 9.9.9"
+    );
+    let description = decoder.get_tag_ascii_string(Tag::ImageDescription).unwrap();
+    assert!(description.starts_with("Reading speed by medium\nMeans with 95%"));
+    assert!(description.ends_with(&format!("data blake3:{}", "cd".repeat(32))));
+    let DecodingResult::U8(pixels) = decoder.read_image().unwrap() else {
+        panic!("not 8-bit")
+    };
+    assert!(
+        pixels == png_pixels,
+        "the TIFF holds other pixels than the PNG"
+    );
+    // LZW with the predictor: far smaller than the raw pixels.
+    assert!(
+        tiff_bytes.len() * 4 < pixels.len(),
+        "{} bytes",
+        tiff_bytes.len()
+    );
+}
+
+/// The text of a PDF string as pdf-writer writes it: `(ASCII)` or `<FEFF UTF-16BE hex>`.
+fn pdf_string_after(pdf: &str, key: &str) -> Option<String> {
+    let rest = pdf.split(&format!("/{key} ")).nth(1)?;
+    if let Some(rest) = rest.strip_prefix('(') {
+        return Some(rest.split(')').next()?.to_string());
+    }
+    let hex = rest.strip_prefix("<FEFF")?.split('>').next()?;
+    let units: Vec<u16> = (0..hex.len())
+        .step_by(4)
+        .map(|i| u16::from_str_radix(&hex[i..i + 4], 16).unwrap())
+        .collect();
+    String::from_utf16(&units).ok()
+}
+
+#[test]
+fn pdf_records_title_subject_provenance_and_alternative_text() {
+    let mut scene = sample_scene();
+    scene.description = Some("Means – with intervals".to_string());
+    let rendered = export::render(&scene)
+        .unwrap()
+        .with_provenance(provenance());
+    for form in [TextForm::Editable, TextForm::Outlined] {
+        let pdf = rendered.pdf(form).unwrap();
+        let text = String::from_utf8_lossy(&pdf);
+        assert_eq!(
+            pdf_string_after(&text, "Title").as_deref(),
+            Some("Reading speed by medium")
+        );
+        assert_eq!(
+            pdf_string_after(&text, "Subject").as_deref(),
+            Some("Means – with intervals")
+        );
+        assert_eq!(
+            pdf_string_after(&text, "Creator").as_deref(),
+            Some("figura 9.9.9")
+        );
+        assert!(pdf_string_after(&text, "Provenance")
+            .unwrap()
+            .ends_with(&format!("data blake3:{}", "cd".repeat(32))));
+        // A tagged figure whose alternative text is the description.
+        assert!(text.contains("/Marked true"));
+        assert!(text.contains("/S /Figure"));
+        assert_eq!(
+            pdf_string_after(&text, "Alt").as_deref(),
+            Some("Means – with intervals")
+        );
+        assert!(text.contains("/Figure <<\n  /MCID 0\n>> BDC"));
+        assert!(!text.contains("/CreationDate") && !text.contains("/ID ["));
+    }
 }
 
 // ----------------------------------------------------------------------------------- golden

@@ -6,6 +6,9 @@
 //! and the tool's version. A change in one figure's block therefore rebuilds that figure only,
 //! while a change in a data block or an included file rebuilds every figure of the file.
 //!
+//! The spec part and the data file's hash are kept apart too ([`FigureHashes`]): every output
+//! file records them as its provenance.
+//!
 //! Guarantees: the hash is a pure function of those inputs (no paths, times or spans enter it,
 //! so moving a block within its file or renaming the spec file changes nothing); fields are
 //! length-prefixed, so no two different inputs run together into the same byte stream.
@@ -41,6 +44,18 @@ pub fn figure_blocks_of(unit: &SpecUnit) -> impl Iterator<Item = &Block> {
     })
 }
 
+/// A figure's hashes.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct FigureHashes {
+    /// Everything the figure depends on: decides whether it is rebuilt.
+    pub inputs: blake3::Hash,
+    /// The spec text it depends on: its block, the rest of its file except other figures'
+    /// blocks, and every file it sees through includes.
+    pub spec: blake3::Hash,
+    /// The bytes of its data file (`None` when it cannot be read).
+    pub data: Option<blake3::Hash>,
+}
+
 /// Computes figures' input hashes; data files are hashed once each.
 pub struct InputHasher<'a> {
     units: &'a [SpecUnit],
@@ -61,8 +76,8 @@ impl<'a> InputHasher<'a> {
     ) -> Self {
         let f = defaults.formats;
         let shared = format!(
-            "tool={tool_version};formats=svg:{},png:{},pdf:{};dpi={}",
-            f.svg, f.png, f.pdf, defaults.dpi
+            "tool={tool_version};formats=svg:{},png:{},pdf:{},tiff:{},text:{:?};dpi={}",
+            f.svg, f.png, f.pdf, f.tiff, f.text, defaults.dpi
         );
         InputHasher {
             units,
@@ -73,31 +88,39 @@ impl<'a> InputHasher<'a> {
         }
     }
 
-    /// The input hash of a figure written in block `block` of unit `unit`, reading `data_path`.
-    pub fn figure(&mut self, unit: usize, block: &Block, data_path: &Path) -> blake3::Hash {
-        let mut h = blake3::Hasher::new();
-        field(&mut h, "figura-inputs", b"1");
-        field(&mut h, "shared", self.shared.as_bytes());
-        field(&mut h, "figure", self.text(block.span).as_bytes());
-        self.context(&mut h, unit);
+    /// The hashes of a figure written in block `block` of unit `unit`, reading `data_path`.
+    pub fn figure(&mut self, unit: usize, block: &Block, data_path: &Path) -> FigureHashes {
+        let mut spec = blake3::Hasher::new();
+        field(&mut spec, "figure", self.text(block.span).as_bytes());
+        self.context(&mut spec, unit);
         for &seen in &self.units[unit].sees {
             let id = self.unit_sources[seen];
-            field(&mut h, "include", self.sources.text(id).as_bytes());
+            field(&mut spec, "include", self.sources.text(id).as_bytes());
         }
-        match self.data_hash(data_path) {
+        let spec = spec.finalize();
+        let data = self.data_hash(data_path);
+        let mut h = blake3::Hasher::new();
+        field(&mut h, "figura-inputs", b"2");
+        field(&mut h, "shared", self.shared.as_bytes());
+        field(&mut h, "spec", spec.as_bytes());
+        match data {
             Some(d) => field(&mut h, "data", d.as_bytes()),
             None => field(&mut h, "data-unreadable", b""),
         }
-        h.finalize()
+        FigureHashes {
+            inputs: h.finalize(),
+            spec,
+            data,
+        }
     }
 
-    /// The input hash of a checked figure (its block is found by name).
+    /// The hashes of a checked figure (its block is found by name).
     pub fn plan(
         &mut self,
         blocks: &BTreeMap<&str, (usize, &Block)>,
         plan: &FigurePlan,
         data_path: &Path,
-    ) -> Option<blake3::Hash> {
+    ) -> Option<FigureHashes> {
         let &(unit, block) = blocks.get(plan.name.as_str())?;
         Some(self.figure(unit, block, data_path))
     }

@@ -29,12 +29,14 @@ use rayon::prelude::*;
 use crate::check::{self, FigureDefaults, FigurePlan, Program};
 use crate::data::{self, Table};
 use crate::diag::{Diagnostic, SourceMap, Span};
+use crate::export;
 
 use inputs::InputHasher;
 use manifest::{Freshness, Manifest};
 
 pub use render::{
     output_kinds, output_names, render_figure, table_spec, FigureError, FigureOutputs, OutputKind,
+    Purpose,
 };
 pub use write::{write_atomic, write_if_changed, TEMP_SUFFIX};
 
@@ -211,6 +213,8 @@ struct Job<'p> {
     dir: PathBuf,
     /// The hex hash of its inputs.
     inputs: String,
+    /// Its spec and data hashes, as its files record them.
+    hashes: inputs::FigureHashes,
     freshness: Freshness,
 }
 
@@ -261,7 +265,7 @@ pub fn build(options: &BuildOptions, progress: &dyn Progress) -> Result<BuildRep
             .map(|j| Outcome::Compared(j.freshness))
             .collect(),
         Mode::Build | Mode::Validate => {
-            make_all(&program, &jobs, options.mode, &mut report, &pool, progress)
+            make_all(&program, &jobs, options, &mut report, &pool, progress)
         }
     };
     if options.mode == Mode::Build {
@@ -305,7 +309,7 @@ fn plan_jobs<'p>(
     let mut jobs = Vec::with_capacity(program.figures.len());
     for plan in &program.figures {
         let book = &program.codebooks[plan.data];
-        let hash = hasher
+        let hashes = hasher
             .plan(&blocks, plan, &book.path)
             .ok_or_else(|| BuildError::Internal(format!("figure `{}` has no block", plan.name)))?;
         let dir = output_dir(plan, options.out.as_deref());
@@ -315,7 +319,8 @@ fn plan_jobs<'p>(
         jobs.push(Job {
             plan,
             dir,
-            inputs: hash.to_hex().to_string(),
+            inputs: hashes.inputs.to_hex().to_string(),
+            hashes,
             freshness: Freshness::Stale,
         });
     }
@@ -336,23 +341,38 @@ fn plan_jobs<'p>(
 fn make_all(
     program: &Program,
     jobs: &[Job],
-    mode: Mode,
+    options: &BuildOptions,
     report: &mut BuildReport,
     pool: &rayon::ThreadPool,
     progress: &dyn Progress,
 ) -> Vec<Outcome> {
+    let mode = options.mode;
+    let tool = format!("figura {}", options.tool_version);
     let todo: Vec<usize> = (0..jobs.len())
         .filter(|&i| jobs[i].freshness != Freshness::UpToDate)
         .collect();
     let needed: BTreeSet<usize> = todo.iter().map(|&i| jobs[i].plan.data).collect();
     let tables = read_tables(program, &needed, report);
+    let folder_errors = match mode {
+        Mode::Build => create_folders(todo.iter().map(|&i| jobs[i].dir.as_path())),
+        _ => BTreeMap::new(),
+    };
     progress.start(todo.len());
     let made: Vec<Made> = pool.install(|| {
         todo.par_iter()
             .map(|&i| {
                 let job = &jobs[i];
                 let made = match tables.get(&job.plan.data) {
-                    Some(Some(table)) => make(job, program, table, mode),
+                    Some(Some(table)) => match folder_errors.get(&job.dir) {
+                        Some(message) => Made {
+                            result: Err(FigureError::Build(BuildError::Io {
+                                path: job.dir.clone(),
+                                message: message.clone(),
+                            })),
+                            written: Vec::new(),
+                        },
+                        None => make(job, program, table, mode, &tool),
+                    },
                     // The table's errors were reported when it was read.
                     _ => Made {
                         result: Err(FigureError::Data(Vec::new())),
@@ -414,10 +434,35 @@ fn read_tables(
         .collect()
 }
 
-/// Makes one figure and, in a build, writes each output whose bytes changed.
-fn make(job: &Job, program: &Program, table: &Table, mode: Mode) -> Made {
+/// Creates each output folder once (outputs are then written without creating folders);
+/// returns the folders that could not be created, with the reason.
+fn create_folders<'a>(dirs: impl Iterator<Item = &'a Path>) -> BTreeMap<PathBuf, String> {
+    let dirs: BTreeSet<&Path> = dirs.collect();
+    dirs.into_iter()
+        .filter_map(|dir| {
+            fs::create_dir_all(dir)
+                .err()
+                .map(|e| (dir.to_path_buf(), e.to_string()))
+        })
+        .collect()
+}
+
+/// Makes one figure and, in a build, writes each output whose bytes changed (its folder
+/// exists: [`create_folders`]).
+fn make(job: &Job, program: &Program, table: &Table, mode: Mode, tool: &str) -> Made {
     let book = &program.codebooks[job.plan.data];
-    let outputs = match render_figure(job.plan, book, table) {
+    let purpose = match mode {
+        Mode::Validate => Purpose::Validate,
+        _ => Purpose::Files(export::Provenance {
+            tool: tool.to_string(),
+            spec: job.hashes.spec.to_hex().to_string(),
+            data: job
+                .hashes
+                .data
+                .map_or_else(String::new, |d| d.to_hex().to_string()),
+        }),
+    };
+    let outputs = match render_figure(job.plan, book, table, &purpose) {
         Ok(o) => o,
         Err(e) => {
             return Made {
@@ -490,6 +535,8 @@ fn write_manifests(
         if next.figures.is_empty() && !path.exists() {
             continue;
         }
+        // A folder whose figures all failed was not created for outputs.
+        fs::create_dir_all(dir).map_err(|e| BuildError::io(dir, e))?;
         if write_if_changed(&path, &next.to_bytes())? {
             report.written.push(path);
         }

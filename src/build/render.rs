@@ -1,13 +1,14 @@
 //! One figure, from its checked plan and its table to the bytes of every output file.
 //!
 //! Pure apart from the CPU: nothing here touches the file system, so figures can be made on
-//! any thread in any order and give the same bytes.
+//! any thread in any order and give the same bytes. A validating run stops after layout: it
+//! finds every data and computation error without drawing or encoding anything.
 
 use crate::check::{Codebook, FigurePlan, Scale};
 use crate::compute::{self, ComputeError};
 use crate::data::{ColumnKind, ColumnSpec, Table, TableSpec};
 use crate::diag::Diagnostic;
-use crate::export;
+use crate::export::{self, ExportError, Provenance};
 use crate::layout;
 
 use super::BuildError;
@@ -32,6 +33,7 @@ pub enum OutputKind {
     Svg,
     Png,
     Pdf,
+    Tiff,
     Summary,
 }
 
@@ -42,19 +44,21 @@ impl OutputKind {
             OutputKind::Svg => "svg",
             OutputKind::Png => "png",
             OutputKind::Pdf => "pdf",
+            OutputKind::Tiff => "tiff",
             OutputKind::Summary => "summary.csv",
         };
         format!("{figure}.{ext}")
     }
 }
 
-/// The outputs a plan asks for, in a fixed order: svg, png, pdf, summary (always).
+/// The outputs a plan asks for, in a fixed order: svg, png, pdf, tiff, summary (always).
 pub fn output_kinds(plan: &FigurePlan) -> Vec<OutputKind> {
     let f = plan.formats;
     [
         (f.svg, OutputKind::Svg),
         (f.png, OutputKind::Png),
         (f.pdf, OutputKind::Pdf),
+        (f.tiff, OutputKind::Tiff),
         (true, OutputKind::Summary),
     ]
     .into_iter()
@@ -70,34 +74,68 @@ pub fn output_names(plan: &FigurePlan) -> Vec<String> {
         .collect()
 }
 
-/// Computes, lays out and renders one figure into its output files (in memory).
+/// What a figure is made for.
+pub enum Purpose {
+    /// Every output file, each recording this provenance.
+    Files(Provenance),
+    /// Only the checks: compute and lay out, then stop (no file is drawn or encoded).
+    Validate,
+}
+
+/// Computes and lays out one figure and, unless validating, renders its output files (in
+/// memory).
 pub fn render_figure(
     plan: &FigurePlan,
     book: &Codebook,
     table: &Table,
+    purpose: &Purpose,
 ) -> Result<FigureOutputs, FigureError> {
     let numbers = compute::compute(plan, book, table).map_err(|e| match e {
         ComputeError::Data(d) => FigureError::Data(d),
         ComputeError::Internal(m) => FigureError::Build(BuildError::Internal(m)),
     })?;
-    let scene = layout::layout(plan, &numbers);
+    let mut scene = layout::layout(plan, &numbers);
+    // Files without a title still tell readers which figure they are.
+    scene.title.get_or_insert_with(|| plan.name.clone());
+    let provenance = match purpose {
+        Purpose::Files(p) => p,
+        Purpose::Validate => {
+            scene.validate().map_err(|e| internal(e.into()))?;
+            if plan.formats.png || plan.formats.tiff {
+                // The raster limits, without drawing.
+                export::png_pixel_size(scene.width_mm, scene.height_mm, f64::from(plan.dpi))
+                    .map_err(limit)?;
+            }
+            return Ok(FigureOutputs { files: Vec::new() });
+        }
+    };
     let rendered = export::render(&scene)
-        .map_err(|e| FigureError::Build(BuildError::Internal(e.to_string())))?;
+        .map_err(internal)?
+        .with_provenance(provenance.clone());
+    let dpi = f64::from(plan.dpi);
+    let text = plan.formats.text;
     let mut files = Vec::new();
     for kind in output_kinds(plan) {
         let bytes = match kind {
-            OutputKind::Svg => rendered.svg().as_bytes().to_vec(),
-            OutputKind::Png => rendered
-                .png(f64::from(plan.dpi))
-                .map_err(|e| FigureError::Build(BuildError::Limit(e.to_string())))?,
-            OutputKind::Pdf => rendered
-                .pdf()
-                .map_err(|e| FigureError::Build(BuildError::Internal(e.to_string())))?,
+            OutputKind::Svg => rendered.svg(text).map_err(internal)?.into_bytes(),
+            OutputKind::Png => rendered.png(dpi).map_err(limit)?,
+            OutputKind::Pdf => rendered.pdf(text).map_err(internal)?,
+            OutputKind::Tiff => rendered.tiff(dpi).map_err(limit)?,
             OutputKind::Summary => compute::summary::to_csv(&numbers.summary).into_bytes(),
         };
         files.push((kind.file_name(&plan.name), bytes));
     }
     Ok(FigureOutputs { files })
+}
+
+/// A failure of drawing that is a bug, not the user's doing.
+fn internal(e: ExportError) -> FigureError {
+    FigureError::Build(BuildError::Internal(e.to_string()))
+}
+
+/// A failure of drawing that a smaller size or dpi avoids (raster limits).
+fn limit(e: ExportError) -> FigureError {
+    FigureError::Build(BuildError::Limit(e.to_string()))
 }
 
 /// The data stage's view of a codebook.

@@ -4,6 +4,7 @@
 use std::path::Path;
 
 use crate::diag::{did_you_mean, Code, Diagnostic, Span};
+use crate::scene::TextForm;
 use crate::syntax::ast::{Block, Ident, Plain, Statement, Term, Where};
 
 use super::axes::{self, not_categorical};
@@ -32,7 +33,7 @@ impl Default for FigureDefaults {
             formats: Formats {
                 svg: true,
                 png: true,
-                pdf: false,
+                ..Formats::NONE
             },
             dpi: DEFAULT_DPI,
         }
@@ -455,22 +456,31 @@ fn size(p: &Plain, diags: &mut Vec<Diagnostic>) -> Option<(f64, f64)> {
 }
 
 fn formats(p: &Plain, diags: &mut Vec<Diagnostic>) -> Option<Formats> {
-    let shape = "formats svg png pdf";
-    let mut f = Formats {
-        svg: false,
-        png: false,
-        pdf: false,
-    };
+    let shape = "formats svg png pdf tiff text(outlined)";
+    let mut f = Formats::NONE;
     for term in &p.terms {
-        let w = terms::expect_choice(term, &["svg", "png", "pdf"], shape, diags)?;
+        if let Term::Call(call) = term {
+            if call.name.name == "text" {
+                let text_shape = "text(outlined)";
+                let arg = terms::single(call, text_shape, diags)?;
+                let w = terms::expect_choice(arg, &["editable", "outlined"], text_shape, diags)?;
+                f.text = match w.name.as_str() {
+                    "outlined" => TextForm::Outlined,
+                    _ => TextForm::Editable,
+                };
+                continue;
+            }
+        }
+        let w = terms::expect_choice(term, &["svg", "png", "pdf", "tiff"], shape, diags)?;
         let slot = match w.name.as_str() {
             "svg" => &mut f.svg,
             "png" => &mut f.png,
-            _ => &mut f.pdf,
+            "pdf" => &mut f.pdf,
+            _ => &mut f.tiff,
         };
         *slot = true;
     }
-    if p.terms.is_empty() {
+    if !(f.svg || f.png || f.pdf || f.tiff) {
         diags.push(
             Diagnostic::new(Code::BadArgument, "`formats` needs at least one format")
                 .with_label(p.head.span, "no format")

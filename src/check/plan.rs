@@ -15,6 +15,7 @@
 use std::path::PathBuf;
 
 use crate::diag::Span;
+use crate::scene::TextForm;
 
 pub use super::layer::{Layer, LayerPlan};
 
@@ -249,12 +250,26 @@ pub enum Axes {
     NumNum { x: NumAxis, y: NumAxis },
 }
 
-/// Output formats.
+/// Output formats, and how text is written into the SVG and PDF.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub struct Formats {
     pub svg: bool,
     pub png: bool,
     pub pdf: bool,
+    pub tiff: bool,
+    /// `text(outlined)` in the `formats` statement; editable text otherwise.
+    pub text: TextForm,
+}
+
+impl Formats {
+    /// No format yet, editable text: the start of a list being read.
+    pub const NONE: Formats = Formats {
+        svg: false,
+        png: false,
+        pdf: false,
+        tiff: false,
+        text: TextForm::Editable,
+    };
 }
 
 /// A checked row filter.

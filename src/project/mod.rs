@@ -347,11 +347,7 @@ impl Reader {
     fn formats(&mut self, value: &Spanned<DeValue<'_>>) -> Option<Formats> {
         let expected = "`formats` is a list such as [\"svg\", \"png\"]";
         let items = self.array(value, expected)?;
-        let mut formats = Formats {
-            svg: false,
-            png: false,
-            pdf: false,
-        };
+        let mut formats = Formats::NONE;
         let mut ok = true;
         for item in items {
             let Some(name) = self.string(item, expected) else {
@@ -362,6 +358,7 @@ impl Reader {
                 "svg" => formats.svg = true,
                 "png" => formats.png = true,
                 "pdf" => formats.pdf = true,
+                "tiff" => formats.tiff = true,
                 _ => {
                     ok = false;
                     self.diags.push(
@@ -370,7 +367,7 @@ impl Reader {
                             format!("\"{name}\" is not an output format"),
                         )
                         .with_label(self.span(item), "unknown format")
-                        .with_help("the formats are \"svg\", \"png\" and \"pdf\""),
+                        .with_help("the formats are \"svg\", \"png\", \"pdf\" and \"tiff\""),
                     );
                 }
             }

@@ -126,3 +126,32 @@ pub fn python(script: &Path, mode: &str, request: &serde_json::Value) -> serde_j
     );
     serde_json::from_slice(&out.stdout).expect("the reference script prints JSON")
 }
+
+/// Draws an SVG file with resvg and the bundled font as Figura draws its PNG: one user unit per
+/// millimetre (usvg's dpi set to 25.4 makes `85mm` 85 units), scaled to `dpi`, on white, as
+/// 8-bit RGB `width` × `height` pixels.
+pub fn draw_svg_file(svg_text: &str, dpi: f64, width: u32, height: u32) -> Vec<u8> {
+    let options = usvg::Options {
+        font_family: figura::font::FAMILY.to_string(),
+        fontdb: figura::font::fontdb(),
+        dpi: 25.4,
+        ..usvg::Options::default()
+    };
+    let tree = usvg::Tree::from_str(svg_text, &options).expect("a valid SVG");
+    let mut pixmap = resvg::tiny_skia::Pixmap::new(width, height).unwrap();
+    pixmap.fill(resvg::tiny_skia::Color::WHITE);
+    let scale = (dpi / 25.4) as f32;
+    resvg::render(
+        &tree,
+        resvg::tiny_skia::Transform::from_scale(scale, scale),
+        &mut pixmap.as_mut(),
+    );
+    pixmap
+        .pixels()
+        .iter()
+        .flat_map(|p| {
+            let c = p.demultiply();
+            [c.red(), c.green(), c.blue()]
+        })
+        .collect()
+}
