@@ -76,6 +76,12 @@ pub const INCLUDE_MISSING: &str = "F0220";
 pub const INCLUDE_CYCLE: &str = "F0221";
 /// A spec file that is not UTF-8 text.
 pub const SPEC_NOT_UTF8: &str = "F0222";
+/// The summary of a spec file's problems past the per-file cap.
+pub const MORE_ERRORS: &str = "F0223";
+/// Files that include each other more deeply than the limit.
+pub const INCLUDE_TOO_DEEP: &str = "F0224";
+/// A data or include path that leads outside the project folder.
+pub const OUTSIDE_PROJECT: &str = "F0225";
 
 /// `mean` with no layer that shows spread or the individual values.
 pub const MEAN_ALONE: &str = "W0001";
