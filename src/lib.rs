@@ -6,7 +6,8 @@
 //! `syntax` (text → tree) → `check` (tree → checked plan) → `data` (files → typed table) →
 //! `compute` (plan + table → numbers) → `layout` (numbers → scene in mm) → `svg` (scene →
 //! text) → `export` (SVG → PNG / PDF); `build` drives them over many files; `project` reads a
-//! `figura.toml`; `cli` is the command line and `report` prints diagnostics.
+//! `figura.toml`; `cli` is the command line and `report` prints diagnostics; `files` opens
+//! every input file (regular files only, size first).
 //!
 //! Dependencies point downstream only: no stage knows the stages after it.
 
@@ -17,6 +18,7 @@ pub mod compute;
 pub mod data;
 pub mod diag;
 pub mod export;
+pub mod files;
 pub mod font;
 pub mod format;
 pub mod layout;

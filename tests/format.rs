@@ -117,7 +117,7 @@ fn without_spans(debug: &str) -> String {
 /// The checked program of the spec files given, as text without spans or the path of `dir`.
 fn checked_plan(dir: &Path, specs: &[PathBuf]) -> String {
     let mut sources = SourceMap::new();
-    let loaded = load::load(specs, &mut sources).unwrap();
+    let loaded = load::load(specs, None, &mut sources).unwrap();
     assert!(
         loaded.diags.is_empty(),
         "{}: {:?}",

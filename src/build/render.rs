@@ -1,7 +1,12 @@
 //! One figure, from its checked plan and its table to the bytes of every output file.
 //!
 //! Pure apart from the CPU: nothing here touches the file system, so figures can be made on
-//! any thread in any order and give the same bytes.
+//! any thread in any order and give the same bytes. A panic while making one figure is that
+//! figure's failure, never the run's.
+
+use std::any::Any;
+use std::cell::{Cell, RefCell};
+use std::panic::{self, AssertUnwindSafe};
 
 use crate::check::{Codebook, FigurePlan, Scale};
 use crate::compute::{self, ComputeError};
@@ -71,7 +76,68 @@ pub fn output_names(plan: &FigurePlan) -> Vec<String> {
 }
 
 /// Computes, lays out and renders one figure into its output files (in memory).
+///
+/// A panic while making the figure (a bug) is caught and returned as that figure's
+/// [`BuildError::Internal`] failure, naming the figure, so the other figures of the run are
+/// still made and recorded. See [`report_figure_panics_as_failures`] for the message.
 pub fn render_figure(
+    plan: &FigurePlan,
+    book: &Codebook,
+    table: &Table,
+) -> Result<FigureOutputs, FigureError> {
+    let caught = IN_FIGURE.with(|inside| {
+        let was = inside.replace(true);
+        let result = panic::catch_unwind(AssertUnwindSafe(|| make_outputs(plan, book, table)));
+        inside.set(was);
+        result
+    });
+    caught.unwrap_or_else(|payload| {
+        let what = LAST_PANIC
+            .with(|last| last.borrow_mut().take())
+            .unwrap_or_else(|| panic_text(payload.as_ref()).to_owned());
+        Err(FigureError::Build(BuildError::Internal(format!(
+            "figure `{}` could not be made: {what}",
+            plan.name
+        ))))
+    })
+}
+
+thread_local! {
+    /// Whether this thread is making a figure (its panics become the figure's failure).
+    static IN_FIGURE: Cell<bool> = const { Cell::new(false) };
+    /// The message and place of the last panic inside a figure on this thread.
+    static LAST_PANIC: RefCell<Option<String>> = const { RefCell::new(None) };
+}
+
+/// Makes panics inside [`render_figure`] silent on standard error, their message and place
+/// kept for the figure's failure instead; other panics are printed as before. For programs
+/// whose standard error must hold only their own output (the command line, whose JSON
+/// messages are one object per line). Call it once, before any figure is made.
+pub fn report_figure_panics_as_failures() {
+    let previous = panic::take_hook();
+    panic::set_hook(Box::new(move |info| {
+        if IN_FIGURE.with(Cell::get) {
+            let place = info
+                .location()
+                .map_or(String::new(), |l| format!(" ({}:{})", l.file(), l.line()));
+            let text = format!("{}{place}", panic_text(info.payload()));
+            LAST_PANIC.with(|last| *last.borrow_mut() = Some(text));
+        } else {
+            previous(info);
+        }
+    }));
+}
+
+/// The text a panic was given, when it was given one.
+fn panic_text(payload: &(dyn Any + Send)) -> &str {
+    payload
+        .downcast_ref::<&str>()
+        .copied()
+        .or_else(|| payload.downcast_ref::<String>().map(String::as_str))
+        .unwrap_or("a panic without a message")
+}
+
+fn make_outputs(
     plan: &FigurePlan,
     book: &Codebook,
     table: &Table,

@@ -80,7 +80,7 @@ pub fn build_examples(out: &Path) -> figura::build::BuildReport {
 pub fn example_program() -> (figura::check::Program, figura::diag::SourceMap) {
     let specs = figura::build::load::find_specs(&[examples()]).expect("the examples are found");
     let mut sources = figura::diag::SourceMap::new();
-    let loaded = figura::build::load::load(&specs, &mut sources).expect("the examples load");
+    let loaded = figura::build::load::load(&specs, None, &mut sources).expect("the examples load");
     assert!(loaded.diags.is_empty(), "the examples do not parse");
     let (program, diags) = figura::check::check(&loaded.units);
     assert!(diags.is_empty(), "the examples do not check cleanly");
