@@ -9,6 +9,7 @@
 mod excerpt;
 
 use std::ops::Range;
+use std::path::Path;
 
 use miette::{GraphicalReportHandler, GraphicalTheme, LabeledSpan, MietteDiagnostic};
 use serde::Serialize;
@@ -98,13 +99,11 @@ pub fn human(d: &Diagnostic, sources: &SourceMap, colour: bool) -> String {
             visible_text(&d.message)
         );
     }
-    if let Some(file) = d.file.as_deref() {
-        if !d.labels.iter().any(|l| sources.path(l.span.source) == file) {
-            text.push_str(&format!(
-                "  in {}\n",
-                visible_text(&file.display().to_string())
-            ));
-        }
+    if let Some(file) = d.file.as_deref().filter(|f| !names_its_file(d, f, sources)) {
+        text.push_str(&format!(
+            "  in {}\n",
+            visible_text(&file.display().to_string())
+        ));
     }
     if here.len() > shown.len() {
         text.push_str(&format!(
@@ -122,6 +121,16 @@ pub fn human(d: &Diagnostic, sources: &SourceMap, colour: bool) -> String {
         ));
     }
     text
+}
+
+/// Whether what is shown of `d` already names `file`: a label points into it, or the message
+/// holds its name.
+fn names_its_file(d: &Diagnostic, file: &Path, sources: &SourceMap) -> bool {
+    let in_message = file
+        .file_name()
+        .and_then(|n| n.to_str())
+        .is_some_and(|n| d.message.contains(n));
+    in_message || d.labels.iter().any(|l| sources.path(l.span.source) == file)
 }
 
 #[derive(Serialize)]
@@ -146,6 +155,9 @@ struct JsonDiagnostic<'a> {
     column: Option<usize>,
     labels: Vec<JsonLabel<'a>>,
     help: Option<&'a str>,
+    /// The file the problem is in, when neither a label nor the message names it.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    in_file: Option<String>,
 }
 
 /// One diagnostic as a single-line JSON object.
@@ -180,6 +192,11 @@ pub fn json(d: &Diagnostic, sources: &SourceMap) -> String {
         column: first.map(|l| l.column),
         labels,
         help: d.help.as_deref(),
+        in_file: d
+            .file
+            .as_deref()
+            .filter(|f| !names_its_file(d, f, sources))
+            .map(|f| f.display().to_string()),
     };
     serde_json::to_string(&obj)
         .unwrap_or_else(|e| format!("{{\"severity\":\"error\",\"message\":\"{e}\"}}"))

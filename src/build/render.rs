@@ -143,7 +143,9 @@ fn make_outputs(
     table: &Table,
 ) -> Result<FigureOutputs, FigureError> {
     let numbers = compute::compute(plan, book, table).map_err(|e| match e {
-        ComputeError::Data(d) => FigureError::Data(d),
+        ComputeError::Data(d) => {
+            FigureError::Data(d.into_iter().map(|d| naming_data_file(d, table)).collect())
+        }
         ComputeError::Internal(m) => FigureError::Build(BuildError::Internal(m)),
     })?;
     let scene = layout::layout(plan, &numbers);
@@ -164,6 +166,18 @@ fn make_outputs(
         files.push((kind.file_name(&plan.name), bytes));
     }
     Ok(FigureOutputs { files })
+}
+
+/// A problem found in the data's values names the data file: when none of its labels points
+/// into the file (they point at the spec), the file is attached, so the row numbers of the
+/// message can be found.
+fn naming_data_file(d: Diagnostic, table: &Table) -> Diagnostic {
+    let in_table = d.labels.iter().any(|l| l.span.source == table.source());
+    if in_table || d.file.is_some() {
+        d
+    } else {
+        d.with_file(table.path())
+    }
 }
 
 /// The data stage's view of a codebook.

@@ -3,14 +3,17 @@
 //! Files are opened read-only and never written, through [`crate::files`]: only a regular
 //! file is read (a folder, a named pipe, a device such as `/dev/zero` is refused at once, never
 //! waited on), and a file larger than [`ReadLimits::max_file_bytes`] is refused from its size
-//! before any byte is read (and again while reading, should it grow). The text must be UTF-8 without NUL bytes;
-//! anything else is one error naming the line and byte offset of the first bad byte.
+//! before any byte is read (and again while reading, should it grow). The text must be UTF-8
+//! without NUL bytes or other characters that text cannot hold
+//! ([`crate::syntax::is_text_char`]: they could not be written into an SVG); anything else is
+//! one error naming the line and byte offset of the first bad character.
 
 use std::io;
 use std::path::Path;
 
 use crate::diag::Diagnostic;
 use crate::files::{self, FileKind, ReadError};
+use crate::syntax::is_text_char;
 
 use super::codes;
 use super::report::{file_label, quoted};
@@ -98,6 +101,21 @@ pub(super) fn decode(spec: &TableSpec, bytes: Vec<u8>) -> Result<String, Diagnos
                 file_label(&spec.path)
             ),
             "it looks like UTF-16 text or a file that is not text; save it as CSV in UTF-8",
+        ));
+    }
+    if let Some((at, c)) = text.char_indices().find(|&(_, c)| !is_text_char(c)) {
+        let line = line_of(text.as_bytes(), at);
+        return Err(file_error(
+            spec,
+            codes::NOT_TEXT_CHAR,
+            format!(
+                "data file {} holds the character U+{:04X} at line {line}, byte offset {at}, \
+                 which text cannot hold",
+                file_label(&spec.path),
+                c as u32
+            ),
+            "remove it: control characters cannot be drawn or written into an SVG file; \
+             a file that holds many was probably not saved as plain CSV",
         ));
     }
     Ok(text)
