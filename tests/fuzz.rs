@@ -23,7 +23,7 @@
 //! prints the target, the seed, the input number and the input, and writes the input to
 //! `target/fuzz-failures/` to add to the regression corpus.
 //!
-//! Internal errors already known are listed in [`KNOWN`], each with its reason; the targets
+//! Internal errors already known are listed in `generate::KNOWN`, each with its reason; the targets
 //! still run them, but do not fail on them. An entry that the regression corpus no longer
 //! reproduces fails `regressions`, so the list shrinks as they are fixed.
 
@@ -32,7 +32,6 @@ mod generate;
 
 use std::panic::{self, AssertUnwindSafe};
 use std::path::{Path, PathBuf};
-use std::sync::Once;
 
 use arbitrary::Unstructured;
 
@@ -43,25 +42,6 @@ use figura::diag::{Diagnostic, SourceMap};
 use figura::report::{self, MessageFormat};
 use figura::stats::random::SplitMix64;
 use figura::syntax;
-
-/// Internal errors known and not yet fixed: (a text the failure contains, why it is known).
-const KNOWN: &[(&str, &str)] = &[
-    (
-        "src/compute/dist.rs",
-        "issue 13: `density bandwidth(B)` with `colour` when a group has no values (index out of \
-     bounds); the compute refactor fixes it — regression 001_density_empty_group",
-    ),
-    (
-        "a rectangle width in the drawing is out of range",
-        "values near 1e300 give a negative width when the figure is laid out (layout, not yet \
-         assigned) — regression 004_huge_values_box",
-    ),
-    (
-        "a coordinate in the drawing is not a finite number",
-        "a least squares line over values near 1e300 overflows (stats or layout, not yet \
-         assigned) — regression 005_huge_values_fit",
-    ),
-];
 
 const REGRESSIONS: &str = "tests/fuzz/regressions";
 
@@ -78,12 +58,6 @@ fn seed(target: u64) -> u64 {
         .and_then(|s| s.parse().ok())
         .unwrap_or(0x5eed_f16a);
     base ^ target.wrapping_mul(0x9e37_79b9_7f4a_7c15)
-}
-
-/// Panics inside a figure keep their place for the failure's message (see `build`).
-fn quiet_figure_panics() {
-    static ONCE: Once = Once::new();
-    ONCE.call_once(build::report_figure_panics_as_failures);
 }
 
 /// At least `min` and fewer than `min + spread` pseudo-random bytes.
@@ -383,13 +357,9 @@ fn make_figures(spec: &str, data: &str) -> Made {
     made
 }
 
-fn is_known(internal: &str) -> bool {
-    KNOWN.iter().any(|(text, _)| internal.contains(text))
-}
-
 #[test]
 fn end_to_end() {
-    quiet_figure_panics();
+    generate::quiet_figure_panics();
     let seed = seed(3);
     let mut rng = SplitMix64::new(seed);
     let n = 400 * scale();
@@ -408,7 +378,7 @@ fn end_to_end() {
         let what = match outcome {
             Ok(made) => {
                 drawn += made.drawn;
-                match made.internal.into_iter().find(|e| !is_known(e)) {
+                match made.internal.into_iter().find(|e| !generate::is_known(e)) {
                     None => continue,
                     Some(e) => e,
                 }
@@ -450,8 +420,8 @@ fn regressions() -> Vec<(PathBuf, String, String)> {
 
 #[test]
 fn regressions_never_crash_and_known_errors_still_happen() {
-    quiet_figure_panics();
-    let mut seen_known = vec![false; KNOWN.len()];
+    generate::quiet_figure_panics();
+    let mut seen_known = vec![false; generate::KNOWN.len()];
     let cases = regressions();
     assert!(!cases.is_empty(), "the regression corpus is empty");
     for (path, spec, data) in cases {
@@ -460,16 +430,19 @@ fn regressions_never_crash_and_known_errors_still_happen() {
         let made = no_panic(|| make_figures(&spec, &data))
             .unwrap_or_else(|p| panic!("{name}: panicked outside a figure: {p}"));
         for error in made.internal {
-            match KNOWN.iter().position(|(text, _)| error.contains(text)) {
+            match generate::KNOWN
+                .iter()
+                .position(|(text, _)| error.contains(text))
+            {
                 Some(i) => seen_known[i] = true,
                 None => panic!("{name}: an internal error: {error}"),
             }
         }
     }
-    for ((text, why), seen) in KNOWN.iter().zip(seen_known) {
+    for ((text, why), seen) in generate::KNOWN.iter().zip(seen_known) {
         assert!(
             seen,
-            "the known internal error `{text}` ({why}) no longer happens: remove it from KNOWN"
+            "the known internal error `{text}` ({why}) no longer happens: remove it from KNOWN in tests/generate/mod.rs"
         );
     }
 }
