@@ -274,7 +274,10 @@ impl Loader {
             build_figures: false,
         });
         self.unit_sources.push(id);
-        let dir = path.parent().unwrap_or(Path::new("."));
+        let dir = match path.parent() {
+            Some(p) if !p.as_os_str().is_empty() => p,
+            _ => Path::new("."),
+        };
         let bounds = self.bounds_for(dir);
         self.bounds.push(Rc::clone(&bounds));
         for inc in includes {

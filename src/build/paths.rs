@@ -45,7 +45,7 @@ impl Bounds {
     /// copy of a work tree (a revision `figura diff` builds): the bounds never reach past it,
     /// whatever a `figura.toml` inside opens, and it stands for the work tree's top.
     pub fn around(dir: &Path, top: Option<&Path>) -> Bounds {
-        let dir = fs::canonicalize(dir).unwrap_or_else(|_| dir.to_path_buf());
+        let dir = resolved(dir).unwrap_or_else(|| dir.to_path_buf());
         let top = top.map(|t| fs::canonicalize(t).unwrap_or_else(|_| t.to_path_buf()));
         let within_top = |p: &Path| top.as_deref().is_none_or(|t| p.starts_with(t));
         if let Some(root) = dir
@@ -90,9 +90,9 @@ impl Bounds {
     /// Whether `path`, resolved, lies inside the root or an allowed folder. A path whose
     /// missing part holds `..` is never admitted.
     pub fn admits(&self, path: &Path) -> bool {
-        resolved(path).is_some_and(|p| {
-            p.starts_with(&self.root) || self.allowed.iter().any(|a| p.starts_with(a))
-        })
+        let inside = |p: &Path, folder: &Path| folder.is_absolute() && p.starts_with(folder);
+        resolved(path)
+            .is_some_and(|p| inside(&p, &self.root) || self.allowed.iter().any(|a| inside(&p, a)))
     }
 
     /// Where paths may lead, in words: "the project folder /work/paper (the folder of its
@@ -157,7 +157,12 @@ pub fn relative_path(path: &Path, base: &Path) -> PathBuf {
 /// the current folder cannot be resolved, or the missing part holds `..`.
 pub fn resolved(path: &Path) -> Option<PathBuf> {
     let mut missing = Vec::new();
-    let mut existing = path;
+    // `a.figura`'s parent is the empty path: the current folder.
+    let mut existing = if path.as_os_str().is_empty() {
+        Path::new(".")
+    } else {
+        path
+    };
     loop {
         if let Ok(found) = fs::canonicalize(existing) {
             return Some(missing.iter().rev().fold(found, |p, name| p.join(name)));
