@@ -3,7 +3,7 @@
 //! The diagnostic data lives in [`crate::diag`]; this module only decides how it looks.
 //!
 //! Guarantees: rendering never panics and its output and time are bounded per diagnostic,
-//! whatever the size of the files the labels point into (see [`excerpt`]); no byte of a
+//! whatever the size of the files the labels point into (see `report/excerpt.rs`); no byte of a
 //! source, message or label can reach the terminal as a control character.
 
 mod excerpt;
@@ -43,7 +43,7 @@ pub fn render_all(diags: &[Diagnostic], sources: &SourceMap, format: MessageForm
 
 /// One diagnostic as miette draws it: code, message, the source lines with labels, and help.
 ///
-/// The lines come from an [`Excerpt`]: only those around the labels, cut when long, with
+/// The lines come from an `Excerpt`: only those around the labels, cut when long, with
 /// control characters made visible, so the text printed and the time taken are bounded per
 /// diagnostic whatever the size of the source.
 pub fn human(d: &Diagnostic, sources: &SourceMap, colour: bool) -> String {

@@ -4,6 +4,7 @@
 //! [project]
 //! specs = ["figures"]     # folders searched for *.figura (default ["."])
 //! out = "figures/out"     # every output here (default: out/ beside each spec)
+//! allow-outside = ["../shared-data"]  # folders outside the project specs may use
 //!
 //! [defaults]
 //! formats = ["svg", "png"]
@@ -13,10 +14,12 @@
 //! Guarantees: every problem of the file is reported at once, each with the span of the key or
 //! value at fault (an unknown key, a value of the wrong type, a format that does not exist, a
 //! dpi outside the supported limits); paths in a [`Project`] are usable from the folder the
-//! search started in (relative when that folder is inside the project).
+//! search started in (relative when that folder is inside the project); every `specs` and `out`
+//! folder lies, after symbolic links are followed, inside the project's folder or a folder of
+//! `allow-outside` (see [`crate::build::paths::Bounds`]).
 //!
 //! Codes: `P0001` the file is not TOML, `P0002` an unknown table or key, `P0003` a value of the
-//! wrong type or outside its limits.
+//! wrong type or outside its limits, `P0004` a `specs` or `out` folder outside the project.
 
 pub mod new;
 
