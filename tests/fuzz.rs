@@ -36,7 +36,7 @@ use std::path::{Path, PathBuf};
 use arbitrary::Unstructured;
 
 use figura::build::{self, FigureError};
-use figura::check::{self, SpecUnit};
+use figura::check;
 use figura::data;
 use figura::diag::{Diagnostic, SourceMap};
 use figura::report::{self, MessageFormat};
@@ -210,13 +210,7 @@ fn parse_everything(bytes: &[u8]) {
     let id = sources.add("fuzz.figura", text);
     match syntax::parse(id, text) {
         Ok(ast) => {
-            let unit = SpecUnit {
-                path: PathBuf::from("fuzz.figura"),
-                ast,
-                sees: Vec::new(),
-                build_figures: true,
-            };
-            let (_, diags) = check::check(&[unit]);
+            let (_, diags) = check::check(&[generate::unit(ast)]);
             render(&diags, &sources);
             if let Err(figura::format::FormatError::Internal(m)) =
                 figura::format::format_source(id, text)
@@ -282,13 +276,7 @@ fn read_data(spec: &str, data: &[u8]) -> Option<(check::Program, data::Table, So
     let mut sources = SourceMap::new();
     let id = sources.add("fuzz.figura", spec);
     let ast = syntax::parse(id, sources.text(id)).ok()?;
-    let unit = SpecUnit {
-        path: PathBuf::from("fuzz.figura"),
-        ast,
-        sees: Vec::new(),
-        build_figures: true,
-    };
-    let (program, _) = check::check(&[unit]);
+    let (program, _) = check::check(&[generate::unit(ast)]);
     let book = program.codebooks.first()?;
     match data::parse_table(&build::table_spec(book), data, &mut sources) {
         Ok(table) => Some((program, table, sources)),

@@ -12,16 +12,15 @@
 //! (`PROPTEST_RNG_SEED=N` searches others); a failing case proptest found is kept in
 //! `tests/properties.proptest-regressions` and replayed first.
 
+mod common;
 mod generate;
-
-use std::path::PathBuf;
 
 use arbitrary::Unstructured;
 use proptest::prelude::*;
 use proptest::test_runner::RngSeed;
 
 use figura::build::{self, BuildError, BuildOptions, Mode};
-use figura::check::{self, SpecUnit};
+use figura::check;
 use figura::diag::SourceMap;
 use figura::format;
 use figura::syntax;
@@ -35,29 +34,9 @@ fn meaning(text: &str) -> String {
     let mut sources = SourceMap::new();
     let id = sources.add("p.figura", text);
     let ast = syntax::parse(id, text).expect("the text parses");
-    let unit = SpecUnit {
-        path: PathBuf::from("p.figura"),
-        ast,
-        sees: Vec::new(),
-        build_figures: true,
-    };
-    let (program, diags) = check::check(&[unit]);
+    let (program, diags) = check::check(&[generate::unit(ast)]);
     let codes: Vec<&str> = diags.iter().map(|d| d.code).collect();
-    without_spans(&format!("{program:?} {codes:?}"))
-}
-
-/// A `Debug` text with every `Span { ... }` replaced by `Span`.
-fn without_spans(debug: &str) -> String {
-    let mut out = String::with_capacity(debug.len());
-    let mut rest = debug;
-    while let Some(at) = rest.find("Span { source: ") {
-        out.push_str(&rest[..at]);
-        out.push_str("Span");
-        let end = rest[at..].find('}').map_or(rest.len(), |e| at + e + 1);
-        rest = &rest[end..];
-    }
-    out.push_str(rest);
-    out
+    common::without_spans(&format!("{program:?} {codes:?}"))
 }
 
 /// `cases` cases from a fixed seed (unless `PROPTEST_RNG_SEED` names another).

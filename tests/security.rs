@@ -16,6 +16,9 @@ use std::time::{Duration, Instant};
 
 use serde_json::Value;
 
+mod common;
+use common::git;
+
 /// A secret that must never appear in any output, diagnostic or report.
 const SECRET: &str = "TOP-SECRET-7f3a";
 
@@ -484,31 +487,6 @@ fn a_panic_in_one_figure_leaves_the_others_built() {
 }
 
 // ---- figura diff --------------------------------------------------------------------------
-
-fn git(dir: &Path, args: &[&str]) {
-    let out = Command::new("git")
-        .args([
-            "-c",
-            "user.name=Figura Test",
-            "-c",
-            "user.email=test@example.org",
-        ])
-        .args([
-            "-c",
-            "commit.gpgsign=false",
-            "-c",
-            "init.defaultBranch=main",
-        ])
-        .args(args)
-        .current_dir(dir)
-        .output()
-        .expect("git runs");
-    assert!(
-        out.status.success(),
-        "git {args:?}: {}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-}
 
 #[test]
 fn diff_never_shows_a_file_from_outside_the_revision() {

@@ -109,3 +109,45 @@ pub fn output_files(dir: &Path) -> Vec<(String, Vec<u8>)> {
     out.sort();
     out
 }
+
+/// Runs `git` in `dir` with a fixed identity and settings; panics when it fails. Returns its
+/// standard output.
+pub fn git(dir: &Path, args: &[&str]) -> String {
+    let out = std::process::Command::new("git")
+        .args([
+            "-c",
+            "user.name=Figura Test",
+            "-c",
+            "user.email=test@example.org",
+        ])
+        .args([
+            "-c",
+            "commit.gpgsign=false",
+            "-c",
+            "init.defaultBranch=main",
+        ])
+        .args(args)
+        .current_dir(dir)
+        .output()
+        .expect("git runs");
+    assert!(
+        out.status.success(),
+        "git {args:?}: {}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    String::from_utf8_lossy(&out.stdout).into_owned()
+}
+
+/// A `Debug` text with every `Span { ... }` replaced by `Span`.
+pub fn without_spans(debug: &str) -> String {
+    let mut out = String::with_capacity(debug.len());
+    let mut rest = debug;
+    while let Some(at) = rest.find("Span { source: ") {
+        out.push_str(&rest[..at]);
+        out.push_str("Span");
+        let end = rest[at..].find('}').map_or(rest.len(), |e| at + e + 1);
+        rest = &rest[end..];
+    }
+    out.push_str(rest);
+    out
+}

@@ -55,6 +55,16 @@ pub fn is_known(internal: &str) -> bool {
     KNOWN.iter().any(|(text, _)| internal.contains(text))
 }
 
+/// A parsed spec as the checker takes it: one file, `spec.figura`, whose figures are built.
+pub fn unit(ast: figura::syntax::ast::SpecFile) -> figura::check::SpecUnit {
+    figura::check::SpecUnit {
+        path: std::path::PathBuf::from("spec.figura"),
+        ast,
+        sees: Vec::new(),
+        build_figures: true,
+    }
+}
+
 /// One generated spec with its data file.
 #[derive(Debug, Clone)]
 pub struct Case {
