@@ -374,3 +374,31 @@ fn thousands_of_bad_statements_give_a_short_report() {
     let human = figura(dir.path(), &["check", "spec.figura"]);
     assert!(human.stderr.len() < 100_000, "{} bytes", human.stderr.len());
 }
+
+#[test]
+fn a_long_chain_of_includes_is_an_error_about_includes() {
+    // Regression: 3 000 files including each other ran the parser out of stack, and the
+    // error talked about parentheses. Now a chain longer than 32 files is F0224.
+    let dir = tempfile::tempdir().unwrap();
+    for i in 0..40 {
+        std::fs::write(
+            dir.path().join(format!("f{i}.figura")),
+            format!("include \"f{}.figura\"\n", i + 1),
+        )
+        .unwrap();
+    }
+    std::fs::write(dir.path().join("f40.figura"), "").unwrap();
+    let outcome = figura(
+        dir.path(),
+        &["check", "f0.figura", "--message-format", "json"],
+    );
+    assert_eq!(outcome.code, 1, "{}", outcome.stderr);
+    let diags = json_lines(&outcome.stderr);
+    assert_eq!(diags.len(), 1, "{}", outcome.stderr);
+    assert_eq!(diags[0]["code"], "F0224");
+    assert_eq!(
+        diags[0]["file"], "f31.figura",
+        "the 32nd file names one more"
+    );
+    assert!(!outcome.stderr.contains("parenthes"), "{}", outcome.stderr);
+}

@@ -274,11 +274,14 @@ impl Loader {
             build_figures: false,
         });
         self.unit_sources.push(id);
-        let dir = match path.parent() {
-            Some(p) if !p.as_os_str().is_empty() => p,
-            _ => Path::new("."),
+        // `a.figura`'s parent is the empty path: includes are joined to it as written (so
+        // messages show `b.figura`, not `./b.figura`), bounds are found from `.`.
+        let dir = path.parent().unwrap_or(Path::new(""));
+        let bounds = if dir.as_os_str().is_empty() {
+            self.bounds_for(Path::new("."))
+        } else {
+            self.bounds_for(dir)
         };
-        let bounds = self.bounds_for(dir);
         self.bounds.push(Rc::clone(&bounds));
         for inc in includes {
             let target = dir.join(&inc.path.value);
