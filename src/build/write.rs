@@ -94,10 +94,11 @@ fn write_once(dir: &Path, name: &str, path: &Path, bytes: &[u8]) -> io::Result<(
 pub fn check_output_dir(dir: &Path, bounds: Option<&Bounds>) -> Result<(), BuildError> {
     match bounds {
         Some(b) if !b.admits(dir) => Err(BuildError::Limit(format!(
-            "{}: the output folder leads outside {}, so nothing is written there; {}",
+            "{}: the output folder leads outside {} (through a symbolic link), so nothing is \
+             written there; remove the link, choose a folder with --out DIR, or open the \
+             folder with allow-outside under [project] in figura.toml",
             dir.display(),
             b.describe(),
-            b.widen_help()
         ))),
         _ => Ok(()),
     }
