@@ -9,6 +9,7 @@
 //! find and return them together.
 
 use std::path::{Path, PathBuf};
+use std::sync::OnceLock;
 
 pub mod codes;
 
@@ -55,6 +56,52 @@ impl Span {
 pub struct SourceFile {
     pub path: PathBuf,
     pub text: String,
+    /// Byte offset of the start of every line, computed once when first needed.
+    line_starts: OnceLock<Vec<usize>>,
+}
+
+impl SourceFile {
+    /// Byte offsets where lines start: 0, then after every `\n`, `\r\n` or lone `\r`.
+    pub fn line_starts(&self) -> &[usize] {
+        self.line_starts.get_or_init(|| {
+            let bytes = self.text.as_bytes();
+            let mut starts = vec![0];
+            for (i, &b) in bytes.iter().enumerate() {
+                let breaks = b == b'\n' || (b == b'\r' && bytes.get(i + 1) != Some(&b'\n'));
+                if breaks {
+                    starts.push(i + 1);
+                }
+            }
+            starts
+        })
+    }
+
+    /// 0-based index of the line holding byte `offset` (clamped to the text).
+    pub fn line_index(&self, offset: usize) -> usize {
+        let offset = offset.min(self.text.len());
+        self.line_starts().partition_point(|&s| s <= offset) - 1
+    }
+
+    /// The byte range of line `index` (0-based), without its line break.
+    pub fn line_range(&self, index: usize) -> std::ops::Range<usize> {
+        let starts = self.line_starts();
+        let start = starts[index.min(starts.len() - 1)];
+        let next = starts.get(index + 1).copied().unwrap_or(self.text.len());
+        let bytes = self.text.as_bytes();
+        let mut end = next;
+        if end > start && bytes[end - 1] == b'\n' {
+            end -= 1;
+        }
+        if end > start && bytes[end - 1] == b'\r' {
+            end -= 1;
+        }
+        start..end
+    }
+
+    /// The number of lines (a text without a line break has one).
+    pub fn line_count(&self) -> usize {
+        self.line_starts().len()
+    }
 }
 
 /// Every source text read in one run, addressed by [`SourceId`].
@@ -74,6 +121,7 @@ impl SourceMap {
         self.files.push(SourceFile {
             path: path.into(),
             text: text.into(),
+            line_starts: OnceLock::new(),
         });
         id
     }
@@ -100,15 +148,18 @@ impl SourceMap {
         &self.text(span.source)[span.start..span.end]
     }
 
-    /// 1-based line and column (in characters) of a byte offset.
+    /// 1-based line and column (in characters) of a byte offset. Lines end at `\n`, `\r\n`
+    /// or a lone `\r`; the work is a binary search plus the length of the line's start.
     pub fn line_col(&self, id: SourceId, offset: usize) -> (usize, usize) {
-        let text = self.text(id);
-        let offset = offset.min(text.len());
-        let before = &text[..offset];
-        let line = before.matches('\n').count() + 1;
-        let line_start = before.rfind('\n').map_or(0, |i| i + 1);
-        let col = before[line_start..].chars().count() + 1;
-        (line, col)
+        let file = self.get(id);
+        let mut offset = offset.min(file.text.len());
+        while !file.text.is_char_boundary(offset) {
+            offset -= 1;
+        }
+        let line = file.line_index(offset);
+        let line_start = file.line_starts()[line];
+        let col = file.text[line_start..offset].chars().count() + 1;
+        (line + 1, col)
     }
 }
 
@@ -138,7 +189,8 @@ pub struct Diagnostic {
     pub labels: Vec<Label>,
     /// How to fix it.
     pub help: Option<String>,
-    /// A file the problem is about when there is no span to show (an unreadable data file).
+    /// The file the problem is about, when the labels do not point into it: an unreadable
+    /// data file, or the data file whose rows a message about the data counts in.
     pub file: Option<PathBuf>,
 }
 

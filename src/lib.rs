@@ -9,7 +9,8 @@
 //! files; `project` reads a `figura.toml`; `cli` is the command line and `report` prints
 //! diagnostics. `trim` keeps marks within reach of the page before anything is drawn. `colour`
 //! holds the colour science (spaces, CIEDE2000, colour-vision simulation, palettes) as pure
-//! functions.
+//! functions; `files`
+//! opens every input file (regular files only, size first).
 //!
 //! Dependencies point downstream only: no stage knows the stages after it.
 
@@ -21,6 +22,7 @@ pub mod compute;
 pub mod data;
 pub mod diag;
 pub mod export;
+pub mod files;
 pub mod font;
 pub mod format;
 pub mod layout;

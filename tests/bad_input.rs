@@ -294,3 +294,111 @@ fn a_spec_path_that_is_a_folder_without_specs_builds_nothing() {
     let outcome = figura(dir.path(), &["build", "empty"]);
     assert_eq!(outcome.code, 0, "{}", outcome.stderr);
 }
+
+#[test]
+fn an_error_past_character_65535_of_a_line_is_shown_cut() {
+    // Regression: the renderer used to panic ("Formatting argument out of range") when a
+    // label sat past character 65 535 of its line. A spec line, a data row and `fmt --check`.
+    let dir = tempfile::tempdir().unwrap();
+    let long_spec = format!("figure f {{ {} @ }}\n", "x".repeat(70_000));
+    std::fs::write(dir.path().join("long.figura"), &long_spec).unwrap();
+    for args in [
+        &["check", "long.figura"][..],
+        &["fmt", "--check", "long.figura"],
+    ] {
+        let outcome = figura(dir.path(), args);
+        assert_eq!(outcome.code, 1, "{args:?}: {}", outcome.stderr);
+        assert!(outcome.stderr.contains("F0014"), "{}", outcome.stderr);
+        assert!(
+            outcome.stderr.contains("long.figura:1:70013"),
+            "{}",
+            outcome.stderr
+        );
+        assert!(
+            outcome.stderr.len() < 2_000,
+            "the line is cut: {}",
+            outcome.stderr
+        );
+    }
+
+    // 12 000 columns: the bad value sits past character 65 535 of row 2.
+    let n = 12_000;
+    let header: Vec<String> = (0..n).map(|i| format!("c{i}")).collect();
+    let mut row: Vec<String> = (0..n).map(|i| format!("{i}.5")).collect();
+    row[n - 1] = "oops".to_string();
+    let data = format!("{}\n{}\n", header.join(","), row.join(","));
+    std::fs::write(dir.path().join("wide.csv"), data).unwrap();
+    let last = format!("c{}", n - 1);
+    let spec = format!(
+        "data wide \"wide.csv\" {{\n  {last}: ratio\n}}\nfigure w {{\n  from wide\n  x {last}\n  histogram\n}}\n"
+    );
+    std::fs::write(dir.path().join("wide.figura"), spec).unwrap();
+    let outcome = figura(dir.path(), &["check", "wide.figura"]);
+    assert_eq!(outcome.code, 1, "{}", outcome.stderr);
+    assert!(outcome.stderr.contains("D0012"), "{}", outcome.stderr);
+    assert!(outcome.stderr.contains("oops"), "{}", outcome.stderr);
+    assert!(
+        outcome.stderr.len() < 3_000,
+        "the row is cut: {}",
+        outcome.stderr
+    );
+}
+
+#[test]
+fn thousands_of_bad_statements_give_a_short_report() {
+    // Regression: 5 000 unknown statements on one line printed the whole line 5 000 times
+    // (hundreds of MB). Now: 100 diagnostics of a file in full, then one F0223 counting the
+    // rest, each line cut to a window around its label.
+    let many = "pionts; ".repeat(5_000);
+    let (outcome, _dir) = build_spec(spec_with(&format!("  {many}\n")).as_bytes());
+    assert_eq!(outcome.code, 1);
+    let diags = json_lines(&outcome.stderr);
+    assert_eq!(diags.len(), 101, "{}", &outcome.stderr[..2_000]);
+    let last = &diags[100];
+    assert_eq!(last["code"], "F0223");
+    assert_eq!(
+        last["message"],
+        "spec.figura: 4900 more problems not shown (F0201: 4900)"
+    );
+    let dir = tempfile::tempdir().unwrap();
+    std::fs::write(
+        dir.path().join("spec.figura"),
+        spec_with(&format!("  {many}\n")),
+    )
+    .unwrap();
+    std::fs::write(
+        dir.path().join("times.csv"),
+        format!("runner,shoe,time\n{GOOD_ROWS}"),
+    )
+    .unwrap();
+    let human = figura(dir.path(), &["check", "spec.figura"]);
+    assert!(human.stderr.len() < 100_000, "{} bytes", human.stderr.len());
+}
+
+#[test]
+fn a_long_chain_of_includes_is_an_error_about_includes() {
+    // Regression: 3 000 files including each other ran the parser out of stack, and the
+    // error talked about parentheses. Now a chain longer than 32 files is F0224.
+    let dir = tempfile::tempdir().unwrap();
+    for i in 0..40 {
+        std::fs::write(
+            dir.path().join(format!("f{i}.figura")),
+            format!("include \"f{}.figura\"\n", i + 1),
+        )
+        .unwrap();
+    }
+    std::fs::write(dir.path().join("f40.figura"), "").unwrap();
+    let outcome = figura(
+        dir.path(),
+        &["check", "f0.figura", "--message-format", "json"],
+    );
+    assert_eq!(outcome.code, 1, "{}", outcome.stderr);
+    let diags = json_lines(&outcome.stderr);
+    assert_eq!(diags.len(), 1, "{}", outcome.stderr);
+    assert_eq!(diags[0]["code"], "F0224");
+    assert_eq!(
+        diags[0]["file"], "f31.figura",
+        "the 32nd file names one more"
+    );
+    assert!(!outcome.stderr.contains("parenthes"), "{}", outcome.stderr);
+}

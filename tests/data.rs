@@ -906,7 +906,7 @@ fn d0016_errors_past_the_cap_are_summed_up() {
         .message
         .starts_with("sleep.csv row 11, column \"extra_hours\""));
     let summary = &errors[20];
-    assert_eq!(summary.code, Code::MoreErrors);
+    assert_eq!(summary.code, Code::MoreDataErrors);
     assert_eq!(
         summary.message,
         "sleep.csv: 20 more data errors not shown (D0011: 10, D0012: 10)"

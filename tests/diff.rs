@@ -10,6 +10,9 @@
 use std::path::{Path, PathBuf};
 use std::process::Command;
 
+mod common;
+use common::git;
+
 /// The corrected value: tray T017 (shade) measured 88.5 mm, corrected to 95.5 mm. It stays an
 /// outlier of the shade box, so only the outlier, the maximum, the mean and the standard error
 /// of the shade group move.
@@ -27,32 +30,6 @@ figure height_box_only {
 
 fn root() -> PathBuf {
     PathBuf::from(env!("CARGO_MANIFEST_DIR"))
-}
-
-fn git(dir: &Path, args: &[&str]) -> String {
-    let out = Command::new("git")
-        .args([
-            "-c",
-            "user.name=Figura Test",
-            "-c",
-            "user.email=test@example.org",
-        ])
-        .args([
-            "-c",
-            "commit.gpgsign=false",
-            "-c",
-            "init.defaultBranch=main",
-        ])
-        .args(args)
-        .current_dir(dir)
-        .output()
-        .expect("git runs");
-    assert!(
-        out.status.success(),
-        "git {args:?}: {}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    String::from_utf8_lossy(&out.stdout).into_owned()
 }
 
 fn copy_example(repo: &Path, spec: &str, data: &str) {

@@ -100,24 +100,10 @@ fn canonical_layout_of_a_messy_spec() {
     assert_eq!(fmt(messy), expected);
 }
 
-/// A `Debug` text with every `Span { .. }` replaced by `Span`.
-fn without_spans(debug: &str) -> String {
-    let mut out = String::with_capacity(debug.len());
-    let mut rest = debug;
-    while let Some(at) = rest.find("Span { source: ") {
-        out.push_str(&rest[..at]);
-        out.push_str("Span");
-        let end = rest[at..].find('}').map_or(rest.len(), |e| at + e + 1);
-        rest = &rest[end..];
-    }
-    out.push_str(rest);
-    out
-}
-
 /// The checked program of the spec files given, as text without spans or the path of `dir`.
 fn checked_plan(dir: &Path, specs: &[PathBuf]) -> String {
     let mut sources = SourceMap::new();
-    let loaded = load::load(specs, &mut sources).unwrap();
+    let loaded = load::load(specs, None, &mut sources).unwrap();
     assert!(
         loaded.diags.is_empty(),
         "{}: {:?}",
@@ -130,7 +116,7 @@ fn checked_plan(dir: &Path, specs: &[PathBuf]) -> String {
         "{}: {diags:?}",
         dir.display()
     );
-    without_spans(&format!("{program:?}")).replace(&dir.display().to_string(), "ROOT")
+    common::without_spans(&format!("{program:?}")).replace(&dir.display().to_string(), "ROOT")
 }
 
 fn copy_dir(from: &Path, to: &Path) {

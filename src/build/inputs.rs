@@ -9,16 +9,21 @@
 //! The spec part and the data file's hash are kept apart too ([`FigureHashes`]): every output
 //! file records them as its provenance.
 //!
+//! Files are hashed through [`crate::files`]: regular files only, a data file's size checked
+//! against the data stage's limit before any byte is read.
+//!
 //! Guarantees: the hash is a pure function of those inputs (no paths, times or spans enter it,
 //! so moving a block within its file or renaming the spec file changes nothing); fields are
 //! length-prefixed, so no two different inputs run together into the same byte stream.
 
 use std::collections::BTreeMap;
-use std::fs;
+use std::io::Read as _;
 use std::path::{Path, PathBuf};
 
 use crate::check::{FigureDefaults, FigurePlan, SpecUnit};
+use crate::data;
 use crate::diag::{SourceId, SourceMap};
+use crate::files;
 use crate::syntax::ast::{Block, Item};
 
 /// Where each buildable figure's block is: figure name → (unit index, block).
@@ -146,17 +151,28 @@ impl<'a> InputHasher<'a> {
         if let Some(known) = self.data.get(path) {
             return *known;
         }
-        let hash = hash_file(path);
+        // A file over the data stage's limit is not hashed: reading it reports the error.
+        let hash = hash_file_within(path, data::MAX_FILE_BYTES);
         self.data.insert(path.to_path_buf(), hash);
         hash
     }
 }
 
-/// The BLAKE3 hash of a file's bytes; `None` when it cannot be read.
+/// The BLAKE3 hash of a regular file's bytes; `None` when it cannot be read or is not a
+/// regular file (a pipe or a device is never read, so hashing cannot hang).
 pub fn hash_file(path: &Path) -> Option<blake3::Hash> {
-    let file = fs::File::open(path).ok()?;
+    hash_file_within(path, u64::MAX)
+}
+
+/// Like [`hash_file`], and `None` for a file larger than `limit` bytes, known from its size
+/// before any byte is read.
+pub fn hash_file_within(path: &Path, limit: u64) -> Option<blake3::Hash> {
+    let (file, metadata) = files::open_regular(path).ok()?;
+    if metadata.len() > limit {
+        return None;
+    }
     let mut h = blake3::Hasher::new();
-    h.update_reader(file).ok()?;
+    h.update_reader(file.take(limit.saturating_add(1))).ok()?;
     Some(h.finalize())
 }
 

@@ -71,9 +71,10 @@ pub enum Freshness {
 }
 
 impl Manifest {
-    /// Reads the manifest of `dir`; empty when there is none or it cannot be read.
+    /// Reads the manifest of `dir`; empty when there is none or it cannot be read (a
+    /// manifest is a regular file of at most 64 MiB).
     pub fn read(dir: &Path) -> Manifest {
-        fs::read(dir.join(FILE_NAME))
+        crate::files::read_regular(&dir.join(FILE_NAME), 64 << 20)
             .ok()
             .and_then(|bytes| serde_json::from_slice::<Manifest>(&bytes).ok())
             .filter(|m| m.format == FORMAT)

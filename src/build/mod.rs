@@ -35,8 +35,8 @@ use inputs::InputHasher;
 use manifest::{Freshness, Manifest};
 
 pub use render::{
-    output_kinds, output_names, render_figure, table_spec, FigureError, FigureOutputs, OutputKind,
-    Purpose,
+    output_kinds, output_names, render_figure, report_figure_panics_as_failures, table_spec,
+    FigureError, FigureOutputs, OutputKind, Purpose,
 };
 pub use write::{write_atomic, write_if_changed, TEMP_SUFFIX};
 
@@ -106,6 +106,9 @@ pub struct BuildOptions {
     pub jobs: Option<NonZeroUsize>,
     /// The version that enters every input hash (normally [`TOOL_VERSION`]).
     pub tool_version: String,
+    /// The top folder of a copy of a work tree (a revision `figura diff` builds): specs
+    /// inside read and write only inside it (see [`paths::Bounds::around`]).
+    pub work_tree: Option<PathBuf>,
 }
 
 impl Default for BuildOptions {
@@ -118,6 +121,7 @@ impl Default for BuildOptions {
             force: false,
             jobs: None,
             tool_version: TOOL_VERSION.to_string(),
+            work_tree: None,
         }
     }
 }
@@ -253,12 +257,13 @@ struct Made {
 pub fn build(options: &BuildOptions, progress: &dyn Progress) -> Result<BuildReport, BuildError> {
     let mut report = BuildReport::default();
     let specs = load::find_specs(&options.paths)?;
-    let loaded = load::load(&specs, &mut report.sources)?;
+    let loaded = load::load(&specs, options.work_tree.as_deref(), &mut report.sources)?;
     report.diagnostics.extend(loaded.diags.iter().cloned());
-    let (program, diags) = check::check_with(&loaded.units, &options.defaults);
+    let (mut program, diags) = check::check_with(&loaded.units, &options.defaults);
     report.diagnostics.extend(diags);
+    report.diagnostics.extend(loaded.contain_data(&mut program));
     let pool = thread_pool(options.jobs)?;
-    let (jobs, mut manifests) = plan_jobs(options, &loaded, &program, &report.sources, &pool)?;
+    let (jobs, mut manifests) = plan_jobs(options, &loaded, &program, &mut report, &pool)?;
     let outcomes: Vec<Outcome> = match options.mode {
         Mode::Status => jobs
             .iter()
@@ -293,14 +298,14 @@ fn plan_jobs<'p>(
     options: &BuildOptions,
     loaded: &load::Loaded,
     program: &'p Program,
-    sources: &SourceMap,
+    report: &mut BuildReport,
     pool: &rayon::ThreadPool,
 ) -> Result<(Vec<Job<'p>>, Manifests), BuildError> {
     let blocks = inputs::figure_blocks(&loaded.units);
     let mut hasher = InputHasher::new(
         &loaded.units,
         &loaded.unit_sources,
-        sources,
+        &report.sources,
         &options.tool_version,
         &options.defaults,
     );
@@ -313,6 +318,13 @@ fn plan_jobs<'p>(
             .plan(&blocks, plan, &book.path)
             .ok_or_else(|| BuildError::Internal(format!("figure `{}` has no block", plan.name)))?;
         let dir = output_dir(plan, options.out.as_deref());
+        // `--out` is the user's own choice; the folder beside a spec must stay in its project.
+        if options.out.is_none() {
+            if let Err(e) = write::check_output_dir(&dir, loaded.bounds_of_spec(&plan.spec_path)) {
+                report.failures.push(e);
+                continue;
+            }
+        }
         if compare && !manifests.contains_key(&dir) {
             manifests.insert(dir.clone(), Manifest::read(&dir));
         }
@@ -514,6 +526,7 @@ fn write_manifests(
         by_dir.entry(job.dir.as_path()).or_default().push(i);
     }
     for (dir, members) in by_dir {
+        write::remove_stale_temp_files(dir);
         let old = manifests.remove(dir).unwrap_or_else(|| Manifest::read(dir));
         let mut update = manifest::Update::new(dir, &old, &rebuilt, &tool);
         for i in members {

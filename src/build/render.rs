@@ -2,7 +2,12 @@
 //!
 //! Pure apart from the CPU: nothing here touches the file system, so figures can be made on
 //! any thread in any order and give the same bytes. A validating run stops after layout: it
-//! finds every data and computation error without drawing or encoding anything.
+//! finds every data and computation error without drawing or encoding anything. A panic while
+//! making one figure is that figure's failure, never the run's.
+
+use std::any::Any;
+use std::cell::{Cell, RefCell};
+use std::panic::{self, AssertUnwindSafe};
 
 use crate::check::{Codebook, FigurePlan, Scale};
 use crate::compute::{self, ComputeError};
@@ -84,14 +89,80 @@ pub enum Purpose {
 
 /// Computes and lays out one figure and, unless validating, renders its output files (in
 /// memory).
+///
+/// A panic while making the figure (a bug) is caught and returned as that figure's
+/// [`BuildError::Internal`] failure, naming the figure, so the other figures of the run are
+/// still made and recorded. See [`report_figure_panics_as_failures`] for the message.
 pub fn render_figure(
     plan: &FigurePlan,
     book: &Codebook,
     table: &Table,
     purpose: &Purpose,
 ) -> Result<FigureOutputs, FigureError> {
+    let caught = IN_FIGURE.with(|inside| {
+        let was = inside.replace(true);
+        let result = panic::catch_unwind(AssertUnwindSafe(|| {
+            make_outputs(plan, book, table, purpose)
+        }));
+        inside.set(was);
+        result
+    });
+    caught.unwrap_or_else(|payload| {
+        let what = LAST_PANIC
+            .with(|last| last.borrow_mut().take())
+            .unwrap_or_else(|| panic_text(payload.as_ref()).to_owned());
+        Err(FigureError::Build(BuildError::Internal(format!(
+            "figure `{}` could not be made: {what}",
+            plan.name
+        ))))
+    })
+}
+
+thread_local! {
+    /// Whether this thread is making a figure (its panics become the figure's failure).
+    static IN_FIGURE: Cell<bool> = const { Cell::new(false) };
+    /// The message and place of the last panic inside a figure on this thread.
+    static LAST_PANIC: RefCell<Option<String>> = const { RefCell::new(None) };
+}
+
+/// Makes panics inside [`render_figure`] silent on standard error, their message and place
+/// kept for the figure's failure instead; other panics are printed as before. For programs
+/// whose standard error must hold only their own output (the command line, whose JSON
+/// messages are one object per line). Call it once, before any figure is made.
+pub fn report_figure_panics_as_failures() {
+    let previous = panic::take_hook();
+    panic::set_hook(Box::new(move |info| {
+        if IN_FIGURE.with(Cell::get) {
+            let place = info
+                .location()
+                .map_or(String::new(), |l| format!(" ({}:{})", l.file(), l.line()));
+            let text = format!("{}{place}", panic_text(info.payload()));
+            LAST_PANIC.with(|last| *last.borrow_mut() = Some(text));
+        } else {
+            previous(info);
+        }
+    }));
+}
+
+/// The text a panic was given, when it was given one.
+fn panic_text(payload: &(dyn Any + Send)) -> &str {
+    payload
+        .downcast_ref::<&str>()
+        .copied()
+        .or_else(|| payload.downcast_ref::<String>().map(String::as_str))
+        .unwrap_or("a panic without a message")
+}
+
+fn make_outputs(
+    plan: &FigurePlan,
+    book: &Codebook,
+    table: &Table,
+    purpose: &Purpose,
+) -> Result<FigureOutputs, FigureError> {
     let numbers = compute::compute(plan, book, table).map_err(|e| match e {
-        ComputeError::Data(d) => FigureError::Data(d),
+        ComputeError::Data(d) => {
+            FigureError::Data(d.into_iter().map(|d| naming_data_file(d, table)).collect())
+        }
         ComputeError::Internal(m) => FigureError::Build(BuildError::Internal(m)),
     })?;
     let mut scene = layout::layout(plan, &numbers);
@@ -136,6 +207,18 @@ fn internal(e: ExportError) -> FigureError {
 /// A failure of drawing that a smaller size or dpi avoids (raster limits).
 fn limit(e: ExportError) -> FigureError {
     FigureError::Build(BuildError::Limit(e.to_string()))
+}
+
+/// A problem found in the data's values names the data file: when none of its labels points
+/// into the file (they point at the spec), the file is attached, so the row numbers of the
+/// message can be found.
+fn naming_data_file(d: Diagnostic, table: &Table) -> Diagnostic {
+    let in_table = d.labels.iter().any(|l| l.span.source == table.source());
+    if in_table || d.file.is_some() {
+        d
+    } else {
+        d.with_file(table.path())
+    }
 }
 
 /// The data stage's view of a codebook.

@@ -18,7 +18,7 @@ mod terms;
 use std::collections::BTreeMap;
 use std::path::{Path, PathBuf};
 
-use crate::diag::{Code, Diagnostic, Span};
+use crate::diag::{Code, Diagnostic, SourceId, Span};
 use crate::syntax::ast::{Item, SpecFile};
 
 pub use axes::AXIS_OPTIONS;
@@ -37,13 +37,19 @@ pub struct SpecUnit {
     pub build_figures: bool,
 }
 
+/// The most checker diagnostics shown per spec file; the rest are counted in one more
+/// diagnostic ([`Code::MoreErrors`]), so a file of thousands of broken statements gives a
+/// short report.
+pub const MAX_DIAGNOSTICS_PER_FILE: usize = 100;
+
 /// Checks every unit with the language's default formats and dpi; see [`check_with`].
 pub fn check(units: &[SpecUnit]) -> (Program, Vec<Diagnostic>) {
     check_with(units, &FigureDefaults::default())
 }
 
-/// Checks every unit; returns the program (figures that passed) and every diagnostic.
-/// Figures that give no `formats` or `dpi` take them from `defaults`.
+/// Checks every unit; returns the program (figures that passed) and the diagnostics, at most
+/// [`MAX_DIAGNOSTICS_PER_FILE`] per file in full. Figures that give no `formats` or `dpi` take
+/// them from `defaults`.
 pub fn check_with(units: &[SpecUnit], defaults: &FigureDefaults) -> (Program, Vec<Diagnostic>) {
     let mut diags = Vec::new();
     let mut program = Program::default();
@@ -96,7 +102,73 @@ pub fn check_with(units: &[SpecUnit], defaults: &FigureDefaults) -> (Program, Ve
             }
         }
     }
-    (program, diags)
+    (
+        program,
+        cap_per_file(diags, units, MAX_DIAGNOSTICS_PER_FILE),
+    )
+}
+
+/// Keeps the first `max` diagnostics of each file (by the file of their first label), in
+/// order, and sums up the rest of a file in one diagnostic after them.
+fn cap_per_file(diags: Vec<Diagnostic>, units: &[SpecUnit], max: usize) -> Vec<Diagnostic> {
+    let mut shown: BTreeMap<SourceId, usize> = BTreeMap::new();
+    let mut hidden: BTreeMap<SourceId, Vec<Diagnostic>> = BTreeMap::new();
+    let mut out = Vec::new();
+    for d in diags {
+        let Some(source) = d.span().map(|s| s.source) else {
+            out.push(d);
+            continue;
+        };
+        let n = shown.entry(source).or_default();
+        if *n < max {
+            *n += 1;
+            out.push(d);
+        } else {
+            hidden.entry(source).or_default().push(d);
+        }
+    }
+    let paths: BTreeMap<SourceId, &Path> = units
+        .iter()
+        .filter_map(|u| Some((first_span(&u.ast)?.source, u.path.as_path())))
+        .collect();
+    for (source, rest) in hidden {
+        let path = paths.get(&source).copied().unwrap_or(Path::new("spec"));
+        out.push(more_errors(path, &rest, max));
+    }
+    out
+}
+
+fn first_span(ast: &SpecFile) -> Option<Span> {
+    ast.items.first().map(|item| match item {
+        Item::Include(inc) => inc.span,
+        Item::Block(b) => b.span,
+    })
+}
+
+/// "a.figura: 812 more problems not shown (F0201: 800, F0202: 12)".
+fn more_errors(path: &Path, rest: &[Diagnostic], max: usize) -> Diagnostic {
+    let mut by_code: BTreeMap<Code, usize> = BTreeMap::new();
+    for d in rest {
+        *by_code.entry(d.code).or_default() += 1;
+    }
+    let counts = by_code
+        .iter()
+        .map(|(code, n)| format!("{code}: {n}"))
+        .collect::<Vec<_>>()
+        .join(", ");
+    let message = format!(
+        "{}: {} more problems not shown ({counts})",
+        path.display(),
+        rest.len()
+    );
+    let summary = if rest.iter().any(Diagnostic::is_error) {
+        Diagnostic::new(Code::MoreErrors, message)
+    } else {
+        Diagnostic::new(Code::MoreErrors, message)
+    };
+    summary.with_file(path).with_help(format!(
+        "only the first {max} problems of a spec file are shown; fix them and run again"
+    ))
 }
 
 /// Codebooks visible from a file: its own and those of the files it sees; names must be unique.

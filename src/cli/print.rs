@@ -38,10 +38,11 @@ fn plural(n: usize, one: &str, many: &str) -> String {
     format!("{n} {}", if n == 1 { one } else { many })
 }
 
-/// "2 errors, 1 warning".
+/// "2 errors, 1 warning"; failures that are not diagnostics (I/O, limits) count as errors.
 fn diagnostic_counts(report: &BuildReport) -> String {
-    let errors = report.diagnostics.iter().filter(|d| d.is_error()).count();
-    let warnings = report.diagnostics.len() - errors;
+    let diagnostic_errors = report.diagnostics.iter().filter(|d| d.is_error()).count();
+    let warnings = report.diagnostics.len() - diagnostic_errors;
+    let errors = diagnostic_errors + report.failures.len();
     format!(
         "{}, {}",
         plural(errors, "error", "errors"),

@@ -1,15 +1,19 @@
 //! Getting a data file's bytes and text: the only I/O of the data stage.
 //!
-//! Files are opened read-only and never written. A file larger than
-//! [`ReadLimits::max_file_bytes`] is refused from its size before any byte is read (and again
-//! while reading, should it grow or report no size). The text must be UTF-8 without NUL bytes;
-//! anything else is one error naming the line and byte offset of the first bad byte.
+//! Files are opened read-only and never written, through [`crate::files`]: only a regular
+//! file is read (a folder, a named pipe, a device such as `/dev/zero` is refused at once, never
+//! waited on), and a file larger than [`ReadLimits::max_file_bytes`] is refused from its size
+//! before any byte is read (and again while reading, should it grow). The text must be UTF-8
+//! without NUL bytes or other characters that text cannot hold
+//! ([`crate::syntax::is_text_char`]: they could not be written into an SVG); anything else is
+//! one error naming the line and byte offset of the first bad character.
 
-use std::fs::File;
-use std::io::{self, Read};
+use std::io;
 use std::path::Path;
 
 use crate::diag::{Code, Diagnostic};
+use crate::files::{self, FileKind, ReadError};
+use crate::syntax::is_text_char;
 
 use super::report::{file_label, quoted};
 use super::spec::TableSpec;
@@ -38,29 +42,33 @@ impl Default for ReadLimits {
     }
 }
 
-/// Reads the whole file, refusing it when it is missing, a folder, unreadable or too large.
+/// Reads the whole file, refusing it when it is missing, not a regular file (a folder, a
+/// pipe, a device), unreadable or too large — from its size, before any byte is read.
 pub(super) fn read_bytes(spec: &TableSpec, limits: &ReadLimits) -> Result<Vec<u8>, Diagnostic> {
-    let path = spec.path.as_path();
-    let file = File::open(path).map_err(|e| unreadable(spec, &e))?;
-    let metadata = file.metadata().map_err(|e| unreadable(spec, &e))?;
-    if metadata.is_dir() {
-        return Err(file_error(
+    files::read_regular(&spec.path, limits.max_file_bytes).map_err(|e| match e {
+        ReadError::NotFound => unreadable(spec, &io::ErrorKind::NotFound.into()),
+        ReadError::NotRegular(FileKind::Folder) => file_error(
             spec,
             Code::Unreadable,
-            format!("data file {} is a folder, not a file", quoted_path(path)),
+            format!(
+                "data file {} is a folder, not a file",
+                quoted_path(&spec.path)
+            ),
             "point the data block at a CSV or TSV file",
-        ));
-    }
-    if metadata.len() > limits.max_file_bytes {
-        return Err(too_large(spec, limits, Some(metadata.len())));
-    }
-    let capacity = usize::try_from(metadata.len()).unwrap_or(0);
-    let mut bytes = Vec::with_capacity(capacity);
-    file.take(limits.max_file_bytes.saturating_add(1))
-        .read_to_end(&mut bytes)
-        .map_err(|e| unreadable(spec, &e))?;
-    check_size(spec, limits, bytes.len())?;
-    Ok(bytes)
+        ),
+        ReadError::NotRegular(kind) => file_error(
+            spec,
+            Code::Unreadable,
+            format!(
+                "data file {} is {}, not a regular file",
+                quoted_path(&spec.path),
+                kind.describe()
+            ),
+            "point the data block at a CSV or TSV file; only regular files are read",
+        ),
+        ReadError::TooLarge { size, .. } => too_large(spec, limits, size),
+        ReadError::Io(e) => unreadable(spec, &e),
+    })
 }
 
 /// Refuses a byte buffer over the size limit.
@@ -92,6 +100,21 @@ pub(super) fn decode(spec: &TableSpec, bytes: Vec<u8>) -> Result<String, Diagnos
                 file_label(&spec.path)
             ),
             "it looks like UTF-16 text or a file that is not text; save it as CSV in UTF-8",
+        ));
+    }
+    if let Some((at, c)) = text.char_indices().find(|&(_, c)| !is_text_char(c)) {
+        let line = line_of(text.as_bytes(), at);
+        return Err(file_error(
+            spec,
+            Code::NotTextChar,
+            format!(
+                "data file {} holds the character U+{:04X} at line {line}, byte offset {at}, \
+                 which text cannot hold",
+                file_label(&spec.path),
+                c as u32
+            ),
+            "remove it: control characters cannot be drawn or written into an SVG file; \
+             a file that holds many was probably not saved as plain CSV",
         ));
     }
     Ok(text)

@@ -3,7 +3,8 @@
 //! Input is a resolved [`TableSpec`] (path, missing tokens, declared columns); output is a
 //! [`Table`] whose guarantees are listed on that type: exactly the declared columns,
 //! categorical cells within the declared levels, finite numbers, non-negative ratio values,
-//! no missing ids. Otherwise every data error of the file is returned (codes `D0001`–`D0016`,
+//! no missing ids. Otherwise every data error of the file is returned (codes `D0001`–`D0016`
+//! and `D0020`,
 //! documented in `grammar/README.md`, §13), the first [`MAX_DIAGNOSTICS`] in full and the
 //! rest summed up in one closing diagnostic.
 //!

@@ -108,7 +108,7 @@ impl Report {
             let noun = if n_hidden == 1 { "error" } else { "errors" };
             self.shown.push(
                 Diagnostic::new(
-                    Code::MoreErrors,
+                    Code::MoreDataErrors,
                     format!(
                         "{}: {n_hidden} more data {noun} not shown ({by_code})",
                         self.file

@@ -68,6 +68,7 @@ code_table! {
     OutsideBlock = "F0017", Error, "A statement at the top level, outside any block.";
     SpaceBeforeParen = "F0018", Error, "A space between an option's name and its `(`.";
     TooManySyntaxErrors = "F0019", Error, "Reading stopped after too many syntax errors.";
+    NotTextInString = "F0020", Error, "A string holds a character text cannot hold (a control character, U+FFFE, U+FFFF).";
 
     // Rules of the language: what a figure may show.
     UnknownVariable = "F0101", Error, "A variable name that is not declared.";
@@ -108,6 +109,9 @@ code_table! {
     IncludeMissing = "F0220", Error, "An included file that does not exist.";
     IncludeCycle = "F0221", Error, "Files that include each other in a cycle.";
     SpecNotUtf8 = "F0222", Error, "A spec file that is not UTF-8 text.";
+    MoreErrors = "F0223", Error, "More problems in a spec file than are shown.";
+    IncludeTooDeep = "F0224", Error, "Files that include each other more deeply than the limit.";
+    OutsideProject = "F0225", Error, "A data or include path that leads outside the project folder.";
 
     // Warnings.
     MeanAlone = "W0001", Warning, "A `mean` with no layer that shows the values or their spread.";
@@ -129,12 +133,14 @@ code_table! {
     NotFinite = "D0013", Error, "`nan`, `inf` or a number too large for a double.";
     NegativeRatio = "D0014", Error, "A negative value in a ratio column.";
     MissingId = "D0015", Error, "A missing value in an id column.";
-    MoreErrors = "D0016", Error, "More data errors in the file than are shown.";
+    MoreDataErrors = "D0016", Error, "More data errors in the file than are shown.";
+    NotTextChar = "D0020", Error, "The data file holds a character text cannot hold (a control character, U+FFFE, U+FFFF).";
 
     // Project files.
     NotToml = "P0001", Error, "`figura.toml` is not valid TOML.";
     UnknownKey = "P0002", Error, "A table or key that `figura.toml` does not have.";
     BadValue = "P0003", Error, "A value of the wrong type, or outside its limits, in `figura.toml`.";
+    SpecsOutsideProject = "P0004", Error, "A spec or output folder outside the project folder that `allow-outside` does not open.";
 }
 
 impl std::fmt::Display for Code {

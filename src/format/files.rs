@@ -4,7 +4,6 @@
 //! the same folder, then a rename); in [`Mode::Check`] nothing is written. A file that does
 //! not parse is left alone and its syntax errors are returned.
 
-use std::fs;
 use std::path::PathBuf;
 
 use crate::build::{load, write_atomic, BuildError};
@@ -36,17 +35,7 @@ pub struct FormatReport {
 pub fn format_paths(paths: &[PathBuf], mode: Mode) -> Result<FormatReport, BuildError> {
     let mut report = FormatReport::default();
     for path in load::find_specs(paths)? {
-        let size = fs::metadata(&path)
-            .map_err(|e| BuildError::io(&path, e))?
-            .len();
-        if size > load::MAX_SPEC_BYTES {
-            return Err(BuildError::Limit(format!(
-                "{}: a spec file may hold at most {} bytes",
-                path.display(),
-                load::MAX_SPEC_BYTES
-            )));
-        }
-        let text = fs::read_to_string(&path).map_err(|e| BuildError::io(&path, e))?;
+        let text = load::read_spec_text(&path)?;
         let id = report.sources.add(&path, text);
         match format_source(id, report.sources.text(id)) {
             Ok(formatted) if formatted == report.sources.text(id) => report.unchanged.push(path),

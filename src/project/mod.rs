@@ -4,6 +4,7 @@
 //! [project]
 //! specs = ["figures"]     # folders searched for *.figura (default ["."])
 //! out = "figures/out"     # every output here (default: out/ beside each spec)
+//! allow-outside = ["../shared-data"]  # folders outside the project specs may use
 //!
 //! [defaults]
 //! formats = ["svg", "png"]
@@ -13,10 +14,12 @@
 //! Guarantees: every problem of the file is reported at once, each with the span of the key or
 //! value at fault (an unknown key, a value of the wrong type, a format that does not exist, a
 //! dpi outside the supported limits); paths in a [`Project`] are usable from the folder the
-//! search started in (relative when that folder is inside the project).
+//! search started in (relative when that folder is inside the project); every `specs` and `out`
+//! folder lies, after symbolic links are followed, inside the project's folder or a folder of
+//! `allow-outside` (see [`crate::build::paths::Bounds`]).
 //!
 //! Codes: `P0001` the file is not TOML, `P0002` an unknown table or key, `P0003` a value of the
-//! wrong type or outside its limits.
+//! wrong type or outside its limits, `P0004` a `specs` or `out` folder outside the project.
 
 pub mod new;
 
@@ -26,9 +29,10 @@ use std::path::{Path, PathBuf};
 use toml::de::{DeTable, DeValue};
 use toml::Spanned;
 
-use crate::build::paths::relative_to;
+use crate::build::paths::{relative_to, resolved, Bounds, RootKind};
 use crate::check::{FigureDefaults, Formats, DPI_LIMITS};
 use crate::diag::{did_you_mean, Code, Diagnostic, SourceId, SourceMap, Span};
+use crate::files;
 
 /// The file that marks a project's root.
 pub const FILE_NAME: &str = "figura.toml";
@@ -43,7 +47,11 @@ pub struct Settings {
     pub specs: Vec<PathBuf>,
     /// The one output folder, when set.
     pub out: Option<PathBuf>,
+    /// Folders outside the project that specs may read from and write to.
+    pub allow_outside: Vec<PathBuf>,
     pub defaults: FigureDefaults,
+    /// Each path of `specs` and `out` as written, with its span, for messages about it.
+    pub written: Vec<WrittenPath>,
 }
 
 impl Default for Settings {
@@ -51,9 +59,19 @@ impl Default for Settings {
         Settings {
             specs: vec![PathBuf::from(".")],
             out: None,
+            allow_outside: Vec::new(),
             defaults: FigureDefaults::default(),
+            written: Vec::new(),
         }
     }
+}
+
+/// A path written in `figura.toml`: the key it belongs to, the path, its string's span.
+#[derive(Debug, Clone, PartialEq)]
+pub struct WrittenPath {
+    pub key: &'static str,
+    pub path: PathBuf,
+    pub span: Span,
 }
 
 /// A found project: its root and settings, with paths joined to the root.
@@ -67,6 +85,8 @@ pub struct Project {
     pub specs: Vec<PathBuf>,
     /// The output folder, joined to the root.
     pub out: Option<PathBuf>,
+    /// Folders outside the project that specs may read from and write to, joined to the root.
+    pub allow_outside: Vec<PathBuf>,
     pub defaults: FigureDefaults,
 }
 
@@ -132,17 +152,63 @@ pub fn open(root: &Path) -> Result<Project, ProjectError> {
     let text = read_text(&file)?;
     let mut sources = SourceMap::new();
     let id = sources.add(&file, text);
-    let settings = parse(id, sources.text(id)).map_err(|diagnostics| ProjectError::Invalid {
+    let invalid = |diagnostics| ProjectError::Invalid {
         sources: sources.clone(),
         diagnostics,
-    })?;
+    };
+    let settings = parse(id, sources.text(id)).map_err(invalid)?;
+    let allow_outside: Vec<PathBuf> = settings
+        .allow_outside
+        .iter()
+        .map(|p| join(root, p))
+        .collect();
+    let outside = outside_paths(root, &settings.written, &allow_outside);
+    if !outside.is_empty() {
+        return Err(invalid(outside));
+    }
     Ok(Project {
         root: root.to_path_buf(),
         specs: settings.specs.iter().map(|p| join(root, p)).collect(),
         out: settings.out.as_deref().map(|p| join(root, p)),
+        allow_outside,
         defaults: settings.defaults,
         file,
     })
+}
+
+/// `P0004` for each spec or output path that leads outside the project folder `root` (after
+/// following symbolic links) into no folder of `allow_outside`.
+fn outside_paths(
+    root: &Path,
+    written: &[WrittenPath],
+    allow_outside: &[PathBuf],
+) -> Vec<Diagnostic> {
+    let bounds = Bounds {
+        root: fs::canonicalize(root).unwrap_or_else(|_| root.to_path_buf()),
+        kind: RootKind::ProjectFile,
+        allowed: allow_outside.iter().filter_map(|p| resolved(p)).collect(),
+    };
+    written
+        .iter()
+        .filter(|w| !bounds.admits(&join(root, &w.path)))
+        .map(|w| {
+            Diagnostic::new(
+                Code::SpecsOutsideProject,
+                format!(
+                    "`{}` leads outside the project folder: \"{}\"",
+                    w.key,
+                    w.path.display()
+                ),
+            )
+            .with_label(w.span, "outside the project")
+            .with_help(format!(
+                "specs and outputs stay inside {}; to use a folder elsewhere, open it under \
+                 [project]: allow-outside = [\"{}\"]",
+                bounds.describe(),
+                w.path.display()
+            ))
+        })
+        .collect()
 }
 
 /// `root/path`, without a leading `./` when the root is the current folder.
@@ -159,14 +225,7 @@ fn read_text(path: &Path) -> Result<String, ProjectError> {
         path: path.to_path_buf(),
         message,
     };
-    let meta = fs::metadata(path).map_err(|e| io(e.to_string()))?;
-    if meta.len() > MAX_FILE_BYTES {
-        return Err(io(format!(
-            "{} bytes; a project file is limited to {MAX_FILE_BYTES} bytes",
-            meta.len()
-        )));
-    }
-    let bytes = fs::read(path).map_err(|e| io(e.to_string()))?;
+    let bytes = files::read_regular(path, MAX_FILE_BYTES).map_err(|e| io(e.to_string()))?;
     String::from_utf8(bytes).map_err(|_| io("not UTF-8 text".to_string()))
 }
 
@@ -247,16 +306,28 @@ impl Reader {
         for (key, value) in sorted(table) {
             match key.get_ref().as_ref() {
                 "specs" => {
-                    if let Some(list) = self.strings(value, "`specs` is a list of folders") {
-                        settings.specs = list.into_iter().map(PathBuf::from).collect();
+                    if let Some(list) = self.paths(value, "specs", "`specs` is a list of folders") {
+                        settings.specs = list.iter().map(|w| w.path.clone()).collect();
+                        settings.written.extend(list);
                     }
                 }
                 "out" => {
                     if let Some(s) = self.string(value, "`out` is a folder") {
-                        settings.out = Some(PathBuf::from(s));
+                        settings.out = Some(PathBuf::from(&s));
+                        settings.written.push(WrittenPath {
+                            key: "out",
+                            path: PathBuf::from(s),
+                            span: self.span(value),
+                        });
                     }
                 }
-                _ => self.unknown(key, "project.", &["specs", "out"]),
+                "allow-outside" => {
+                    let expected = "`allow-outside` is a list of folders";
+                    if let Some(list) = self.paths(value, "allow-outside", expected) {
+                        settings.allow_outside = list.into_iter().map(|w| w.path).collect();
+                    }
+                }
+                _ => self.unknown(key, "project.", &["specs", "out", "allow-outside"]),
             }
         }
     }
@@ -335,11 +406,21 @@ impl Reader {
         }
     }
 
-    fn strings(&mut self, value: &Spanned<DeValue<'_>>, expected: &str) -> Option<Vec<String>> {
+    /// A list of paths, each with its span.
+    fn paths(
+        &mut self,
+        value: &Spanned<DeValue<'_>>,
+        key: &'static str,
+        expected: &str,
+    ) -> Option<Vec<WrittenPath>> {
         let items = self.array(value, &format!("{expected} (a list of strings)"))?;
-        let out: Vec<Option<String>> = items
+        let out: Vec<Option<WrittenPath>> = items
             .iter()
-            .map(|item| self.string(item, expected))
+            .map(|item| {
+                let path = PathBuf::from(self.string(item, expected)?);
+                let span = self.span(item);
+                Some(WrittenPath { key, path, span })
+            })
             .collect();
         out.into_iter().collect()
     }

@@ -263,6 +263,7 @@ fn build_side(side: &Side, which: &str, out: &Path) -> Result<Built, ReviewError
             .map_or_else(|| vec![side.root.clone()], |p| p.specs.clone()),
         out: Some(out.to_path_buf()),
         defaults: project.map(|p| p.defaults).unwrap_or_default(),
+        work_tree: side.top.clone(),
         ..BuildOptions::default()
     };
     let report = build::build(&options, &build::NoProgress)?;

@@ -43,6 +43,8 @@ pub struct Side {
     pub label: String,
     /// The folder whose specs are built.
     pub root: PathBuf,
+    /// The top folder of a revision's copy: what it builds reads and writes only inside.
+    pub top: Option<PathBuf>,
     /// Holds a revision's files for as long as the side lives.
     _files: Option<TempDir>,
 }
@@ -53,11 +55,13 @@ pub fn prepare(spec: &SideSpec, cwd: &Path, scratch: &Path) -> Result<Side, Revi
         SideSpec::WorkTree => Ok(Side {
             label: "working tree".to_owned(),
             root: cwd.to_path_buf(),
+            top: None,
             _files: None,
         }),
         SideSpec::Folder(dir) => Ok(Side {
             label: dir.display().to_string(),
             root: dir.clone(),
+            top: None,
             _files: None,
         }),
         SideSpec::Revision(rev) => {
@@ -76,6 +80,7 @@ pub fn prepare(spec: &SideSpec, cwd: &Path, scratch: &Path) -> Result<Side, Revi
             Ok(Side {
                 label: format!("{rev} ({short})"),
                 root: files.path().join(prefix),
+                top: Some(files.path().to_path_buf()),
                 _files: Some(files),
             })
         }

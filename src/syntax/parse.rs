@@ -459,6 +459,11 @@ impl Converter {
         let mut value = String::with_capacity(body.len());
         let mut chars = body.char_indices();
         while let Some((i, c)) = chars.next() {
+            if !super::is_text_char(c) {
+                let at = Span::new(self.source, body_start + i, body_start + i + c.len_utf8());
+                self.error(not_text(at, c));
+                continue;
+            }
             if c != '\\' {
                 value.push(c);
                 continue;
@@ -753,6 +758,22 @@ fn unknown_escape(span: Span, c: char) -> Diagnostic {
             "strings allow only `\\\"`, `\\\\` and `\\n`; write a backslash as `\\\\` \
              (in file paths, `/` works on every system)",
         )
+}
+
+/// F0020: a character no text may hold (it could not be written into an SVG).
+fn not_text(span: Span, c: char) -> Diagnostic {
+    Diagnostic::new(
+        Code::NotTextInString,
+        format!(
+            "a string holds the character U+{:04X}, which text cannot hold",
+            c as u32
+        ),
+    )
+    .with_label(span, "not a character of text")
+    .with_help(
+        "remove it (it is invisible, and titles, labels and levels are written into SVG files, \
+         which cannot hold it); write a line break as `\\n`",
+    )
 }
 
 fn unknown_unit(span: Span, number: &str, unit: &str) -> Diagnostic {

@@ -65,7 +65,7 @@ pub fn build_examples(out: &Path) -> figura::build::BuildReport {
 pub fn example_program() -> (figura::check::Program, figura::diag::SourceMap) {
     let specs = figura::build::load::find_specs(&[examples()]).expect("the examples are found");
     let mut sources = figura::diag::SourceMap::new();
-    let loaded = figura::build::load::load(&specs, &mut sources).expect("the examples load");
+    let loaded = figura::build::load::load(&specs, None, &mut sources).expect("the examples load");
     assert!(loaded.diags.is_empty(), "the examples do not parse");
     let (program, diags) = figura::check::check(&loaded.units);
     assert!(diags.is_empty(), "the examples do not check cleanly");
@@ -154,4 +154,46 @@ pub fn draw_svg_file(svg_text: &str, dpi: f64, width: u32, height: u32) -> Vec<u
             [c.red(), c.green(), c.blue()]
         })
         .collect()
+}
+
+/// Runs `git` in `dir` with a fixed identity and settings; panics when it fails. Returns its
+/// standard output.
+pub fn git(dir: &Path, args: &[&str]) -> String {
+    let out = std::process::Command::new("git")
+        .args([
+            "-c",
+            "user.name=Figura Test",
+            "-c",
+            "user.email=test@example.org",
+        ])
+        .args([
+            "-c",
+            "commit.gpgsign=false",
+            "-c",
+            "init.defaultBranch=main",
+        ])
+        .args(args)
+        .current_dir(dir)
+        .output()
+        .expect("git runs");
+    assert!(
+        out.status.success(),
+        "git {args:?}: {}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    String::from_utf8_lossy(&out.stdout).into_owned()
+}
+
+/// A `Debug` text with every `Span { ... }` replaced by `Span`.
+pub fn without_spans(debug: &str) -> String {
+    let mut out = String::with_capacity(debug.len());
+    let mut rest = debug;
+    while let Some(at) = rest.find("Span { source: ") {
+        out.push_str(&rest[..at]);
+        out.push_str("Span");
+        let end = rest[at..].find('}').map_or(rest.len(), |e| at + e + 1);
+        rest = &rest[end..];
+    }
+    out.push_str(rest);
+    out
 }
