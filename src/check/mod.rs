@@ -161,11 +161,11 @@ fn more_errors(path: &Path, rest: &[Diagnostic], max: usize) -> Diagnostic {
         path.display(),
         rest.len()
     );
-    let summary = if rest.iter().any(Diagnostic::is_error) {
-        Diagnostic::new(Code::MoreErrors, message)
-    } else {
-        Diagnostic::new(Code::MoreErrors, message)
-    };
+    let mut summary = Diagnostic::new(Code::MoreErrors, message);
+    if !rest.iter().any(Diagnostic::is_error) {
+        // Only warnings are hidden: the summary of them does not fail the run.
+        summary.severity = crate::diag::Severity::Warning;
+    }
     summary.with_file(path).with_help(format!(
         "only the first {max} problems of a spec file are shown; fix them and run again"
     ))

@@ -109,7 +109,7 @@ code_table! {
     IncludeMissing = "F0220", Error, "An included file that does not exist.";
     IncludeCycle = "F0221", Error, "Files that include each other in a cycle.";
     SpecNotUtf8 = "F0222", Error, "A spec file that is not UTF-8 text.";
-    MoreErrors = "F0223", Error, "More problems in a spec file than are shown.";
+    MoreErrors = "F0223", Error, "More problems in a spec file than are shown (a warning when every hidden one is).";
     IncludeTooDeep = "F0224", Error, "Files that include each other more deeply than the limit.";
     OutsideProject = "F0225", Error, "A data or include path that leads outside the project folder.";
 
