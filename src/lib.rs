@@ -20,6 +20,7 @@ pub mod export;
 pub mod font;
 pub mod format;
 pub mod layout;
+pub mod numbers;
 pub mod palette;
 pub mod project;
 pub mod report;

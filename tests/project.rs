@@ -772,3 +772,105 @@ fn watch_rebuilds_the_figures_of_a_changed_data_file() {
         "{third:?}"
     );
 }
+
+/// A process that reads every output file again and again (as a viewer refreshing its
+/// picture would), until it is killed.
+fn keep_reading(dir: &Path) -> std::process::Child {
+    Command::new("sh")
+        .arg("-c")
+        .arg("while :; do for f in out/*; do cat \"$f\" >/dev/null 2>&1; done; sleep 0.05; done")
+        .current_dir(dir)
+        .stdout(Stdio::null())
+        .stderr(Stdio::null())
+        .spawn()
+        .unwrap()
+}
+
+/// The closing line of the next round, after its `changed:` line.
+fn next_round(rx: &mpsc::Receiver<String>) -> (String, String) {
+    let lines = wait_for(rx, " up to date, ");
+    let changed = lines
+        .iter()
+        .rev()
+        .find(|l| l.starts_with("changed: "))
+        .cloned()
+        .unwrap_or_else(|| panic!("no changed line: {lines:?}"));
+    let closing = lines
+        .last()
+        .unwrap()
+        .split(" in ")
+        .next()
+        .unwrap()
+        .to_string();
+    (changed, closing)
+}
+
+#[test]
+fn watch_rebuilds_on_every_save_of_a_spec_in_any_style_while_outputs_are_read() {
+    let p = Project::standard();
+    let mut child = Command::new(env!("CARGO_BIN_EXE_figura"))
+        .arg("watch")
+        .current_dir(p.path("figures"))
+        .stdout(Stdio::null())
+        .stderr(Stdio::piped())
+        .spawn()
+        .unwrap();
+    let rx = line_reader(&mut child);
+    wait_for(&rx, "watching for changes");
+    let mut reader = keep_reading(&p.path("figures"));
+    let spec = p.path("figures/a.figura");
+    let size = |n: u32| {
+        format!("figure a1 {{\n  from sleep_a\n  x drug\n  y extra\n  points\n  box\n  size {n}mm x 45mm\n}}\n")
+    };
+    let original = p.read("figures/a.figura");
+    assert!(original.contains(&size(60)));
+    let mut rounds = Vec::new();
+
+    // 1. Written in place.
+    fs::write(&spec, original.replace(&size(60), &size(61))).unwrap();
+    rounds.push(next_round(&rx));
+    // 2. `sed -i`: a new file renamed over the old one by sed itself.
+    let sed = Command::new("sed")
+        .args(["-i", "s/size 61mm/size 62mm/", spec.to_str().unwrap()])
+        .status()
+        .unwrap();
+    assert!(sed.success());
+    rounds.push(next_round(&rx));
+    // 3. An editor's atomic save: a hidden temporary file, then a rename.
+    let tmp = p.path("figures/.a.figura.swp");
+    fs::write(
+        &tmp,
+        p.read("figures/a.figura").replace(&size(62), &size(63)),
+    )
+    .unwrap();
+    fs::rename(&tmp, &spec).unwrap();
+    rounds.push(next_round(&rx));
+    // 4. A new spec file.
+    p.write(
+        "figures/c.figura",
+        &format!("include \"a.figura\"\n\n{}", figure("c1", "sleep_a")),
+    );
+    rounds.push(next_round(&rx));
+    // 5. The new spec file deleted again: its figure's outputs are pruned.
+    fs::remove_file(p.path("figures/c.figura")).unwrap();
+    rounds.push(next_round(&rx));
+
+    reader.kill().unwrap();
+    reader.wait().unwrap();
+    child.kill().unwrap();
+    child.wait().unwrap();
+    let expected = [
+        ("a.figura", "1 built, 2 up to date, 0 failed"),
+        ("a.figura", "1 built, 2 up to date, 0 failed"),
+        ("a.figura", "1 built, 2 up to date, 0 failed"),
+        ("c.figura", "1 built, 3 up to date, 0 failed"),
+        ("c.figura", "0 built, 3 up to date, 0 failed"),
+    ];
+    for ((changed, closing), (file, counts)) in rounds.iter().zip(expected) {
+        assert!(changed.contains(file), "{rounds:?}");
+        assert_eq!(closing, counts, "{rounds:?}");
+    }
+    assert!(p.read("figures/out/a1.svg").contains("63mm"));
+    assert!(!p.path("figures/out/c1.svg").exists());
+    p.run("figures", &["build", "--check"]).expect_code(0);
+}

@@ -16,6 +16,8 @@ use super::BuildError;
 pub struct FigureOutputs {
     /// (file name, bytes), in the order of [`output_kinds`].
     pub files: Vec<(String, Vec<u8>)>,
+    /// The summary rows, for the manuscript numbers.
+    pub summary: Vec<compute::SummaryRow>,
 }
 
 /// Why one figure could not be made.
@@ -36,6 +38,13 @@ pub enum OutputKind {
 }
 
 impl OutputKind {
+    pub const ALL: [OutputKind; 4] = [
+        OutputKind::Svg,
+        OutputKind::Png,
+        OutputKind::Pdf,
+        OutputKind::Summary,
+    ];
+
     /// The file name of this output of figure `figure`.
     pub fn file_name(self, figure: &str) -> String {
         let ext = match self {
@@ -97,7 +106,10 @@ pub fn render_figure(
         };
         files.push((kind.file_name(&plan.name), bytes));
     }
-    Ok(FigureOutputs { files })
+    Ok(FigureOutputs {
+        files,
+        summary: numbers.summary,
+    })
 }
 
 /// The data stage's view of a codebook.

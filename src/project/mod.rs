@@ -4,6 +4,7 @@
 //! [project]
 //! specs = ["figures"]     # folders searched for *.figura (default ["."])
 //! out = "figures/out"     # every output here (default: out/ beside each spec)
+//! numbers = ["tex", "typ", "json"]  # manuscript numbers files (default: none)
 //!
 //! [defaults]
 //! formats = ["svg", "png"]
@@ -29,6 +30,7 @@ use toml::Spanned;
 use crate::build::paths::relative_to;
 use crate::check::{FigureDefaults, Formats, DPI_LIMITS};
 use crate::diag::{did_you_mean, Diagnostic, SourceId, SourceMap, Span};
+use crate::numbers::NumbersFormat;
 
 /// The file that marks a project's root.
 pub const FILE_NAME: &str = "figura.toml";
@@ -53,6 +55,8 @@ pub struct Settings {
     pub specs: Vec<PathBuf>,
     /// The one output folder, when set.
     pub out: Option<PathBuf>,
+    /// Manuscript numbers files to write in each output folder.
+    pub numbers: Vec<NumbersFormat>,
     pub defaults: FigureDefaults,
 }
 
@@ -61,6 +65,7 @@ impl Default for Settings {
         Settings {
             specs: vec![PathBuf::from(".")],
             out: None,
+            numbers: Vec::new(),
             defaults: FigureDefaults::default(),
         }
     }
@@ -77,6 +82,8 @@ pub struct Project {
     pub specs: Vec<PathBuf>,
     /// The output folder, joined to the root.
     pub out: Option<PathBuf>,
+    /// Manuscript numbers files to write in each output folder.
+    pub numbers: Vec<NumbersFormat>,
     pub defaults: FigureDefaults,
 }
 
@@ -150,6 +157,7 @@ pub fn open(root: &Path) -> Result<Project, ProjectError> {
         root: root.to_path_buf(),
         specs: settings.specs.iter().map(|p| join(root, p)).collect(),
         out: settings.out.as_deref().map(|p| join(root, p)),
+        numbers: settings.numbers,
         defaults: settings.defaults,
         file,
     })
@@ -266,7 +274,12 @@ impl Reader {
                         settings.out = Some(PathBuf::from(s));
                     }
                 }
-                _ => self.unknown(key, "project.", &["specs", "out"]),
+                "numbers" => {
+                    if let Some(n) = self.numbers(value) {
+                        settings.numbers = n;
+                    }
+                }
+                _ => self.unknown(key, "project.", &["specs", "out", "numbers"]),
             }
         }
     }
@@ -392,6 +405,41 @@ impl Reader {
                     .with_help("write, for example, formats = [\"svg\", \"png\"]"),
             );
             return None;
+        }
+        ok.then_some(formats)
+    }
+
+    /// `numbers = ["tex", "typ", "json"]`: the formats in the order written, each once.
+    fn numbers(&mut self, value: &Spanned<DeValue<'_>>) -> Option<Vec<NumbersFormat>> {
+        let expected = "`numbers` is a list such as [\"tex\", \"typ\", \"json\"]";
+        let items = self.array(value, expected)?;
+        let mut formats = Vec::new();
+        let mut ok = true;
+        for item in items {
+            let Some(word) = self.string(item, expected) else {
+                ok = false;
+                continue;
+            };
+            match NumbersFormat::from_word(&word) {
+                Some(f) if !formats.contains(&f) => formats.push(f),
+                Some(_) => {}
+                None => {
+                    ok = false;
+                    let known = NumbersFormat::ALL.map(NumbersFormat::word);
+                    let help = match did_you_mean(&word, known.iter().copied()) {
+                        Some(s) => format!("did you mean \"{s}\"? the formats are \"tex\" (LaTeX), \"typ\" (Typst) and \"json\""),
+                        None => "the formats are \"tex\" (LaTeX), \"typ\" (Typst) and \"json\"".to_string(),
+                    };
+                    self.diags.push(
+                        Diagnostic::error(
+                            codes::BAD_VALUE,
+                            format!("\"{word}\" is not a numbers format"),
+                        )
+                        .with_label(self.span(item), "unknown format")
+                        .with_help(help),
+                    );
+                }
+            }
         }
         ok.then_some(formats)
     }
