@@ -441,10 +441,14 @@ struct DiffArgs {
     base: String,
     /// The new side: a git revision or a folder (default: the working tree).
     head: Option<String>,
-    /// Folder to write report.md, index.html and NAME.diff.png into (picture diffs of an
-    /// earlier report there are replaced).
+    /// Folder to write report.md, index.html and the pictures of each changed figure into
+    /// (pictures of an earlier report there are replaced).
     #[arg(long)]
     report: PathBuf,
+    /// The address where CI publishes the report folder: report.md then links its
+    /// pictures there (instead of embedding small previews).
+    #[arg(long, value_name = "URL")]
+    image_url: Option<String>,
 }
 
 /// `figura diff`: 0 when no figure changed, 1 when any was added, removed or changed, 2 on
@@ -455,6 +459,7 @@ fn run_diff(args: &DiffArgs) -> i32 {
         base: args.base.clone(),
         head: args.head.clone(),
         report_dir: args.report.clone(),
+        image_url: args.image_url.clone(),
     };
     match review::diff(&options) {
         Ok(outcome) => {

@@ -304,7 +304,7 @@ fn cell_quotes(values: &CellValues, unit: Option<&str>) -> Vec<(String, Quote)> 
 }
 
 /// The statistics with one row per value (the rest have one row per cell).
-const LIST_STATS: [&str; 1] = ["outliers"];
+pub const LIST_STATS: [&str; 1] = ["outliers"];
 
 /// The exact value of a statistic's rows in one cell: one number, a level name, or for a
 /// list statistic every value; `None` when a statistic of one value has several (a layer
