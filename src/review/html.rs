@@ -35,6 +35,7 @@ pub const MAX_DIFF_LINES: usize = 400;
 const CONTEXT: usize = 3;
 
 const STYLE: &str = "
+* { box-sizing: border-box; }
 body { font-family: sans-serif; margin: 2em auto; max-width: 1400px; padding: 0 1em; color: #222; }
 h1 { font-size: 1.6em; } h2 { font-size: 1.3em; margin-top: 2em; } h3 { font-size: 1.05em; }
 table { border-collapse: collapse; margin: 0.8em 0; }
@@ -57,7 +58,7 @@ img.single { max-width: min(100%, 900px); }
 .compare input.show-changed:checked ~ .stack img { display: none; }
 .compare input.show-changed:checked ~ .stack .marks { display: block; }
 .compare input.show-slide:checked ~ .stack .after { display: block; }
-.compare input.show-slide:checked ~ .slider { display: block; width: 100%; margin-top: 0.4em; }
+.compare input.show-slide:checked ~ .slider { display: block; width: 100%; margin: 0.4em 0 0 0; }
 pre.diff { background: #f7f7f7; padding: 0.6em; overflow-x: auto; font-size: 0.85em; }
 pre.diff .del { background: #fde2e1; display: block; }
 pre.diff .ins { background: #dcf5e3; display: block; }
