@@ -193,6 +193,13 @@ impl Run {
         self
     }
 
+    /// Expects `needle` in what the command printed (standard output or error).
+    fn expect_printed(&self, needle: &str) -> &Run {
+        let found = self.stdout.contains(needle) || self.stderr.contains(needle);
+        assert!(found, "{needle:?} not in\n{}", self.show());
+        self
+    }
+
     /// The closing line of a build, without its time: "2 built, 1 up to date, 0 failed".
     fn counts(&self) -> String {
         let line = self
@@ -730,9 +737,8 @@ fn wait_for(rx: &mpsc::Receiver<String>, needle: &str) -> Vec<String> {
     }
 }
 
-#[test]
-fn watch_rebuilds_the_figures_of_a_changed_data_file() {
-    let p = Project::standard();
+/// `figura watch` started in the project's `figures/`, and its lines of standard error.
+fn watch(p: &Project) -> (std::process::Child, mpsc::Receiver<String>) {
     let mut child = Command::new(env!("CARGO_BIN_EXE_figura"))
         .arg("watch")
         .current_dir(p.path("figures"))
@@ -741,6 +747,13 @@ fn watch_rebuilds_the_figures_of_a_changed_data_file() {
         .spawn()
         .unwrap();
     let rx = line_reader(&mut child);
+    (child, rx)
+}
+
+#[test]
+fn watch_rebuilds_the_figures_of_a_changed_data_file() {
+    let p = Project::standard();
+    let (mut child, rx) = watch(&p);
     let first = wait_for(&rx, "watching for changes");
     assert!(
         first.iter().any(|l| l.starts_with("3 built, 0 up to date")),
@@ -808,14 +821,7 @@ fn next_round(rx: &mpsc::Receiver<String>) -> (String, String) {
 #[test]
 fn watch_rebuilds_on_every_save_of_a_spec_in_any_style_while_outputs_are_read() {
     let p = Project::standard();
-    let mut child = Command::new(env!("CARGO_BIN_EXE_figura"))
-        .arg("watch")
-        .current_dir(p.path("figures"))
-        .stdout(Stdio::null())
-        .stderr(Stdio::piped())
-        .spawn()
-        .unwrap();
-    let rx = line_reader(&mut child);
+    let (mut child, rx) = watch(&p);
     wait_for(&rx, "watching for changes");
     let mut reader = keep_reading(&p.path("figures"));
     let spec = p.path("figures/a.figura");
@@ -898,21 +904,9 @@ fn a_removed_figure_is_orphaned_until_a_build_removes_its_files_and_only_those()
 
     let check = p.run("figures", &["build", "--check"]);
     check.expect_code(1);
-    assert!(
-        check
-            .stderr
-            .contains("orphaned a2 (out/a2.summary.csv, a2.svg)"),
-        "{}",
-        check.show()
-    );
+    check.expect_printed("orphaned a2 (out/a2.summary.csv, a2.svg)");
     assert!(check.stderr.contains("orphaned b1 ("), "{}", check.show());
-    assert!(
-        check
-            .stderr
-            .contains("1 up to date, 0 stale, 0 missing, 0 failing, 2 orphaned"),
-        "{}",
-        check.show()
-    );
+    check.expect_printed("1 up to date, 0 stale, 0 missing, 0 failing, 2 orphaned");
     assert!(
         p.path("figures/out/a2.svg").is_file(),
         "--check removes nothing"
@@ -1017,33 +1011,17 @@ fn clean_removes_every_output_and_nothing_else() {
     p.write("figures/out/notes.txt", "mine");
     let clean = p.run("figures", &["clean"]);
     clean.expect_code(0);
-    assert!(
-        clean.stdout.contains("removed out/a1.svg"),
-        "{}",
-        clean.show()
-    );
-    assert!(
-        clean.stdout.contains("removed out/numbers.tex"),
-        "{}",
-        clean.show()
-    );
+    clean.expect_printed("removed out/a1.svg");
+    clean.expect_printed("removed out/numbers.tex");
     // Six outputs of three figures, the numbers file and the manifest.
-    assert!(
-        clean.stderr.contains("8 files removed\n"),
-        "{}",
-        clean.show()
-    );
+    clean.expect_printed("8 files removed\n");
     let left: Vec<String> = p.contents("figures/out").into_keys().collect();
     assert_eq!(left, ["notes.txt"]);
     // With nothing else left, the folder goes too.
     fs::remove_file(p.path("figures/out/notes.txt")).unwrap();
     p.run(".", &["build"]).expect_code(0);
     let clean = p.run(".", &["clean"]);
-    assert!(
-        clean.stderr.contains("and the empty output folder"),
-        "{}",
-        clean.show()
-    );
+    clean.expect_printed("and the empty output folder");
     assert!(!p.path("figures/out").exists());
     assert!(p.path("data/a.csv").is_file() && p.path("figures/a.figura").is_file());
 }
@@ -1148,13 +1126,7 @@ fn numbers_files_are_outputs_incremental_and_checked() {
     p.write("data/a.csv", &sleep_table_edited("2.7"));
     let check = p.run(".", &["build", "--check"]);
     check.expect_code(1);
-    assert!(
-        check
-            .stderr
-            .contains("stale    numbers (figures/out/numbers.tex, numbers.typ, numbers.json)"),
-        "{}",
-        check.show()
-    );
+    check.expect_printed("stale    numbers (figures/out/numbers.tex, numbers.typ, numbers.json)");
     p.run(".", &["build"]).expect_code(0);
     let json = p.read("figures/out/numbers.json");
     assert!(json.contains("\"sleep_means\""), "{json}");
@@ -1167,11 +1139,7 @@ fn numbers_files_are_outputs_incremental_and_checked() {
     );
     let check = p.run(".", &["build", "--check"]);
     check.expect_code(1);
-    assert!(
-        check.stderr.contains("stale    numbers"),
-        "{}",
-        check.show()
-    );
+    check.expect_printed("stale    numbers");
     p.run(".", &["build"]).expect_code(0);
     assert!(p.read("figures/out/numbers.tex").contains("{2.3~h}"));
     // Turning the numbers off removes their files.
@@ -1190,13 +1158,9 @@ fn an_unknown_numbers_format_is_an_error_at_its_value() {
     p.write("figura.toml", "[project]\nnumbers = [\"tex\", \"docx\"]\n");
     let run = p.run(".", &["build"]);
     run.expect_code(1);
-    assert!(run.stderr.contains("P0003"), "{}", run.show());
-    assert!(
-        run.stderr.contains("\"docx\" is not a numbers format"),
-        "{}",
-        run.show()
-    );
-    assert!(run.stderr.contains("figura.toml:2:"), "{}", run.show());
+    run.expect_printed("P0003");
+    run.expect_printed("\"docx\" is not a numbers format");
+    run.expect_printed("figura.toml:2:");
 }
 
 /// Copies the example specs, data, project file and manuscripts (not their outputs) into a

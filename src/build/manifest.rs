@@ -126,15 +126,22 @@ impl Manifest {
         if entry.inputs != inputs || recorded != wanted {
             return Freshness::Stale;
         }
-        for (file, hash) in &entry.outputs {
-            match hash_file(&dir.join(file)) {
-                None => return Freshness::Missing,
-                Some(h) if h.to_hex().as_str() != hash => return Freshness::Stale,
-                Some(_) => {}
-            }
-        }
-        Freshness::UpToDate
+        outputs_freshness(dir, &entry.outputs)
     }
+}
+
+/// Whether every recorded output of folder `dir` (file name → hash) is present with its
+/// recorded bytes: up to date, missing (a file is gone) or stale (a file changed). Every
+/// file is read and hashed.
+pub fn outputs_freshness(dir: &Path, outputs: &BTreeMap<String, String>) -> Freshness {
+    for (file, hash) in outputs {
+        match hash_file(&dir.join(file)) {
+            None => return Freshness::Missing,
+            Some(h) if h.to_hex().as_str() != hash => return Freshness::Stale,
+            Some(_) => {}
+        }
+    }
+    Freshness::UpToDate
 }
 
 /// Which figures a run speaks for, to tell orphaned manifest entries from entries of other

@@ -13,8 +13,7 @@ use std::path::Path;
 
 use crate::numbers::{self, FigureNumbers, NumbersFormat};
 
-use super::inputs::hash_file;
-use super::manifest::{Freshness, NumbersEntry};
+use super::manifest::{outputs_freshness, Freshness, NumbersEntry};
 
 /// A figure of the folder, as its numbers files see it.
 pub struct Member<'a> {
@@ -61,14 +60,7 @@ pub fn freshness(
     if entry.inputs != inputs || have != wanted_sorted {
         return Freshness::Stale;
     }
-    for (file, hash) in &entry.outputs {
-        match hash_file(&dir.join(file)) {
-            None => return Freshness::Missing,
-            Some(h) if h.to_hex().as_str() != hash => return Freshness::Stale,
-            Some(_) => {}
-        }
-    }
-    Freshness::UpToDate
+    outputs_freshness(dir, &entry.outputs)
 }
 
 /// The files of the given formats for `figures`: (file name, bytes).
