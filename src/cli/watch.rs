@@ -132,6 +132,7 @@ fn round(args: &WatchArgs) -> Watched {
     reporter.finish();
     print::report(&report, format);
     if format == Format::Human {
+        print::removed(&report);
         print::build_line(&report, started.elapsed());
     }
     for input in &report.inputs {
