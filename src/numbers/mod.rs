@@ -204,18 +204,13 @@ impl<'a> CellValues<'a> {
 fn figure_quotes(figure: &FigureNumbers) -> BTreeMap<String, BTreeMap<String, Quote>> {
     let rows: Vec<Row> = figure.rows.iter().map(row_of).collect();
     let parts = Parts::of(&rows);
-    // (layer, cell) → values, in the order rows first reach each cell.
-    let mut cells: Vec<((&str, String), CellValues)> = Vec::new();
+    // (layer, cell) → values.
+    let mut cells: BTreeMap<(&str, String), CellValues> = BTreeMap::new();
     for row in &rows {
-        let key = (row.layer, parts.cell(row));
-        match cells.iter_mut().find(|(k, _)| *k == key) {
-            Some((_, values)) => values.push(row.stat, row.value),
-            None => {
-                let mut values = CellValues::default();
-                values.push(row.stat, row.value);
-                cells.push((key, values));
-            }
-        }
+        cells
+            .entry((row.layer, parts.cell(row)))
+            .or_default()
+            .push(row.stat, row.value);
     }
     let unit = figure.unit.as_deref();
     let mut full: BTreeMap<String, BTreeMap<String, Option<Quote>>> = BTreeMap::new();

@@ -299,51 +299,64 @@ pub fn compare_numbers(old: &[(StatKey, String)], new: &[(StatKey, String)]) -> 
     changes
 }
 
-/// The values of list statistics that only one side has, per key: removed ones, then added
-/// ones, each in file order.
+/// The values of list statistics that only one side has, per key (keys in order of first
+/// appearance, new file first): removed ones, then added ones, each in file order.
 fn set_changes(old: &[&(StatKey, String)], new: &[&(StatKey, String)]) -> Vec<StatChange> {
     let base = |k: &StatKey| StatKey {
         occurrence: 0,
         ..k.clone()
     };
-    let mut keys: Vec<StatKey> = new.iter().chain(old).map(|(k, _)| base(k)).collect();
-    let mut seen = std::collections::BTreeSet::new();
-    keys.retain(|k| seen.insert(k.clone()));
-    let mut out = Vec::new();
-    for key in keys {
-        let values = |rows: &[&(StatKey, String)]| -> Vec<String> {
-            rows.iter()
-                .filter(|(k, _)| base(k) == key)
-                .map(|(_, v)| v.clone())
-                .collect()
-        };
-        let (mut only_old, mut only_new) = (values(old), values(new));
-        let common: Vec<String> = only_old
-            .iter()
-            .filter(|v| only_new.contains(v))
-            .cloned()
-            .collect();
-        for v in common {
-            if let (Some(i), Some(j)) = (
-                only_old.iter().position(|x| *x == v),
-                only_new.iter().position(|x| *x == v),
-            ) {
-                only_old.remove(i);
-                only_new.remove(j);
-            }
+    let mut order: Vec<StatKey> = Vec::new();
+    let mut values: BTreeMap<StatKey, (Vec<String>, Vec<String>)> = BTreeMap::new();
+    for (side, rows) in [(1, new), (0, old)] {
+        for (k, v) in rows.iter().map(|r| (&r.0, &r.1)) {
+            let key = base(k);
+            let slot = values.entry(key.clone()).or_insert_with(|| {
+                order.push(key);
+                (Vec::new(), Vec::new())
+            });
+            if side == 0 { &mut slot.0 } else { &mut slot.1 }.push(v.clone());
         }
-        out.extend(only_old.into_iter().map(|v| StatChange {
+    }
+    let mut out = Vec::new();
+    for key in order {
+        let Some((old_values, new_values)) = values.remove(&key) else {
+            continue;
+        };
+        let removed = without(&old_values, &new_values);
+        let added = without(&new_values, &old_values);
+        out.extend(removed.into_iter().map(|v| StatChange {
             key: key.clone(),
             old: Some(v),
             new: None,
         }));
-        out.extend(only_new.into_iter().map(|v| StatChange {
+        out.extend(added.into_iter().map(|v| StatChange {
             key: key.clone(),
             old: None,
             new: Some(v),
         }));
     }
     out
+}
+
+/// The values of `values` left when each value of `other` takes away one equal value (a
+/// multiset difference), in order.
+fn without(values: &[String], other: &[String]) -> Vec<String> {
+    let mut left: BTreeMap<&str, usize> = BTreeMap::new();
+    for v in other {
+        *left.entry(v.as_str()).or_default() += 1;
+    }
+    values
+        .iter()
+        .filter(|v| match left.get_mut(v.as_str()) {
+            Some(n) if *n > 0 => {
+                *n -= 1;
+                false
+            }
+            _ => true,
+        })
+        .cloned()
+        .collect()
 }
 
 /// One figure's comparison.

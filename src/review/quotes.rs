@@ -15,7 +15,7 @@ use crate::numbers::NumbersFormat;
 pub type Quotes = BTreeMap<(String, String, String), String>;
 
 /// A quoted number whose text changed, appeared or disappeared.
-#[derive(Debug, Clone, PartialEq)]
+#[derive(Debug, Clone, PartialEq, Eq, PartialOrd, Ord)]
 pub struct QuoteChange {
     pub figure: String,
     pub stat: String,
@@ -73,19 +73,18 @@ pub fn changes(old: Option<&Quotes>, new: Option<&Quotes>) -> Vec<QuoteChange> {
             }
         })
         .collect();
+    let listed: std::collections::BTreeSet<&QuoteChange> = changed.iter().collect();
     changed
         .iter()
         .filter(|c| {
             let Some((_, short)) = c.stat.split_once('.') else {
                 return true;
             };
-            !changed.iter().any(|o| {
-                o.figure == c.figure
-                    && o.stat == short
-                    && o.cell == c.cell
-                    && o.old == c.old
-                    && o.new == c.new
-            })
+            let same = QuoteChange {
+                stat: short.to_owned(),
+                ..(*c).clone()
+            };
+            !listed.contains(&same)
         })
         .cloned()
         .collect()
