@@ -588,3 +588,56 @@ fn diff_from_a_subfolder_of_a_new_project_lists_only_what_differs_relative_to_th
     let md_top = std::fs::read_to_string(repo.join("figure-review-top/report.md")).unwrap();
     assert_eq!(md_top, md);
 }
+
+#[test]
+fn names_from_the_data_are_escaped_in_the_report_and_the_page() {
+    let tmp = tempfile::tempdir().unwrap();
+    let repo = tmp.path().join("r");
+    std::fs::create_dir(&repo).unwrap();
+    std::fs::write(
+        repo.join("f.figura"),
+        "data d \"d.csv\" {\n  g: nominal\n  v: ratio\n}\n\nfigure f {\n  from d\n  x g\n  y v\n  mean\n  size 80mm x 60mm\n}\n",
+    )
+    .unwrap();
+    let levels = [
+        "<script>alert(1)</script>",
+        "a|b",
+        "![x](http://example.org/p.png)",
+        "@team",
+    ];
+    let data = |shift: f64| {
+        let mut t = String::from("g,v\n");
+        for (i, l) in levels.iter().enumerate() {
+            for j in 0..2 {
+                t.push_str(&format!("{l},{}\n", (i * 2 + j) as f64 + shift));
+            }
+        }
+        t
+    };
+    std::fs::write(repo.join("d.csv"), data(1.0)).unwrap();
+    git(&repo, &["init", "-q"]);
+    git(&repo, &["add", "-A"]);
+    git(&repo, &["commit", "-q", "-m", "a"]);
+    std::fs::write(repo.join("d.csv"), data(1.5)).unwrap();
+    git(&repo, &["commit", "-q", "-a", "-m", "b"]);
+    let run = figura(&repo, &["diff", "HEAD~1", "HEAD", "--report", "../rep"]);
+    assert_eq!(run.code, 1, "{}{}", run.stdout, run.stderr);
+    let md = std::fs::read_to_string(tmp.path().join("rep/report.md")).unwrap();
+    for raw in ["<script>", "![x](", "a|b", "@team"] {
+        assert!(!md.contains(raw), "{raw} unescaped in\n{md}");
+    }
+    // Each level is one cell of the table, shown as written.
+    let rows = table_after(&md, "### f");
+    let mut xs: Vec<String> = rows
+        .iter()
+        .filter(|r| r[4] == "mean")
+        .map(|r| r[3].replace("&#64;", "@"))
+        .collect();
+    xs.sort();
+    let mut expected: Vec<String> = levels.iter().map(|l| l.to_string()).collect();
+    expected.sort();
+    assert_eq!(xs, expected, "{md}");
+    let page = std::fs::read_to_string(tmp.path().join("rep/index.html")).unwrap();
+    assert!(!page.contains("<script>alert"));
+    assert!(page.contains("&lt;script&gt;alert(1)&lt;/script&gt;"));
+}
