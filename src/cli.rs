@@ -19,8 +19,9 @@ use std::time::Instant;
 
 use clap::{Args, Parser, Subcommand, ValueEnum};
 
-use crate::build::{self, BuildOptions, BuildReport, FigureState, Mode};
+use crate::build::{self, BuildOptions, BuildReport, Mode};
 use crate::check::FigureDefaults;
+use crate::numbers::NumbersFormat;
 use crate::project::{self, Project, ProjectError};
 
 #[derive(Parser, Debug)]
@@ -50,6 +51,8 @@ enum Command {
     Fmt(FmtArgs),
     /// Compare the figures of two revisions or folders and write a review report.
     Diff(DiffArgs),
+    /// Remove every output Figura wrote (the files its manifests list), and nothing else.
+    Clean(CleanArgs),
 }
 
 #[derive(Args, Debug)]
@@ -113,6 +116,15 @@ struct WatchArgs {
 }
 
 #[derive(Args, Debug)]
+struct CleanArgs {
+    /// Spec files, or folders searched for *.figura (default: the project, else the current
+    /// folder).
+    paths: Vec<PathBuf>,
+    #[command(flatten)]
+    out: OutArgs,
+}
+
+#[derive(Args, Debug)]
 struct ListArgs {
     /// Spec files, or folders searched for *.figura (default: the project, else the current
     /// folder).
@@ -153,6 +165,7 @@ pub fn run(args: impl IntoIterator<Item = OsString>) -> i32 {
         Command::List(args) => run_list(&args),
         Command::Fmt(args) => Ok(run_fmt(&args)),
         Command::Diff(args) => Ok(run_diff(&args)),
+        Command::Clean(args) => run_clean(&args),
     };
     result.unwrap_or_else(|code| code)
 }
@@ -165,6 +178,7 @@ struct Target {
     paths: Vec<PathBuf>,
     out: Option<PathBuf>,
     defaults: FigureDefaults,
+    numbers: Vec<NumbersFormat>,
 }
 
 impl Target {
@@ -173,6 +187,7 @@ impl Target {
             paths: self.paths.clone(),
             out: self.out.clone(),
             defaults: self.defaults,
+            numbers: self.numbers.clone(),
             mode,
             ..BuildOptions::default()
         }
@@ -194,6 +209,7 @@ fn resolve_target(paths: &[PathBuf], out: Option<&Path>, format: Format) -> Resu
             specs,
             out: project_out,
             defaults,
+            numbers,
             ..
         }) => Target {
             paths: if paths.is_empty() {
@@ -203,6 +219,7 @@ fn resolve_target(paths: &[PathBuf], out: Option<&Path>, format: Format) -> Resu
             },
             out: out.map(Path::to_path_buf).or(project_out),
             defaults,
+            numbers,
         },
         None => Target {
             paths: if paths.is_empty() {
@@ -212,6 +229,7 @@ fn resolve_target(paths: &[PathBuf], out: Option<&Path>, format: Format) -> Resu
             },
             out: out.map(Path::to_path_buf),
             defaults: FigureDefaults::default(),
+            numbers: Vec::new(),
         },
     };
     Ok(target)
@@ -279,14 +297,11 @@ fn run_build(args: &BuildArgs) -> Result<i32, Exit> {
             print::out_of_date(&report);
             print::status_line(&report, started.elapsed());
         } else {
+            print::removed(&report);
             print::build_line(&report, started.elapsed());
         }
     }
-    let stale = args.check
-        && report
-            .figures
-            .iter()
-            .any(|f| f.state != FigureState::UpToDate);
+    let stale = args.check && !report.all_up_to_date();
     Ok(
         exit_code(&report, common.deny_warnings).max(if stale {
             EXIT_DIAGNOSTICS
@@ -329,6 +344,32 @@ fn run_new(args: &NewArgs) -> Result<i32, Exit> {
     println!(
         "run `figura build` in {} to build its figures",
         crate::build::paths::display_path(&args.dir).display()
+    );
+    Ok(EXIT_OK)
+}
+
+/// `figura clean`: removes the outputs the manifests list, and the manifests.
+fn run_clean(args: &CleanArgs) -> Result<i32, Exit> {
+    let target = resolve_target(&args.paths, args.out.out.as_deref(), Format::Human)?;
+    let cleaned = build::prune::clean(&target.options(Mode::Build)).map_err(|e| {
+        eprintln!("error: {e}");
+        EXIT_FAILURE
+    })?;
+    for path in &cleaned.removed {
+        println!(
+            "removed {}",
+            crate::build::paths::display_path(path).display()
+        );
+    }
+    eprintln!(
+        "{} file{} removed{}",
+        cleaned.removed.len(),
+        if cleaned.removed.len() == 1 { "" } else { "s" },
+        match cleaned.folders.len() {
+            0 => String::new(),
+            1 => ", and the empty output folder".to_string(),
+            n => format!(", and {n} empty output folders"),
+        }
     );
     Ok(EXIT_OK)
 }
@@ -400,10 +441,14 @@ struct DiffArgs {
     base: String,
     /// The new side: a git revision or a folder (default: the working tree).
     head: Option<String>,
-    /// Folder to write report.md, index.html and NAME.diff.png into (picture diffs of an
-    /// earlier report there are replaced).
+    /// Folder to write report.md, index.html and the pictures of each changed figure into
+    /// (pictures of an earlier report there are replaced).
     #[arg(long)]
     report: PathBuf,
+    /// The address where CI publishes the report folder: report.md then links its
+    /// pictures there (instead of embedding small previews).
+    #[arg(long, value_name = "URL")]
+    image_url: Option<String>,
 }
 
 /// `figura diff`: 0 when no figure changed, 1 when any was added, removed or changed, 2 on
@@ -414,6 +459,7 @@ fn run_diff(args: &DiffArgs) -> i32 {
         base: args.base.clone(),
         head: args.head.clone(),
         report_dir: args.report.clone(),
+        image_url: args.image_url.clone(),
     };
     match review::diff(&options) {
         Ok(outcome) => {

@@ -26,6 +26,7 @@ pub mod files;
 pub mod font;
 pub mod format;
 pub mod layout;
+pub mod numbers;
 pub mod project;
 pub mod report;
 pub mod review;

@@ -193,6 +193,13 @@ impl Run {
         self
     }
 
+    /// Expects `needle` in what the command printed (standard output or error).
+    fn expect_printed(&self, needle: &str) -> &Run {
+        let found = self.stdout.contains(needle) || self.stderr.contains(needle);
+        assert!(found, "{needle:?} not in\n{}", self.show());
+        self
+    }
+
     /// The closing line of a build, without its time: "2 built, 1 up to date, 0 failed".
     fn counts(&self) -> String {
         let line = self
@@ -731,9 +738,8 @@ fn wait_for(rx: &mpsc::Receiver<String>, needle: &str) -> Vec<String> {
     }
 }
 
-#[test]
-fn watch_rebuilds_the_figures_of_a_changed_data_file() {
-    let p = Project::standard();
+/// `figura watch` started in the project's `figures/`, and its lines of standard error.
+fn watch(p: &Project) -> (std::process::Child, mpsc::Receiver<String>) {
     let mut child = Command::new(env!("CARGO_BIN_EXE_figura"))
         .arg("watch")
         .current_dir(p.path("figures"))
@@ -742,6 +748,13 @@ fn watch_rebuilds_the_figures_of_a_changed_data_file() {
         .spawn()
         .unwrap();
     let rx = line_reader(&mut child);
+    (child, rx)
+}
+
+#[test]
+fn watch_rebuilds_the_figures_of_a_changed_data_file() {
+    let p = Project::standard();
+    let (mut child, rx) = watch(&p);
     let first = wait_for(&rx, "watching for changes");
     assert!(
         first.iter().any(|l| l.starts_with("3 built, 0 up to date")),
@@ -772,4 +785,534 @@ fn watch_rebuilds_the_figures_of_a_changed_data_file() {
             .any(|l| l.starts_with("0 built, 1 up to date, 2 failed")),
         "{third:?}"
     );
+}
+
+/// A process that reads every output file again and again (as a viewer refreshing its
+/// picture would), until it is killed.
+fn keep_reading(dir: &Path) -> std::process::Child {
+    Command::new("sh")
+        .arg("-c")
+        .arg("while :; do for f in out/*; do cat \"$f\" >/dev/null 2>&1; done; sleep 0.05; done")
+        .current_dir(dir)
+        .stdout(Stdio::null())
+        .stderr(Stdio::null())
+        .spawn()
+        .unwrap()
+}
+
+/// The closing line of the next round, after its `changed:` line.
+fn next_round(rx: &mpsc::Receiver<String>) -> (String, String) {
+    let lines = wait_for(rx, " up to date, ");
+    let changed = lines
+        .iter()
+        .rev()
+        .find(|l| l.starts_with("changed: "))
+        .cloned()
+        .unwrap_or_else(|| panic!("no changed line: {lines:?}"));
+    let closing = lines
+        .last()
+        .unwrap()
+        .split(" in ")
+        .next()
+        .unwrap()
+        .to_string();
+    (changed, closing)
+}
+
+#[test]
+fn watch_rebuilds_on_every_save_of_a_spec_in_any_style_while_outputs_are_read() {
+    let p = Project::standard();
+    let (mut child, rx) = watch(&p);
+    wait_for(&rx, "watching for changes");
+    let mut reader = keep_reading(&p.path("figures"));
+    let spec = p.path("figures/a.figura");
+    let size = |n: u32| {
+        format!("figure a1 {{\n  from sleep_a\n  x drug\n  y extra\n  points\n  box\n  size {n}mm x 45mm\n}}\n")
+    };
+    let original = p.read("figures/a.figura");
+    assert!(original.contains(&size(60)));
+    let mut rounds = Vec::new();
+
+    // 1. Written in place.
+    fs::write(&spec, original.replace(&size(60), &size(61))).unwrap();
+    rounds.push(next_round(&rx));
+    // 2. `sed -i`: a new file renamed over the old one by sed itself.
+    let sed = Command::new("sed")
+        .args(["-i", "s/size 61mm/size 62mm/", spec.to_str().unwrap()])
+        .status()
+        .unwrap();
+    assert!(sed.success());
+    rounds.push(next_round(&rx));
+    // 3. An editor's atomic save: a hidden temporary file, then a rename.
+    let tmp = p.path("figures/.a.figura.swp");
+    fs::write(
+        &tmp,
+        p.read("figures/a.figura").replace(&size(62), &size(63)),
+    )
+    .unwrap();
+    fs::rename(&tmp, &spec).unwrap();
+    rounds.push(next_round(&rx));
+    // 4. A new spec file.
+    p.write(
+        "figures/c.figura",
+        &format!("include \"a.figura\"\n\n{}", figure("c1", "sleep_a")),
+    );
+    rounds.push(next_round(&rx));
+    // 5. The new spec file deleted again: its figure's outputs are pruned.
+    fs::remove_file(p.path("figures/c.figura")).unwrap();
+    rounds.push(next_round(&rx));
+
+    reader.kill().unwrap();
+    reader.wait().unwrap();
+    child.kill().unwrap();
+    child.wait().unwrap();
+    let expected = [
+        ("a.figura", "1 built, 2 up to date, 0 failed"),
+        ("a.figura", "1 built, 2 up to date, 0 failed"),
+        ("a.figura", "1 built, 2 up to date, 0 failed"),
+        ("c.figura", "1 built, 3 up to date, 0 failed"),
+        ("c.figura", "0 built, 3 up to date, 0 failed"),
+    ];
+    for ((changed, closing), (file, counts)) in rounds.iter().zip(expected) {
+        assert!(changed.contains(file), "{rounds:?}");
+        assert_eq!(closing, counts, "{rounds:?}");
+    }
+    assert!(p.read("figures/out/a1.svg").contains("63mm"));
+    assert!(!p.path("figures/out/c1.svg").exists());
+    p.run("figures", &["build", "--check"]).expect_code(0);
+}
+
+/// A figure of the sleep table with means and 95% intervals.
+fn means_figure(name: &str, data: &str) -> String {
+    format!(
+        "figure {name} {{\n  from {data}\n  x drug\n  y extra\n  mean error(ci(0.95))\n  size 60mm x 45mm\n}}\n"
+    )
+}
+
+#[test]
+fn a_removed_figure_is_orphaned_until_a_build_removes_its_files_and_only_those() {
+    let p = Project::standard();
+    p.run(".", &["build"]).expect_code(0);
+    // Files Figura did not write, including one named like an output.
+    p.write("figures/out/notes.txt", "mine");
+    p.write("figures/out/zz.svg", "<svg/>");
+    let spec = p.read("figures/a.figura");
+    p.write(
+        "figures/a.figura",
+        &spec.replace(&figure("a2", "sleep_a"), ""),
+    );
+    fs::remove_file(p.path("figures/b.figura")).unwrap();
+
+    let check = p.run("figures", &["build", "--check"]);
+    check.expect_code(1);
+    check.expect_printed("orphaned a2 (out/a2.summary.csv, a2.svg)");
+    assert!(check.stderr.contains("orphaned b1 ("), "{}", check.show());
+    check.expect_printed("1 up to date, 0 stale, 0 missing, 0 failing, 2 orphaned");
+    assert!(
+        p.path("figures/out/a2.svg").is_file(),
+        "--check removes nothing"
+    );
+
+    let build = p.run(".", &["build"]);
+    build.expect_code(0);
+    assert!(build.stderr.contains("removed  a2 ("), "{}", build.show());
+    let left: Vec<String> = p.contents("figures/out").into_keys().collect();
+    assert_eq!(
+        left,
+        [
+            ".figura-manifest.json",
+            "a1.summary.csv",
+            "a1.svg",
+            "notes.txt",
+            "zz.svg"
+        ]
+    );
+    let manifest = p.read("figures/out/.figura-manifest.json");
+    assert!(
+        !manifest.contains("\"a2\"") && !manifest.contains("\"b1\""),
+        "{manifest}"
+    );
+    p.run(".", &["build", "--check"]).expect_code(0);
+}
+
+#[test]
+fn an_output_a_figure_no_longer_makes_is_removed() {
+    let p = Project::standard();
+    let toml = p.read("figura.toml");
+    p.write(
+        "figura.toml",
+        &toml.replace("[\"svg\"]", "[\"svg\", \"png\"]"),
+    );
+    p.run(".", &["build"]).expect_code(0);
+    assert!(p.path("figures/out/a1.png").is_file());
+    p.write("figura.toml", &toml);
+    p.run(".", &["build"]).expect_code(0);
+    assert!(!p.path("figures/out/a1.png").exists());
+    assert!(p.path("figures/out/a1.svg").is_file());
+}
+
+#[test]
+fn a_failing_figure_keeps_its_old_outputs_listed_so_they_are_pruned_later() {
+    let p = Project::standard();
+    p.run(".", &["build"]).expect_code(0);
+    // Edit: patient 1 under drug A becomes "many" in a.csv, a data error for a1 and a2.
+    p.write("data/a.csv", &sleep_table_edited("many"));
+    p.run(".", &["build"]).expect_code(1);
+    assert!(
+        p.path("figures/out/a1.svg").is_file(),
+        "a failure removes nothing"
+    );
+    let spec = p.read("figures/a.figura");
+    p.write(
+        "figures/a.figura",
+        &spec.replace(&figure("a1", "sleep_a"), ""),
+    );
+    p.run(".", &["build"]).expect_code(1);
+    assert!(!p.path("figures/out/a1.svg").exists());
+    assert!(!p.path("figures/out/a1.summary.csv").exists());
+}
+
+#[test]
+fn an_edited_manifest_cannot_make_figura_delete_other_files() {
+    let p = Project::standard();
+    p.run(".", &["build"]).expect_code(0);
+    let manifest = p.read("figures/out/.figura-manifest.json");
+    // An orphan entry whose outputs point at the data and at a spec.
+    let planted = manifest.replacen(
+        "\"figures\": {",
+        "\"figures\": {\n    \"gone\": {\"spec\": \"../gone.figura\", \"inputs\": \"x\", \"outputs\": {\"../../data/a.csv\": \"x\", \"../a.figura\": \"x\", \"gone.svg\": \"x\"}},",
+        1,
+    );
+    assert_ne!(planted, manifest);
+    p.write("figures/out/.figura-manifest.json", &planted);
+    p.write("figures/out/gone.svg", "<svg/>");
+    p.run(".", &["build"]).expect_code(0);
+    assert!(p.path("data/a.csv").is_file());
+    assert!(p.path("figures/a.figura").is_file());
+    assert!(!p.path("figures/out/gone.svg").exists());
+    // clean, likewise.
+    p.write("figures/out/.figura-manifest.json", &planted);
+    p.run(".", &["clean"]).expect_code(0);
+    assert!(p.path("data/a.csv").is_file());
+    assert!(p.path("figures/a.figura").is_file());
+}
+
+#[test]
+fn clean_removes_every_output_and_nothing_else() {
+    let p = Project::standard();
+    let toml = p.read("figura.toml");
+    p.write(
+        "figura.toml",
+        &toml.replace(
+            "out = \"figures/out\"",
+            "out = \"figures/out\"\nnumbers = [\"tex\"]",
+        ),
+    );
+    p.run(".", &["build"]).expect_code(0);
+    p.write("figures/out/notes.txt", "mine");
+    let clean = p.run("figures", &["clean"]);
+    clean.expect_code(0);
+    clean.expect_printed("removed out/a1.svg");
+    clean.expect_printed("removed out/numbers.tex");
+    // Six outputs of three figures, the numbers file and the manifest.
+    clean.expect_printed("8 files removed\n");
+    let left: Vec<String> = p.contents("figures/out").into_keys().collect();
+    assert_eq!(left, ["notes.txt"]);
+    // With nothing else left, the folder goes too.
+    fs::remove_file(p.path("figures/out/notes.txt")).unwrap();
+    p.run(".", &["build"]).expect_code(0);
+    let clean = p.run(".", &["clean"]);
+    clean.expect_printed("and the empty output folder");
+    assert!(!p.path("figures/out").exists());
+    assert!(p.path("data/a.csv").is_file() && p.path("figures/a.figura").is_file());
+}
+
+/// The numbers project: the standard project with a figure of means and the three numbers
+/// files.
+fn numbers_project() -> Project {
+    let p = Project::standard();
+    let toml = p.read("figura.toml");
+    p.write(
+        "figura.toml",
+        &toml.replace(
+            "out = \"figures/out\"",
+            "out = \"figures/out\"\nnumbers = [\"tex\", \"typ\", \"json\"]",
+        ),
+    );
+    p.write(
+        "figures/means.figura",
+        &format!(
+            "include \"b.figura\"\n\n{}",
+            means_figure("sleep_means", "sleep_b")
+        ),
+    );
+    p
+}
+
+#[test]
+fn numbers_files_quote_every_number_rounded_by_its_interval() {
+    let p = numbers_project();
+    p.run(".", &["build"]).expect_code(0);
+    // Student (1908): drug A (dextro-) mean +0.75 h, drug B (laevo-) mean +2.33 h over ten
+    // patients. 95% interval: mean ± t(0.975, 9) · s / √10 with t(0.975, 9) = 2.2622 (t
+    // tables) and s the sample standard deviation (n − 1) computed here from the table:
+    // A [−0.53, 2.03], B [0.90, 3.76]. Their widths, 2.6 and 2.9 h, have two significant
+    // digits at the first decimal, so every number of the cell has one decimal.
+    let table = sleep_table();
+    let extra = |drug: &str| -> Vec<f64> {
+        table
+            .lines()
+            .skip(1)
+            .filter(|l| l.split(',').nth(1) == Some(drug))
+            .map(|l| l.split(',').nth(2).unwrap().parse().unwrap())
+            .collect()
+    };
+    let interval = |v: &[f64]| {
+        let n = v.len() as f64;
+        let m = v.iter().sum::<f64>() / n;
+        let s = (v.iter().map(|x| (x - m).powi(2)).sum::<f64>() / (n - 1.0)).sqrt();
+        let half = 2.262_157_162_8 * s / n.sqrt();
+        (m, m - half, m + half)
+    };
+    let (ma, la, ha) = interval(&extra("A"));
+    let (mb, lb, hb) = interval(&extra("B"));
+    assert!((ma - 0.75).abs() < 1e-12 && (mb - 2.33).abs() < 1e-12);
+    assert_eq!(
+        format!("{la:.1} {ha:.1} {lb:.1} {hb:.1}"),
+        "-0.5 2.0 0.9 3.8"
+    );
+
+    let json: serde_json::Value =
+        serde_json::from_str(&p.read("figures/out/numbers.json")).unwrap();
+    let entry = |stat: &str, cell: &str| json["figures"]["sleep_means"][stat][cell].clone();
+    assert_eq!(entry("mean", "A")["text"], "0.8\u{a0}h");
+    assert_eq!(entry("mean", "B")["text"], "2.3\u{a0}h");
+    assert_eq!(entry("mean", "B")["value"], 2.33);
+    assert_eq!(entry("ci", "A")["text"], "[\u{2212}0.5, 2.0]");
+    assert_eq!(entry("mean.ci", "B")["text"], "[0.9, 3.8]");
+    assert_eq!(entry("n", "B")["text"], "10");
+    // The box of b1: median (1.6 + 1.9) / 2 = 1.75 h and quartiles 0.875 and 4.15 h
+    // (Hyndman & Fan definition 7 on the sorted B values); the interquartile range 3.275 h
+    // gives one decimal, and 1.75 (exact in binary) rounds half to even: 1.8.
+    assert_eq!(
+        json["figures"]["b1"]["box.median"]["B"]["text"],
+        "1.8\u{a0}h"
+    );
+    assert_eq!(json["figures"]["b1"]["box.q1"]["B"]["text"], "0.9\u{a0}h");
+
+    let tex = p.read("figures/out/numbers.tex");
+    assert!(
+        tex.contains(r"\figura@def{sleep_means}{ci}{A}{[\ensuremath{-}0.5, 2.0]}"),
+        "{tex}"
+    );
+    assert!(
+        tex.contains(r"\figura@def{sleep_means}{mean}{B}{2.3~h}{2.3}"),
+        "{tex}"
+    );
+    let typ = p.read("figures/out/numbers.typ");
+    assert!(typ.contains("\"B\": (text: \"2.3\u{a0}h\", number: \"2.3\", value: 2.33),"));
+}
+
+#[test]
+fn numbers_files_are_outputs_incremental_and_checked() {
+    let p = numbers_project();
+    p.run(".", &["build"]).expect_code(0);
+    p.run(".", &["build", "--check"]).expect_code(0);
+    let before = p.mtimes("figures/out");
+    tick();
+    // A no-op build writes nothing; a change to a.csv (not quoted by sleep_means, but by a1,
+    // a2) makes the numbers again, and they keep sleep_means' numbers.
+    p.run(".", &["build"]).expect_code(0);
+    assert!(rewritten(&before, &p.mtimes("figures/out")).is_empty());
+    p.write("data/a.csv", &sleep_table_edited("2.7"));
+    let check = p.run(".", &["build", "--check"]);
+    check.expect_code(1);
+    check.expect_printed("stale    numbers (figures/out/numbers.tex, numbers.typ, numbers.json)");
+    p.run(".", &["build"]).expect_code(0);
+    let json = p.read("figures/out/numbers.json");
+    assert!(json.contains("\"sleep_means\""), "{json}");
+    p.run(".", &["build", "--check"]).expect_code(0);
+    // A number edited by hand is found.
+    let tex = p.read("figures/out/numbers.tex");
+    p.write(
+        "figures/out/numbers.tex",
+        &tex.replace("{2.3~h}", "{2.4~h}"),
+    );
+    let check = p.run(".", &["build", "--check"]);
+    check.expect_code(1);
+    check.expect_printed("stale    numbers");
+    p.run(".", &["build"]).expect_code(0);
+    assert!(p.read("figures/out/numbers.tex").contains("{2.3~h}"));
+    // Turning the numbers off removes their files.
+    let toml = p.read("figura.toml");
+    p.write(
+        "figura.toml",
+        &toml.replace("numbers = [\"tex\", \"typ\", \"json\"]\n", ""),
+    );
+    p.run(".", &["build"]).expect_code(0);
+    assert!(!p.path("figures/out/numbers.tex").exists());
+}
+
+#[test]
+fn an_unknown_numbers_format_is_an_error_at_its_value() {
+    let p = Project::standard();
+    p.write("figura.toml", "[project]\nnumbers = [\"tex\", \"docx\"]\n");
+    let run = p.run(".", &["build"]);
+    run.expect_code(1);
+    run.expect_printed("P0003");
+    run.expect_printed("\"docx\" is not a numbers format");
+    run.expect_printed("figura.toml:2:");
+}
+
+/// Copies the example specs, data, project file and manuscripts (not their outputs) into a
+/// new folder.
+fn copy_examples(to: &Path) {
+    fn copy(from: &Path, to: &Path) {
+        fs::create_dir_all(to).unwrap();
+        for e in fs::read_dir(from).unwrap() {
+            let e = e.unwrap();
+            let name = e.file_name();
+            if name == "out" || name == "images" {
+                continue;
+            }
+            if e.path().is_dir() {
+                copy(&e.path(), &to.join(&name));
+            } else {
+                fs::copy(e.path(), to.join(&name)).unwrap();
+            }
+        }
+    }
+    copy(&common::root().join("specs-examples"), to);
+}
+
+/// Runs a tool in `dir` and returns its standard output; fails with its output if it fails.
+fn tool(dir: &Path, program: &str, args: &[&str]) -> String {
+    let out = Command::new(program)
+        .args(args)
+        .current_dir(dir)
+        .output()
+        .unwrap_or_else(|e| {
+            panic!("{program} cannot run ({e}): install it with `bash .ci/run` or apt-get")
+        });
+    assert!(
+        out.status.success(),
+        "{program} {args:?}:\n{}\n{}",
+        String::from_utf8_lossy(&out.stdout),
+        String::from_utf8_lossy(&out.stderr)
+    );
+    String::from_utf8_lossy(&out.stdout).into_owned()
+}
+
+/// The text of a PDF, with runs of white space made one space.
+fn pdf_text(dir: &Path, pdf: &str) -> String {
+    tool(dir, "pdftotext", &[pdf, "-"])
+        .split_whitespace()
+        .collect::<Vec<_>>()
+        .join(" ")
+}
+
+/// Mean and 95% interval of the morning paper speeds of the reading example's data, with
+/// t(0.975, 23) = 2.0687 (t tables) and the sample standard deviation (n − 1): common
+/// practice, computed here from the file, not by Figura.
+fn morning_paper(csv: &str) -> (f64, f64, f64) {
+    let v: Vec<f64> = csv
+        .lines()
+        .skip(1)
+        .filter(|l| l.contains(",paper,morning,"))
+        .map(|l| l.split(',').nth(3).unwrap().parse().unwrap())
+        .collect();
+    assert_eq!(v.len(), 24);
+    let n = v.len() as f64;
+    let m = v.iter().sum::<f64>() / n;
+    let s = (v.iter().map(|x| (x - m).powi(2)).sum::<f64>() / (n - 1.0)).sqrt();
+    let half = 2.068_657_610_419 * s / n.sqrt();
+    (m, m - half, m + half)
+}
+
+/// The quote of a mean and its interval as the manuscript should read: decimals that give
+/// the interval's width two significant digits (at least none).
+fn quoted(m: f64, lo: f64, hi: f64) -> (String, String) {
+    let d = (1 - (hi - lo).log10().floor() as i32).max(0) as usize;
+    (
+        format!("{m:.d$} words/min"),
+        format!("[{lo:.d$}, {hi:.d$}]"),
+    )
+}
+
+#[test]
+fn the_example_manuscripts_quote_numbers_that_follow_the_data() {
+    let tmp = tempfile::tempdir().unwrap();
+    let dir = tmp.path().join("examples");
+    copy_examples(&dir);
+    let figura = |args: &[&str]| {
+        Run::from(
+            Command::new(env!("CARGO_BIN_EXE_figura"))
+                .args(args)
+                .current_dir(&dir)
+                .output()
+                .unwrap(),
+        )
+    };
+    figura(&["build"]).expect_code(0);
+    let compile = || {
+        tool(
+            &dir,
+            "pdflatex",
+            &[
+                "-interaction=nonstopmode",
+                "-halt-on-error",
+                "manuscript.tex",
+            ],
+        );
+        pdf_text(&dir, "manuscript.pdf")
+    };
+    let csv = fs::read_to_string(dir.join("data/reading.csv")).unwrap();
+    let (m, lo, hi) = morning_paper(&csv);
+    let (mean, ci) = quoted(m, lo, hi);
+    assert_eq!(
+        (mean.as_str(), ci.as_str()),
+        ("243 words/min", "[228, 257]")
+    );
+    let text = compile();
+    let sentence = format!("read paper at a mean of {mean} (95% CI {ci})");
+    assert!(text.contains(&sentence), "{sentence:?} not in\n{text}");
+    assert!(
+        text.contains("where 23 of 24 readers have a value"),
+        "{text}"
+    );
+
+    // The Typst manuscript quotes the same numbers.
+    tool(
+        &dir,
+        "python3",
+        &[
+            "-c",
+            "import typst; typst.compile('manuscript.typ', output='manuscript-typst.pdf')",
+        ],
+    );
+    let typst_text = pdf_text(&dir, "manuscript-typst.pdf");
+    assert!(
+        typst_text.contains(&sentence),
+        "{sentence:?} not in\n{typst_text}"
+    );
+
+    // A corrected value: reader R01's morning paper speed 262.7 → 362.7 words/min.
+    let edited = csv.replacen("R01,paper,morning,262.7,", "R01,paper,morning,362.7,", 1);
+    assert_ne!(edited, csv);
+    fs::write(dir.join("data/reading.csv"), &edited).unwrap();
+    let check = figura(&["build", "--check"]);
+    check.expect_code(1);
+    assert!(
+        check.stderr.contains("stale    numbers (out/numbers.tex"),
+        "{}",
+        check.show()
+    );
+    figura(&["build"]).expect_code(0);
+    figura(&["build", "--check"]).expect_code(0);
+    let (m2, lo2, hi2) = morning_paper(&edited);
+    let (mean2, ci2) = quoted(m2, lo2, hi2);
+    assert_ne!(mean2, mean);
+    let text = compile();
+    let sentence = format!("read paper at a mean of {mean2} (95% CI {ci2})");
+    assert!(text.contains(&sentence), "{sentence:?} not in\n{text}");
 }

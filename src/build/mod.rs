@@ -15,7 +15,9 @@
 pub mod inputs;
 pub mod load;
 pub mod manifest;
+mod numbers;
 pub mod paths;
+pub mod prune;
 mod render;
 mod write;
 
@@ -27,12 +29,14 @@ use std::path::{Path, PathBuf};
 use rayon::prelude::*;
 
 use crate::check::{self, FigureDefaults, FigurePlan, Program};
+use crate::compute::SummaryRow;
 use crate::data::{self, Table};
 use crate::diag::{Diagnostic, SourceMap, Span};
 use crate::export;
+use crate::numbers::{FigureNumbers, NumbersFormat};
 
 use inputs::InputHasher;
-use manifest::{Freshness, Manifest};
+use manifest::{Freshness, Manifest, NumbersEntry, Scope};
 
 pub use render::{
     output_kinds, output_names, render_figure, report_figure_panics_as_failures, table_spec,
@@ -109,6 +113,8 @@ pub struct BuildOptions {
     /// The top folder of a copy of a work tree (a revision `figura diff` builds): specs
     /// inside read and write only inside it (see [`paths::Bounds::around`]).
     pub work_tree: Option<PathBuf>,
+    /// The manuscript numbers files written in each output folder (none by default).
+    pub numbers: Vec<NumbersFormat>,
 }
 
 impl Default for BuildOptions {
@@ -122,6 +128,7 @@ impl Default for BuildOptions {
             jobs: None,
             tool_version: TOOL_VERSION.to_string(),
             work_tree: None,
+            numbers: Vec::new(),
         }
     }
 }
@@ -181,6 +188,33 @@ pub struct BuildReport {
     pub failures: Vec<BuildError>,
     /// Every file the run depends on: spec files, included files and data files, sorted.
     pub inputs: Vec<PathBuf>,
+    /// Figures recorded in a manifest whose block is gone: found (status runs) or whose
+    /// files were removed (builds).
+    pub orphans: Vec<OrphanStatus>,
+    /// Output files removed by a build: orphans' files, outputs figures no longer make.
+    pub removed: Vec<PathBuf>,
+    /// The numbers files of each output folder, when the run asks for them.
+    pub numbers: Vec<NumbersStatus>,
+}
+
+/// A figure that no longer exists but whose outputs a manifest records.
+#[derive(Debug, Clone, PartialEq)]
+pub struct OrphanStatus {
+    pub name: String,
+    /// Its output folder.
+    pub dir: PathBuf,
+    /// Its files there, by name.
+    pub files: Vec<String>,
+}
+
+/// The numbers files of one output folder.
+#[derive(Debug, Clone, PartialEq)]
+pub struct NumbersStatus {
+    pub dir: PathBuf,
+    /// File names, in the order of the formats asked for.
+    pub files: Vec<String>,
+    /// `UpToDate` or `Built` in a build; `UpToDate`, `Stale` or `Missing` in a status run.
+    pub state: FigureState,
 }
 
 impl BuildReport {
@@ -195,6 +229,19 @@ impl BuildReport {
     /// The number of figures in `state`.
     pub fn count(&self, state: FigureState) -> usize {
         self.figures.iter().filter(|f| f.state == state).count()
+    }
+
+    /// Whether every figure and numbers file is up to date and nothing is orphaned (what
+    /// `build --check` asks).
+    pub fn all_up_to_date(&self) -> bool {
+        self.figures
+            .iter()
+            .all(|f| f.state == FigureState::UpToDate)
+            && self
+                .numbers
+                .iter()
+                .all(|n| n.state == FigureState::UpToDate)
+            && self.orphans.is_empty()
     }
 }
 
@@ -226,8 +273,8 @@ struct Job<'p> {
 enum Outcome {
     /// Up to date: nothing made.
     Kept,
-    /// Made, with the hash of each output file.
-    Made(BTreeMap<String, String>),
+    /// Made, with the hash of each output file and the summary.
+    Made(BTreeMap<String, String>, Vec<SummaryRow>),
     Failed,
     /// A status run's comparison.
     Compared(Freshness),
@@ -237,7 +284,7 @@ impl Outcome {
     fn state(&self) -> FigureState {
         match self {
             Outcome::Kept => FigureState::UpToDate,
-            Outcome::Made(_) => FigureState::Built,
+            Outcome::Made(..) => FigureState::Built,
             Outcome::Failed => FigureState::Failed,
             Outcome::Compared(Freshness::UpToDate) => FigureState::UpToDate,
             Outcome::Compared(Freshness::Stale) => FigureState::Stale,
@@ -247,9 +294,9 @@ impl Outcome {
     }
 }
 
-/// One figure made in this run: its outputs' hashes, or why it failed.
+/// One figure made in this run: its outputs' hashes and summary, or why it failed.
 struct Made {
-    result: Result<BTreeMap<String, String>, FigureError>,
+    result: Result<(BTreeMap<String, String>, Vec<SummaryRow>), FigureError>,
     written: Vec<PathBuf>,
 }
 
@@ -264,24 +311,34 @@ pub fn build(options: &BuildOptions, progress: &dyn Progress) -> Result<BuildRep
     report.diagnostics.extend(loaded.contain_data(&mut program));
     let pool = thread_pool(options.jobs)?;
     let (jobs, mut manifests) = plan_jobs(options, &loaded, &program, &mut report, &pool)?;
+    let mut tables = Tables::new();
     let outcomes: Vec<Outcome> = match options.mode {
         Mode::Status => jobs
             .iter()
             .map(|j| Outcome::Compared(j.freshness))
             .collect(),
-        Mode::Build | Mode::Validate => {
-            make_all(&program, &jobs, options, &mut report, &pool, progress)
-        }
-    };
-    if options.mode == Mode::Build {
-        write_manifests(
-            options,
-            &specs,
+        Mode::Build | Mode::Validate => make_all(
+            &program,
             &jobs,
-            &outcomes,
-            &mut manifests,
+            options,
+            &mut tables,
             &mut report,
-        )?;
+            &pool,
+            progress,
+        ),
+    };
+    let run = Run {
+        options,
+        specs: &specs,
+        units: &loaded.units,
+        program: &program,
+        jobs: &jobs,
+        outcomes: &outcomes,
+    };
+    match options.mode {
+        Mode::Build => write_manifests(&run, &mut tables, &mut manifests, &mut report)?,
+        Mode::Status => status_of_folders(&run, &manifests, &mut report),
+        Mode::Validate => {}
     }
     let states: Vec<FigureState> = outcomes.iter().map(Outcome::state).collect();
     report.figures = figure_statuses(&loaded.units, &program, &jobs, &states);
@@ -291,6 +348,19 @@ pub fn build(options: &BuildOptions, progress: &dyn Progress) -> Result<BuildRep
 
 /// The manifests read so far, by output folder.
 type Manifests = BTreeMap<PathBuf, Manifest>;
+
+/// The tables read so far, by codebook; `None` for a table with errors.
+type Tables = BTreeMap<usize, Option<Table>>;
+
+/// What a run found and made, for the steps that look at whole output folders.
+struct Run<'r, 'p> {
+    options: &'r BuildOptions,
+    specs: &'r [PathBuf],
+    units: &'r [check::SpecUnit],
+    program: &'p Program,
+    jobs: &'r [Job<'p>],
+    outcomes: &'r [Outcome],
+}
 
 /// Hashes every checked figure's inputs and compares them with its output folder's manifest
 /// (unless the run makes every figure anyway); returns the jobs and the manifests read.
@@ -354,6 +424,7 @@ fn make_all(
     program: &Program,
     jobs: &[Job],
     options: &BuildOptions,
+    tables: &mut Tables,
     report: &mut BuildReport,
     pool: &rayon::ThreadPool,
     progress: &dyn Progress,
@@ -364,7 +435,8 @@ fn make_all(
         .filter(|&i| jobs[i].freshness != Freshness::UpToDate)
         .collect();
     let needed: BTreeSet<usize> = todo.iter().map(|&i| jobs[i].plan.data).collect();
-    let tables = read_tables(program, &needed, report);
+    read_tables(program, &needed, tables, report);
+    let tables = &*tables;
     let folder_errors = match mode {
         Mode::Build => create_folders(todo.iter().map(|&i| jobs[i].dir.as_path())),
         _ => BTreeMap::new(),
@@ -400,7 +472,7 @@ fn make_all(
     for (i, made) in todo.into_iter().zip(made) {
         report.written.extend(made.written);
         outcomes[i] = match made.result {
-            Ok(hashes) => Outcome::Made(hashes),
+            Ok((hashes, summary)) => Outcome::Made(hashes, summary),
             Err(FigureError::Data(diags)) => {
                 report.diagnostics.extend(diags);
                 Outcome::Failed
@@ -424,26 +496,27 @@ fn thread_pool(jobs: Option<NonZeroUsize>) -> Result<rayon::ThreadPool, BuildErr
         .map_err(|e| BuildError::Internal(format!("cannot start the worker threads: {e}")))
 }
 
-/// Reads the tables of the codebooks in `needed`, once each; `None` for a table with errors.
+/// Reads the tables of the codebooks in `needed` that are not read yet, once each.
 fn read_tables(
     program: &Program,
     needed: &BTreeSet<usize>,
+    tables: &mut Tables,
     report: &mut BuildReport,
-) -> BTreeMap<usize, Option<Table>> {
-    needed
-        .iter()
-        .map(|&idx| {
-            let spec = table_spec(&program.codebooks[idx]);
-            let table = match data::read_table(&spec, &mut report.sources) {
-                Ok(t) => Some(t),
-                Err(diags) => {
-                    report.diagnostics.extend(diags);
-                    None
-                }
-            };
-            (idx, table)
-        })
-        .collect()
+) {
+    for &idx in needed {
+        if tables.contains_key(&idx) {
+            continue;
+        }
+        let spec = table_spec(&program.codebooks[idx]);
+        let table = match data::read_table(&spec, &mut report.sources) {
+            Ok(t) => Some(t),
+            Err(diags) => {
+                report.diagnostics.extend(diags);
+                None
+            }
+        };
+        tables.insert(idx, table);
+    }
 }
 
 /// Creates each output folder once (outputs are then written without creating folders);
@@ -502,59 +575,234 @@ fn make(job: &Job, program: &Program, table: &Table, mode: Mode, tool: &str) -> 
         hashes.insert(name, blake3::hash(&bytes).to_hex().to_string());
     }
     Made {
-        result: Ok(hashes),
+        result: Ok((hashes, outputs.summary)),
         written,
     }
 }
 
-/// Records, in each output folder's manifest, what its figures were built from.
-fn write_manifests(
-    options: &BuildOptions,
-    specs: &[PathBuf],
-    jobs: &[Job],
-    outcomes: &[Outcome],
-    manifests: &mut Manifests,
-    report: &mut BuildReport,
-) -> Result<(), BuildError> {
-    let rebuilt: BTreeSet<PathBuf> = specs
+/// The spec files and figure names a run speaks for (see [`Scope`]).
+fn scope_parts(run: &Run) -> (BTreeSet<PathBuf>, BTreeSet<String>) {
+    let specs = run
+        .specs
         .iter()
         .filter_map(|p| fs::canonicalize(p).ok())
         .collect();
-    let tool = format!("figura {}", options.tool_version);
-    let mut by_dir: BTreeMap<&Path, Vec<usize>> = BTreeMap::new();
-    for (i, job) in jobs.iter().enumerate() {
-        by_dir.entry(job.dir.as_path()).or_default().push(i);
+    let figures = run
+        .units
+        .iter()
+        .filter(|u| u.build_figures)
+        .flat_map(inputs::figure_blocks_of)
+        .map(|b| b.name.name.clone())
+        .collect();
+    (specs, figures)
+}
+
+/// Every output folder of the run, with the jobs that write into it: the folders of the
+/// checked figures, and the folders the run's spec files may have written to before (which
+/// may hold only orphans now).
+fn folders(run: &Run) -> BTreeMap<PathBuf, Vec<usize>> {
+    let mut by_dir: BTreeMap<PathBuf, Vec<usize>> =
+        prune::output_dirs(run.specs, run.options.out.as_deref())
+            .into_iter()
+            .filter(|d| d.join(manifest::FILE_NAME).is_file())
+            .map(|d| (d, Vec::new()))
+            .collect();
+    for (i, job) in run.jobs.iter().enumerate() {
+        by_dir.entry(job.dir.clone()).or_default().push(i);
     }
-    for (dir, members) in by_dir {
-        write::remove_stale_temp_files(dir);
-        let old = manifests.remove(dir).unwrap_or_else(|| Manifest::read(dir));
-        let mut update = manifest::Update::new(dir, &old, &rebuilt, &tool);
-        for i in members {
-            let job = &jobs[i];
+    by_dir
+}
+
+/// The figures of a folder as its numbers files see them.
+fn members<'r>(run: &'r Run, members: &[usize]) -> Vec<numbers::Member<'r>> {
+    members
+        .iter()
+        .map(|&i| numbers::Member {
+            name: &run.jobs[i].plan.name,
+            inputs: &run.jobs[i].inputs,
+            made: match &run.outcomes[i] {
+                Outcome::Kept | Outcome::Made(..) => true,
+                Outcome::Failed => false,
+                Outcome::Compared(f) => *f != Freshness::Failing,
+            },
+        })
+        .collect()
+}
+
+/// Records, in each output folder's manifest, what its figures were built from; removes
+/// the files of orphaned figures and outputs figures no longer make; writes the numbers
+/// files that are not up to date.
+fn write_manifests(
+    run: &Run,
+    tables: &mut Tables,
+    manifests: &mut Manifests,
+    report: &mut BuildReport,
+) -> Result<(), BuildError> {
+    let (specs, figures) = scope_parts(run);
+    let scope = Scope {
+        specs: &specs,
+        figures: &figures,
+    };
+    let tool = format!("figura {}", run.options.tool_version);
+    for (dir, members) in folders(run) {
+        write::remove_stale_temp_files(&dir);
+        let old = manifests
+            .remove(&dir)
+            .unwrap_or_else(|| Manifest::read(&dir));
+        let mut update = manifest::Update::new(&dir, &old, &scope, &tool);
+        for &i in &members {
+            let job = &run.jobs[i];
             let (name, spec) = (job.plan.name.as_str(), job.plan.spec_path.as_path());
-            match &outcomes[i] {
+            match &run.outcomes[i] {
                 Outcome::Kept => {
                     if let Some(entry) = old.figures.get(name) {
                         update.built(name, spec, &job.inputs, entry.outputs.clone());
                     }
                 }
-                Outcome::Made(hashes) => update.built(name, spec, &job.inputs, hashes.clone()),
+                Outcome::Made(hashes, _) => update.built(name, spec, &job.inputs, hashes.clone()),
                 Outcome::Failed => update.failed(name, spec, &job.inputs),
                 Outcome::Compared(_) => {}
             }
         }
-        let next = update.finish();
+        let numbers = folder_numbers(run, &dir, &members, old.numbers.as_ref(), tables, report)?;
+        update.numbers(numbers);
+        report.orphans.extend(orphans_of(&dir, &update));
+        let (next, unlisted) = update.finish();
+        report.removed.extend(prune::remove_files(&dir, &unlisted)?);
         let path = dir.join(manifest::FILE_NAME);
-        if next.figures.is_empty() && !path.exists() {
+        if next.figures.is_empty() && next.failing.is_empty() && !path.exists() {
             continue;
         }
         // A folder whose figures all failed was not created for outputs.
-        fs::create_dir_all(dir).map_err(|e| BuildError::io(dir, e))?;
+        fs::create_dir_all(&dir).map_err(|e| BuildError::io(&dir, e))?;
         if write_if_changed(&path, &next.to_bytes())? {
             report.written.push(path);
         }
     }
     Ok(())
+}
+
+fn orphans_of(dir: &Path, update: &manifest::Update) -> Vec<OrphanStatus> {
+    update
+        .orphans()
+        .iter()
+        .map(|o| OrphanStatus {
+            name: o.name.clone(),
+            dir: dir.to_path_buf(),
+            files: o.files.clone(),
+        })
+        .collect()
+}
+
+/// Makes the numbers files of folder `dir` unless they are up to date; returns the entry to
+/// record (`None` when the run asks for no numbers files).
+fn folder_numbers(
+    run: &Run,
+    dir: &Path,
+    indices: &[usize],
+    recorded: Option<&NumbersEntry>,
+    tables: &mut Tables,
+    report: &mut BuildReport,
+) -> Result<Option<NumbersEntry>, BuildError> {
+    let formats = &run.options.numbers;
+    if formats.is_empty() || indices.is_empty() {
+        return Ok(None);
+    }
+    let inputs = numbers::inputs_hash(formats, &members(run, indices));
+    let files: Vec<String> = formats.iter().map(|f| f.file_name().to_string()).collect();
+    if numbers::freshness(dir, recorded, formats, &inputs) == Freshness::UpToDate {
+        report.numbers.push(NumbersStatus {
+            dir: dir.to_path_buf(),
+            files,
+            state: FigureState::UpToDate,
+        });
+        return Ok(recorded.cloned());
+    }
+    let figures = summaries(run, indices, tables, report);
+    let made = numbers::files(formats, &figures);
+    for (name, bytes) in &made {
+        let path = dir.join(name);
+        if write_if_changed(&path, bytes)? {
+            report.written.push(path);
+        }
+    }
+    report.numbers.push(NumbersStatus {
+        dir: dir.to_path_buf(),
+        files,
+        state: FigureState::Built,
+    });
+    Ok(Some(numbers::entry(inputs, &made)))
+}
+
+/// The summaries of the figures `indices` that were made or are up to date: those made in
+/// this run as they were made, the others computed again from their tables.
+fn summaries(
+    run: &Run,
+    indices: &[usize],
+    tables: &mut Tables,
+    report: &mut BuildReport,
+) -> Vec<FigureNumbers> {
+    let kept: BTreeSet<usize> = indices
+        .iter()
+        .filter(|&&i| matches!(run.outcomes[i], Outcome::Kept))
+        .map(|&i| run.jobs[i].plan.data)
+        .collect();
+    read_tables(run.program, &kept, tables, report);
+    let mut out = Vec::new();
+    for &i in indices {
+        let plan = run.jobs[i].plan;
+        let book = &run.program.codebooks[plan.data];
+        let rows = match &run.outcomes[i] {
+            Outcome::Made(_, rows) => Some(rows.clone()),
+            Outcome::Kept => match tables.get(&plan.data) {
+                Some(Some(table)) => crate::compute::compute(plan, book, table)
+                    .ok()
+                    .map(|data| data.summary),
+                _ => None,
+            },
+            Outcome::Failed | Outcome::Compared(_) => None,
+        };
+        if let Some(rows) = rows {
+            out.push(FigureNumbers {
+                figure: plan.name.clone(),
+                unit: crate::numbers::measured_unit(plan, book),
+                rows,
+            });
+        }
+    }
+    out
+}
+
+/// A status run's view of each output folder: orphaned figures and numbers files.
+fn status_of_folders(run: &Run, manifests: &Manifests, report: &mut BuildReport) {
+    let (specs, figures) = scope_parts(run);
+    let scope = Scope {
+        specs: &specs,
+        figures: &figures,
+    };
+    for (dir, indices) in folders(run) {
+        let old = manifests
+            .get(&dir)
+            .cloned()
+            .unwrap_or_else(|| Manifest::read(&dir));
+        let update = manifest::Update::new(&dir, &old, &scope, "");
+        report.orphans.extend(orphans_of(&dir, &update));
+        let formats = &run.options.numbers;
+        if formats.is_empty() || indices.is_empty() {
+            continue;
+        }
+        let inputs = numbers::inputs_hash(formats, &members(run, &indices));
+        let state = match numbers::freshness(&dir, old.numbers.as_ref(), formats, &inputs) {
+            Freshness::UpToDate => FigureState::UpToDate,
+            Freshness::Missing => FigureState::Missing,
+            Freshness::Stale | Freshness::Failing => FigureState::Stale,
+        };
+        report.numbers.push(NumbersStatus {
+            dir,
+            files: formats.iter().map(|f| f.file_name().to_string()).collect(),
+            state,
+        });
+    }
 }
 
 /// Every figure block of the spec files, with its state (failed when it did not check).

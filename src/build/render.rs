@@ -22,6 +22,8 @@ use super::BuildError;
 pub struct FigureOutputs {
     /// (file name, bytes), in the order of [`output_kinds`].
     pub files: Vec<(String, Vec<u8>)>,
+    /// The summary rows, for the manuscript numbers.
+    pub summary: Vec<compute::SummaryRow>,
 }
 
 /// Why one figure could not be made.
@@ -43,6 +45,13 @@ pub enum OutputKind {
 }
 
 impl OutputKind {
+    pub const ALL: [OutputKind; 4] = [
+        OutputKind::Svg,
+        OutputKind::Png,
+        OutputKind::Pdf,
+        OutputKind::Summary,
+    ];
+
     /// The file name of this output of figure `figure`.
     pub fn file_name(self, figure: &str) -> String {
         let ext = match self {
@@ -177,7 +186,10 @@ fn make_outputs(
                 export::png_pixel_size(scene.width_mm, scene.height_mm, f64::from(plan.dpi))
                     .map_err(limit)?;
             }
-            return Ok(FigureOutputs { files: Vec::new() });
+            return Ok(FigureOutputs {
+                files: Vec::new(),
+                summary: numbers.summary,
+            });
         }
     };
     let rendered = export::render(&scene)
@@ -196,7 +208,10 @@ fn make_outputs(
         };
         files.push((kind.file_name(&plan.name), bytes));
     }
-    Ok(FigureOutputs { files })
+    Ok(FigureOutputs {
+        files,
+        summary: numbers.summary,
+    })
 }
 
 /// A failure of drawing that is a bug, not the user's doing.

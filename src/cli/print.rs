@@ -77,7 +77,8 @@ pub fn check_line(report: &BuildReport, elapsed: Duration) {
     );
 }
 
-/// `figura build --check`: one line per figure that is not up to date.
+/// `figura build --check`: one line per figure or numbers file that is not up to date, and
+/// per orphaned figure.
 pub fn out_of_date(report: &BuildReport) {
     for f in report
         .figures
@@ -91,16 +92,54 @@ pub fn out_of_date(report: &BuildReport) {
             display_path(&f.spec).display()
         );
     }
+    for n in report
+        .numbers
+        .iter()
+        .filter(|n| n.state != FigureState::UpToDate)
+    {
+        eprintln!(
+            "{:<8} numbers ({})",
+            n.state.as_str(),
+            in_folder(&n.dir, &n.files)
+        );
+    }
+    for o in &report.orphans {
+        eprintln!("orphaned {} ({})", o.name, in_folder(&o.dir, &o.files));
+    }
 }
 
-/// `figura build --check`'s closing line.
+/// `out/a.svg, a.png`: the first file with its folder, the others by name.
+fn in_folder(dir: &std::path::Path, files: &[String]) -> String {
+    match files.split_first() {
+        Some((first, rest)) => {
+            std::iter::once(display_path(&dir.join(first)).display().to_string())
+                .chain(rest.iter().cloned())
+                .collect::<Vec<_>>()
+                .join(", ")
+        }
+        None => display_path(dir).display().to_string(),
+    }
+}
+
+/// `figura build`: the orphaned figures whose files were removed.
+pub fn removed(report: &BuildReport) {
+    for o in &report.orphans {
+        eprintln!("removed  {} ({})", o.name, in_folder(&o.dir, &o.files));
+    }
+}
+
+/// `figura build --check`'s closing line (numbers files count as one item per folder).
 pub fn status_line(report: &BuildReport, elapsed: Duration) {
+    let count = |state: FigureState| {
+        report.count(state) + report.numbers.iter().filter(|n| n.state == state).count()
+    };
     eprintln!(
-        "{} up to date, {} stale, {} missing, {} failing in {}",
-        report.count(FigureState::UpToDate),
-        report.count(FigureState::Stale),
-        report.count(FigureState::Missing),
-        report.count(FigureState::Failed),
+        "{} up to date, {} stale, {} missing, {} failing, {} orphaned in {}",
+        count(FigureState::UpToDate),
+        count(FigureState::Stale),
+        count(FigureState::Missing),
+        count(FigureState::Failed),
+        report.orphans.len(),
         seconds(elapsed)
     );
 }

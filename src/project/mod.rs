@@ -5,6 +5,7 @@
 //! specs = ["figures"]     # folders searched for *.figura (default ["."])
 //! out = "figures/out"     # every output here (default: out/ beside each spec)
 //! allow-outside = ["../shared-data"]  # folders outside the project specs may use
+//! numbers = ["tex", "typ", "json"]  # manuscript numbers files (default: none)
 //!
 //! [defaults]
 //! formats = ["svg", "png"]
@@ -33,6 +34,7 @@ use crate::build::paths::{relative_to, resolved, Bounds, RootKind};
 use crate::check::{FigureDefaults, Formats, DPI_LIMITS};
 use crate::diag::{did_you_mean, Code, Diagnostic, SourceId, SourceMap, Span};
 use crate::files;
+use crate::numbers::NumbersFormat;
 
 /// The file that marks a project's root.
 pub const FILE_NAME: &str = "figura.toml";
@@ -49,6 +51,8 @@ pub struct Settings {
     pub out: Option<PathBuf>,
     /// Folders outside the project that specs may read from and write to.
     pub allow_outside: Vec<PathBuf>,
+    /// Manuscript numbers files to write in each output folder.
+    pub numbers: Vec<NumbersFormat>,
     pub defaults: FigureDefaults,
     /// Each path of `specs` and `out` as written, with its span, for messages about it.
     pub written: Vec<WrittenPath>,
@@ -60,6 +64,7 @@ impl Default for Settings {
             specs: vec![PathBuf::from(".")],
             out: None,
             allow_outside: Vec::new(),
+            numbers: Vec::new(),
             defaults: FigureDefaults::default(),
             written: Vec::new(),
         }
@@ -87,6 +92,8 @@ pub struct Project {
     pub out: Option<PathBuf>,
     /// Folders outside the project that specs may read from and write to, joined to the root.
     pub allow_outside: Vec<PathBuf>,
+    /// Manuscript numbers files to write in each output folder.
+    pub numbers: Vec<NumbersFormat>,
     pub defaults: FigureDefaults,
 }
 
@@ -171,6 +178,7 @@ pub fn open(root: &Path) -> Result<Project, ProjectError> {
         specs: settings.specs.iter().map(|p| join(root, p)).collect(),
         out: settings.out.as_deref().map(|p| join(root, p)),
         allow_outside,
+        numbers: settings.numbers,
         defaults: settings.defaults,
         file,
     })
@@ -327,7 +335,16 @@ impl Reader {
                         settings.allow_outside = list.into_iter().map(|w| w.path).collect();
                     }
                 }
-                _ => self.unknown(key, "project.", &["specs", "out", "allow-outside"]),
+                "numbers" => {
+                    if let Some(n) = self.numbers(value) {
+                        settings.numbers = n;
+                    }
+                }
+                _ => self.unknown(
+                    key,
+                    "project.",
+                    &["specs", "out", "allow-outside", "numbers"],
+                ),
             }
         }
     }
@@ -460,6 +477,41 @@ impl Reader {
                     .with_help("write, for example, formats = [\"svg\", \"png\"]"),
             );
             return None;
+        }
+        ok.then_some(formats)
+    }
+
+    /// `numbers = ["tex", "typ", "json"]`: the formats in the order written, each once.
+    fn numbers(&mut self, value: &Spanned<DeValue<'_>>) -> Option<Vec<NumbersFormat>> {
+        let expected = "`numbers` is a list such as [\"tex\", \"typ\", \"json\"]";
+        let items = self.array(value, expected)?;
+        let mut formats = Vec::new();
+        let mut ok = true;
+        for item in items {
+            let Some(word) = self.string(item, expected) else {
+                ok = false;
+                continue;
+            };
+            match NumbersFormat::from_word(&word) {
+                Some(f) if !formats.contains(&f) => formats.push(f),
+                Some(_) => {}
+                None => {
+                    ok = false;
+                    let known = NumbersFormat::ALL.map(NumbersFormat::word);
+                    let help = match did_you_mean(&word, known.iter().copied()) {
+                        Some(s) => format!("did you mean \"{s}\"? the formats are \"tex\" (LaTeX), \"typ\" (Typst) and \"json\""),
+                        None => "the formats are \"tex\" (LaTeX), \"typ\" (Typst) and \"json\"".to_string(),
+                    };
+                    self.diags.push(
+                        Diagnostic::new(
+                            Code::BadValue,
+                            format!("\"{word}\" is not a numbers format"),
+                        )
+                        .with_label(self.span(item), "unknown format")
+                        .with_help(help),
+                    );
+                }
+            }
         }
         ok.then_some(formats)
     }

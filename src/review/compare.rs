@@ -5,15 +5,21 @@
 //! deterministic, so equal inputs give equal bytes), except the PDF, which is compared by
 //! presence only: it is drawn from the same drawing as the SVG, so it changes exactly when the
 //! SVG does, and the PDF writer does not order its resource dictionaries the same way in every
-//! process. Its numbers are compared row by row on
-//! the key `panel,layer,group,x,stat` (with a running count for keys that repeat, such as one
-//! `outliers` row per outlier), so rows that appear or disappear are reported too.
+//! process. Its numbers are compared row by row on the key `panel,layer,group,x,stat`, so
+//! rows that appear or disappear are reported too. The values of a list statistic (one
+//! `outliers` row per outlier) are compared as sets: a value on both sides is no change, and
+//! the others are listed as removed or added — never paired by position. Other keys that
+//! repeat (a layer written twice) are paired in order.
+//!
+//! For reading, numbers are shown rounded to the decimals that give their difference two
+//! significant digits (see [`StatChange::shown`]); the exact values stay in the change.
 
 use std::collections::BTreeMap;
 use std::fs;
 use std::path::Path;
 
 use crate::compute::summary::format_number;
+use crate::numbers::LIST_STATS;
 
 use super::ReviewError;
 
@@ -122,23 +128,99 @@ pub struct StatChange {
     pub new: Option<String>,
 }
 
+/// A change as the report shows it: both values and the difference, rounded for reading.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct Shown {
+    pub old: Option<String>,
+    pub new: Option<String>,
+    /// `new − old` with its sign, when both are numbers.
+    pub difference: Option<String>,
+}
+
 impl StatChange {
-    /// `new − old` when both are numbers, written for reading (`+2`, `-0.35`).
-    pub fn difference(&self) -> Option<String> {
+    /// `new − old` when both are numbers.
+    fn delta(&self) -> Option<f64> {
         let old: f64 = self.old.as_deref()?.parse().ok()?;
         let new: f64 = self.new.as_deref()?.parse().ok()?;
-        Some(signed(new - old))
+        Some(new - old)
+    }
+
+    /// How large the change is, for ordering: `|new − old| / max(|old|, |new|)`, 0 to 1 for
+    /// moved numbers (1 when one side is 0); `None` for a row that appeared or disappeared or
+    /// a value that is not a number.
+    pub fn size(&self) -> Option<f64> {
+        let d = self.delta()?.abs();
+        let old: f64 = self.old.as_deref()?.parse().ok()?;
+        let new: f64 = self.new.as_deref()?.parse().ok()?;
+        let scale = old.abs().max(new.abs());
+        Some(if scale > 0.0 { d / scale } else { 0.0 })
+    }
+
+    /// The values rounded to the decimals that give the difference two significant digits
+    /// (a value with fewer decimals is shown exactly); a value without the other side gets
+    /// four significant digits. Level names are shown as they are.
+    pub fn shown(&self) -> Shown {
+        let decimals = self.delta().and_then(decimals_for_difference);
+        let show = |text: Option<&str>| {
+            let text = text?;
+            let Ok(v) = text.parse::<f64>() else {
+                return Some(text.to_owned());
+            };
+            let d = decimals.unwrap_or_else(|| significant_decimals(v, 4));
+            Some(rounded(v, text, d))
+        };
+        Shown {
+            old: show(self.old.as_deref()),
+            new: show(self.new.as_deref()),
+            difference: self
+                .delta()
+                .map(|d| signed(d, decimals.unwrap_or(MAX_DECIMALS))),
+        }
     }
 }
 
-/// A difference rounded to 6 significant digits (so `0.30000000000000004` reads `+0.3`),
-/// with its sign.
-fn signed(d: f64) -> String {
+/// The most decimals shown.
+const MAX_DECIMALS: usize = 17;
+
+/// Decimals that give `d` two significant digits (at least 0); `None` for 0 or not finite.
+fn decimals_for_difference(d: f64) -> Option<usize> {
+    if d == 0.0 || !d.is_finite() {
+        return None;
+    }
+    let decimals = 1 - d.abs().log10().floor() as i32;
+    Some(decimals.clamp(0, MAX_DECIMALS as i32) as usize)
+}
+
+/// Decimals that give `v` `digits` significant digits (at least 0).
+fn significant_decimals(v: f64, digits: i32) -> usize {
+    if v == 0.0 || !v.is_finite() {
+        return 0;
+    }
+    let decimals = digits - 1 - v.abs().log10().floor() as i32;
+    decimals.clamp(0, MAX_DECIMALS as i32) as usize
+}
+
+/// `v` (written `text` in the summary) at `decimals` decimals, or exactly when its text has
+/// no more decimals than that.
+fn rounded(v: f64, text: &str, decimals: usize) -> String {
+    let own = text.split_once('.').map_or(0, |(_, f)| f.len());
+    if own <= decimals || text.contains(['e', 'E']) {
+        text.to_owned()
+    } else {
+        let fixed = format!("{v:.decimals$}");
+        match fixed.strip_prefix('-') {
+            Some(rest) if rest.chars().all(|c| c == '0' || c == '.') => rest.to_owned(),
+            _ => fixed,
+        }
+    }
+}
+
+/// A difference rounded to `decimals` decimals, written shortest, with its sign.
+fn signed(d: f64, decimals: usize) -> String {
     if !d.is_finite() {
         return format!("{d}");
     }
-    // Scientific notation with 5 decimals is exactly 6 significant digits.
-    let rounded: f64 = format!("{d:.5e}").parse().unwrap_or(d);
+    let rounded: f64 = format!("{d:.decimals$}").parse().unwrap_or(d);
     let text = format_number(rounded);
     if rounded > 0.0 {
         format!("+{text}")
@@ -177,12 +259,17 @@ pub fn parse_summary(bytes: &[u8]) -> Result<Vec<(StatKey, String)>, String> {
 }
 
 /// Every number that differs between two summaries: rows in the new file's order, then rows
-/// that only the old file has, in its order.
+/// that only the old file has, in its order; the values of list statistics compared as sets
+/// (see the module doc). Then ordered by size of change, largest first (see
+/// [`StatChange::size`]); rows that appeared or disappeared after the moved ones.
 pub fn compare_numbers(old: &[(StatKey, String)], new: &[(StatKey, String)]) -> Vec<StatChange> {
-    let old_map: BTreeMap<&StatKey, &String> = old.iter().map(|(k, v)| (k, v)).collect();
-    let new_map: BTreeMap<&StatKey, &String> = new.iter().map(|(k, v)| (k, v)).collect();
+    let is_list = |k: &StatKey| LIST_STATS.contains(&k.stat.as_str());
+    let (old_lists, old_rows): (Vec<_>, Vec<_>) = old.iter().partition(|(k, _)| is_list(k));
+    let (new_lists, new_rows): (Vec<_>, Vec<_>) = new.iter().partition(|(k, _)| is_list(k));
+    let old_map: BTreeMap<&StatKey, &String> = old_rows.iter().map(|(k, v)| (k, v)).collect();
+    let new_map: BTreeMap<&StatKey, &String> = new_rows.iter().map(|(k, v)| (k, v)).collect();
     let mut changes = Vec::new();
-    for (key, value) in new {
+    for (key, value) in &new_rows {
         match old_map.get(key) {
             Some(before) if *before == value => {}
             before => changes.push(StatChange {
@@ -192,7 +279,7 @@ pub fn compare_numbers(old: &[(StatKey, String)], new: &[(StatKey, String)]) -> 
             }),
         }
     }
-    for (key, value) in old {
+    for (key, value) in &old_rows {
         if !new_map.contains_key(key) {
             changes.push(StatChange {
                 key: key.clone(),
@@ -201,7 +288,75 @@ pub fn compare_numbers(old: &[(StatKey, String)], new: &[(StatKey, String)]) -> 
             });
         }
     }
+    changes.extend(set_changes(&old_lists, &new_lists));
+    // A stable sort: equal sizes keep the order above.
+    changes.sort_by(|a, b| match (a.size(), b.size()) {
+        (Some(x), Some(y)) => y.total_cmp(&x),
+        (Some(_), None) => std::cmp::Ordering::Less,
+        (None, Some(_)) => std::cmp::Ordering::Greater,
+        (None, None) => std::cmp::Ordering::Equal,
+    });
     changes
+}
+
+/// The values of list statistics that only one side has, per key (keys in order of first
+/// appearance, new file first): removed ones, then added ones, each in file order.
+fn set_changes(old: &[&(StatKey, String)], new: &[&(StatKey, String)]) -> Vec<StatChange> {
+    let base = |k: &StatKey| StatKey {
+        occurrence: 0,
+        ..k.clone()
+    };
+    let mut order: Vec<StatKey> = Vec::new();
+    let mut values: BTreeMap<StatKey, (Vec<String>, Vec<String>)> = BTreeMap::new();
+    for (side, rows) in [(1, new), (0, old)] {
+        for (k, v) in rows.iter().map(|r| (&r.0, &r.1)) {
+            let key = base(k);
+            let slot = values.entry(key.clone()).or_insert_with(|| {
+                order.push(key);
+                (Vec::new(), Vec::new())
+            });
+            if side == 0 { &mut slot.0 } else { &mut slot.1 }.push(v.clone());
+        }
+    }
+    let mut out = Vec::new();
+    for key in order {
+        let Some((old_values, new_values)) = values.remove(&key) else {
+            continue;
+        };
+        let removed = without(&old_values, &new_values);
+        let added = without(&new_values, &old_values);
+        out.extend(removed.into_iter().map(|v| StatChange {
+            key: key.clone(),
+            old: Some(v),
+            new: None,
+        }));
+        out.extend(added.into_iter().map(|v| StatChange {
+            key: key.clone(),
+            old: None,
+            new: Some(v),
+        }));
+    }
+    out
+}
+
+/// The values of `values` left when each value of `other` takes away one equal value (a
+/// multiset difference), in order.
+fn without(values: &[String], other: &[String]) -> Vec<String> {
+    let mut left: BTreeMap<&str, usize> = BTreeMap::new();
+    for v in other {
+        *left.entry(v.as_str()).or_default() += 1;
+    }
+    values
+        .iter()
+        .filter(|v| match left.get_mut(v.as_str()) {
+            Some(n) if *n > 0 => {
+                *n -= 1;
+                false
+            }
+            _ => true,
+        })
+        .cloned()
+        .collect()
 }
 
 /// One figure's comparison.
@@ -303,7 +458,7 @@ mod tests {
         ,histogram,,\"[2.5,5]\",count,1\n";
 
     #[test]
-    fn moved_new_and_gone_numbers_are_listed() {
+    fn moved_new_and_gone_numbers_are_listed_and_outliers_compared_as_sets() {
         let old = parse_summary(OLD.as_bytes()).unwrap();
         let new = parse_summary(NEW.as_bytes()).unwrap();
         let changes = compare_numbers(&old, &new);
@@ -311,13 +466,14 @@ mod tests {
         let shown: Vec<String> = changes
             .iter()
             .map(|c| {
+                let s = c.shown();
                 format!(
                     "{} {}: {:?} -> {:?} ({:?})",
                     c.key.x,
                     c.key.stat_label(),
-                    c.old,
-                    c.new,
-                    c.difference()
+                    s.old,
+                    s.new,
+                    s.difference
                 )
             })
             .collect();
@@ -326,17 +482,48 @@ mod tests {
             [
                 "paper median: Some(\"210\") -> Some(\"212.5\") (Some(\"+2.5\"))",
                 "[2.5,5] count: None -> Some(\"1\") (None)",
-                "paper outliers #2: Some(\"400\") -> None (None)",
+                "paper outliers: Some(\"400\") -> None (None)",
             ]
         );
+        // 51.1 stopped being an outlier and 65.9 became one: not "51.1 → 65.9".
+        let rows = |vals: &[&str]| -> Vec<(StatKey, String)> {
+            let text: String = vals
+                .iter()
+                .map(|v| format!(",box,,a,outliers,{v}\n"))
+                .collect();
+            parse_summary(format!("panel,layer,group,x,stat,value\n{text}").as_bytes()).unwrap()
+        };
+        let changes = compare_numbers(&rows(&["12", "51.1", "80"]), &rows(&["12", "65.9", "80"]));
+        let pairs: Vec<(Option<&str>, Option<&str>)> = changes
+            .iter()
+            .map(|c| (c.old.as_deref(), c.new.as_deref()))
+            .collect();
+        assert_eq!(pairs, [(Some("51.1"), None), (None, Some("65.9"))]);
     }
 
     #[test]
-    fn differences_read_well() {
-        assert_eq!(signed(0.1 + 0.2), "+0.3");
-        assert_eq!(signed(-2.0), "-2");
-        assert_eq!(signed(0.0), "0");
-        assert_eq!(signed(1234567.0), "+1234570");
+    fn numbers_are_rounded_to_show_their_change() {
+        let change = |old: &str, new: &str| StatChange {
+            key: parse_summary(b"panel,layer,group,x,stat,value\n,mean,,a,mean,0\n").unwrap()[0]
+                .0
+                .clone(),
+            old: Some(old.into()),
+            new: Some(new.into()),
+        };
+        let s = change("228.49530354827652", "229.12345678").shown();
+        assert_eq!(
+            (s.old.as_deref(), s.new.as_deref(), s.difference.as_deref()),
+            (Some("228.50"), Some("229.12"), Some("+0.63"))
+        );
+        // Short values stay exact.
+        let s = change("88.5", "95.5").shown();
+        assert_eq!(
+            (s.old.as_deref(), s.new.as_deref(), s.difference.as_deref()),
+            (Some("88.5"), Some("95.5"), Some("+7"))
+        );
+        let s = change("0.1", "0.30000000000000004").shown();
+        assert_eq!(s.difference.as_deref(), Some("+0.2"));
+        assert_eq!(change("10", "9").size(), Some(0.1));
     }
 
     #[test]

@@ -1,9 +1,19 @@
 //! `index.html`: one self-contained page to review every figure that differs.
 //!
-//! The page needs nothing beside it: the style is inline, pictures are `data:` URIs (base64
-//! PNG), and there is no script. It shows the table of figures and their states, each changed
-//! figure's picture diff and moved numbers, each added or removed figure's picture, and a line
-//! diff (with three lines of context) of every spec and data file that differs.
+//! The page needs nothing beside it: the style is inline and pictures are `data:` URIs
+//! (base64 PNG). It shows the table of figures and their states, the quoted numbers that
+//! changed, each changed figure (largest change first) with a picture comparison and its
+//! moved numbers, each added or removed figure's picture, and a line diff (with three lines
+//! of context) of every spec and data file that differs.
+//!
+//! The comparison shows one picture at the page's width at a time: *before*, *after* or the
+//! *changed pixels* — switched with buttons that need no script, so flipping between them
+//! shows every change in place — or *slide*, the after picture over the before picture up to
+//! a slider the reviewer drags (one line of script moves the edge). Numbers are rounded to
+//! show their change; the exact values appear on hover (`title`).
+//!
+//! Every text from specs and data is escaped; the only script is the slider's, and it reads
+//! nothing but the slider.
 
 use std::fmt::Write as _;
 
@@ -11,6 +21,7 @@ use base64::Engine as _;
 
 use super::compare::{StatChange, State};
 use super::lines::{self, Op};
+use super::quotes::QuoteChange;
 use super::sources::SourceChange;
 use super::{FigureReview, Picture, Review};
 
@@ -24,15 +35,30 @@ pub const MAX_DIFF_LINES: usize = 400;
 const CONTEXT: usize = 3;
 
 const STYLE: &str = "
+* { box-sizing: border-box; }
 body { font-family: sans-serif; margin: 2em auto; max-width: 1400px; padding: 0 1em; color: #222; }
 h1 { font-size: 1.6em; } h2 { font-size: 1.3em; margin-top: 2em; } h3 { font-size: 1.05em; }
 table { border-collapse: collapse; margin: 0.8em 0; }
 th, td { border: 1px solid #ccc; padding: 0.25em 0.6em; text-align: left; }
 td.num { text-align: right; font-variant-numeric: tabular-nums; }
+td[title] { cursor: help; }
 .state { font-weight: bold; }
 .changed { color: #a04000; } .added { color: #006a4e; } .removed { color: #8b0000; } .unchanged { color: #666; }
-img { max-width: 100%; border: 1px solid #ddd; }
-img.single { max-width: min(100%, 520px); }
+img { max-width: 100%; border: 1px solid #ddd; display: block; }
+img.single { max-width: min(100%, 900px); }
+.compare > input { position: absolute; opacity: 0; }
+.compare > label { display: inline-block; padding: 0.3em 0.9em; margin: 0 0.3em 0.5em 0; border: 1px solid #999; border-radius: 4px; cursor: pointer; user-select: none; }
+.compare > input:checked + label { background: #0072b2; border-color: #0072b2; color: #fff; }
+.compare > input:focus-visible + label { outline: 2px solid #e69f00; }
+.stack { position: relative; width: 100%; }
+.stack img { width: 100%; height: auto; }
+.stack .after { position: absolute; left: 0; top: 0; display: none; clip-path: inset(0 0 0 var(--split, 50%)); }
+.stack .marks, .compare .slider { display: none; }
+.compare input.show-after:checked ~ .stack .after { display: block; clip-path: none; }
+.compare input.show-changed:checked ~ .stack img { display: none; }
+.compare input.show-changed:checked ~ .stack .marks { display: block; }
+.compare input.show-slide:checked ~ .stack .after { display: block; }
+.compare input.show-slide:checked ~ .slider { display: block; width: 100%; margin: 0.4em 0 0 0; }
 pre.diff { background: #f7f7f7; padding: 0.6em; overflow-x: auto; font-size: 0.85em; }
 pre.diff .del { background: #fde2e1; display: block; }
 pre.diff .ins { background: #dcf5e3; display: block; }
@@ -79,12 +105,14 @@ pub fn page(review: &Review) -> String {
         review.count(State::Unchanged),
     );
     figure_table(&mut out, review);
-    for f in review
+    quote_table(&mut out, &review.quotes);
+    for (i, f) in review
         .figures
         .iter()
         .filter(|f| f.diff.state != State::Unchanged)
+        .enumerate()
     {
-        figure_section(&mut out, f);
+        figure_section(&mut out, f, i);
     }
     if !review.sources.is_empty() {
         out.push_str("<h2 id=\"files\">Spec and data files that differ</h2>\n");
@@ -99,7 +127,7 @@ pub fn page(review: &Review) -> String {
 fn figure_table(out: &mut String, review: &Review) {
     out.push_str(
         "<table class=\"figures\">\n<thead><tr><th>Figure</th><th>State</th>\
-         <th>Numbers moved</th></tr></thead>\n<tbody>\n",
+         <th>Numbers moved</th><th>Pixels changed</th></tr></thead>\n<tbody>\n",
     );
     for f in &review.figures {
         let name = escape(&f.diff.name);
@@ -113,16 +141,93 @@ fn figure_table(out: &mut String, review: &Review) {
             State::Changed => f.diff.numbers.len().to_string(),
             _ => String::new(),
         };
+        let pixels = match &f.picture {
+            Picture::Diff { changed_pixels, .. } => format!(
+                "{changed_pixels} ({:.2}%)",
+                100.0 * f.picture.changed_share()
+            ),
+            _ => String::new(),
+        };
         let _ = writeln!(
             out,
             "<tr><td>{shown}</td><td class=\"state {state}\">{state}</td>\
-             <td class=\"num\">{numbers}</td></tr>"
+             <td class=\"num\">{numbers}</td><td class=\"num\">{pixels}</td></tr>"
         );
     }
     out.push_str("</tbody>\n</table>\n");
 }
 
-fn figure_section(out: &mut String, f: &FigureReview) {
+fn quote_table(out: &mut String, quotes: &[QuoteChange]) {
+    if quotes.is_empty() {
+        return;
+    }
+    out.push_str(
+        "<h2 id=\"quotes\">Quoted numbers that changed</h2>\n<table class=\"quotes\">\n\
+         <thead><tr><th>Figure</th><th>Statistic</th><th>Cell</th><th>Before</th>\
+         <th>After</th></tr></thead>\n<tbody>\n",
+    );
+    let dash = |v: Option<&str>| v.map_or_else(|| "—".to_owned(), escape);
+    for q in quotes {
+        let _ = writeln!(
+            out,
+            "<tr><td>{}</td><td>{}</td><td>{}</td><td class=\"num\">{}</td>\
+             <td class=\"num\">{}</td></tr>",
+            escape(&q.figure),
+            escape(&q.stat),
+            escape(&q.cell),
+            dash(q.old.as_deref()),
+            dash(q.new.as_deref()),
+        );
+    }
+    out.push_str("</tbody>\n</table>\n");
+}
+
+/// The comparison of a changed figure: buttons, the picture stack and the slider.
+fn comparison(
+    out: &mut String,
+    index: usize,
+    name: &str,
+    before: &[u8],
+    after: &[u8],
+    changed: &[u8],
+) {
+    let group = format!("view-{index}");
+    out.push_str("<div class=\"compare\">\n");
+    for (i, (class, label)) in [
+        ("show-before", "Before"),
+        ("show-after", "After"),
+        ("show-changed", "Changed pixels"),
+        ("show-slide", "Slide"),
+    ]
+    .into_iter()
+    .enumerate()
+    {
+        let id = format!("{group}-{i}");
+        let checked = if i == 2 { " checked" } else { "" };
+        let _ = writeln!(
+            out,
+            "<input type=\"radio\" name=\"{group}\" id=\"{id}\" class=\"{class}\"{checked}>\
+             <label for=\"{id}\">{label}</label>"
+        );
+    }
+    let _ = writeln!(
+        out,
+        "<div class=\"stack\" style=\"--split: 50%\">\n\
+         <img class=\"before\" src=\"{}\" alt=\"{name} before\">\n\
+         <img class=\"after\" src=\"{}\" alt=\"{name} after\">\n\
+         <img class=\"marks\" src=\"{}\" alt=\"{name}: changed pixels marked over the new picture\">\n\
+         </div>\n\
+         <input class=\"slider\" type=\"range\" min=\"0\" max=\"100\" value=\"50\" \
+         aria-label=\"where the after picture starts\" \
+         oninput=\"this.previousElementSibling.style.setProperty('--split', this.value + '%')\">\n\
+         </div>",
+        data_uri(before),
+        data_uri(after),
+        data_uri(changed),
+    );
+}
+
+fn figure_section(out: &mut String, f: &FigureReview, index: usize) {
     let name = escape(&f.diff.name);
     let state = f.diff.state.as_str();
     let _ = writeln!(
@@ -139,18 +244,19 @@ fn figure_section(out: &mut String, f: &FigureReview) {
     }
     match &f.picture {
         Picture::Diff {
-            png,
+            before,
+            after,
+            changed,
             changed_pixels,
-            compared_pixels,
             ..
         } => {
-            let share = 100.0 * *changed_pixels as f64 / (*compared_pixels).max(1) as f64;
+            let share = 100.0 * f.picture.changed_share();
             let _ = writeln!(
                 out,
-                "<p>{changed_pixels} pixels changed ({share:.2}% of the picture).</p>\n\
-                 <img src=\"{}\" alt=\"{name}: before, after and changed pixels\">",
-                data_uri(png)
+                "<p>{changed_pixels} pixels changed ({share:.2}% of the picture), marked \
+                 over the new picture. Flip between before and after, or slide.</p>"
             );
+            comparison(out, index, &name, before, after, changed);
         }
         Picture::Single(png) => {
             let _ = writeln!(
@@ -168,6 +274,19 @@ fn figure_section(out: &mut String, f: &FigureReview) {
     out.push_str("</section>\n");
 }
 
+/// A table cell of a number: rounded, with the exact value on hover when they differ.
+fn number_cell(shown: Option<&str>, exact: Option<&str>) -> String {
+    match (shown, exact) {
+        (Some(s), Some(e)) if s != e => format!(
+            "<td class=\"num\" title=\"{}\">{}</td>",
+            escape(e),
+            escape(s)
+        ),
+        (Some(s), _) => format!("<td class=\"num\">{}</td>", escape(s)),
+        (None, _) => "<td class=\"num\">—</td>".to_owned(),
+    }
+}
+
 fn number_table(out: &mut String, numbers: &[StatChange]) {
     if numbers.is_empty() {
         out.push_str("<p>No number of the summary moved.</p>\n");
@@ -178,21 +297,20 @@ fn number_table(out: &mut String, numbers: &[StatChange]) {
          <th>x</th><th>Statistic</th><th>Before</th><th>After</th><th>Difference</th>\
          </tr></thead>\n<tbody>\n",
     );
-    let dash = |v: Option<&str>| v.map_or_else(|| "—".to_owned(), escape);
     for c in numbers.iter().take(MAX_ROWS) {
         let k = &c.key;
+        let s = c.shown();
         let _ = writeln!(
             out,
-            "<tr><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td>\
-             <td class=\"num\">{}</td><td class=\"num\">{}</td><td class=\"num\">{}</td></tr>",
+            "<tr><td>{}</td><td>{}</td><td>{}</td><td>{}</td><td>{}</td>{}{}{}</tr>",
             escape(&k.panel),
             escape(&k.layer),
             escape(&k.group),
             escape(&k.x),
             escape(&k.stat_label()),
-            dash(c.old.as_deref()),
-            dash(c.new.as_deref()),
-            dash(c.difference().as_deref()),
+            number_cell(s.old.as_deref(), c.old.as_deref()),
+            number_cell(s.new.as_deref(), c.new.as_deref()),
+            number_cell(s.difference.as_deref(), None),
         );
     }
     out.push_str("</tbody>\n</table>\n");
@@ -212,12 +330,10 @@ fn source_section(out: &mut String, s: &SourceChange) {
         "<h3>{}{what}</h3>\n<pre class=\"diff\">",
         escape(&s.path)
     );
-    let ops = lines::diff(
-        s.old.as_deref().unwrap_or(""),
-        s.new.as_deref().unwrap_or(""),
-    );
+    let old = s.old.as_deref().unwrap_or("");
+    let new = s.new.as_deref().unwrap_or("");
     let mut shown = 0;
-    'hunks: for hunk in lines::hunks(&ops, CONTEXT) {
+    'hunks: for hunk in lines::hunks(old, new, CONTEXT) {
         let _ = write!(
             out,
             "<span class=\"hunk\">@@ line {} → line {} @@</span>",

@@ -19,6 +19,7 @@ mod html;
 mod lines;
 mod markdown;
 mod picture;
+mod quotes;
 mod side;
 mod sources;
 
@@ -28,9 +29,11 @@ use std::path::{Path, PathBuf};
 use tempfile::TempDir;
 
 use crate::build::{self, write_atomic, BuildError, BuildOptions, BuildReport};
+use crate::numbers::NumbersFormat;
 
 use compare::Outputs;
 pub use compare::{FigureDiff, StatChange, StatKey, State};
+pub use quotes::QuoteChange;
 use side::{Side, SideSpec};
 use sources::{SourceChange, SourceText};
 
@@ -43,6 +46,9 @@ pub struct DiffOptions {
     pub head: Option<String>,
     /// The folder the report is written into (created if needed).
     pub report_dir: PathBuf,
+    /// Where the report folder will be published (a URL): `report.md` then links its
+    /// pictures there instead of embedding small previews.
+    pub image_url: Option<String>,
 }
 
 /// Why a comparison could not be made.
@@ -108,10 +114,13 @@ impl From<BuildError> for ReviewError {
 pub enum Picture {
     /// Unchanged figures are not shown.
     None,
-    /// A changed figure: the composed before / after / changed-pixels PNG.
+    /// A changed figure: before, after and the changed pixels, as PNG.
     Diff {
-        file: String,
-        png: Vec<u8>,
+        before: Vec<u8>,
+        after: Vec<u8>,
+        changed: Vec<u8>,
+        /// The changed pixels at most [`PREVIEW_WIDTH`] wide, for `report.md`.
+        preview: Vec<u8>,
         changed_pixels: usize,
         compared_pixels: usize,
     },
@@ -119,6 +128,28 @@ pub enum Picture {
     Single(Vec<u8>),
     /// The figure has neither a PNG nor an SVG on a side it exists on.
     Unavailable,
+}
+
+impl Picture {
+    /// The share of pixels that changed, 0 to 1 (0 for anything but a changed figure).
+    pub fn changed_share(&self) -> f64 {
+        match self {
+            Picture::Diff {
+                changed_pixels,
+                compared_pixels,
+                ..
+            } => *changed_pixels as f64 / (*compared_pixels).max(1) as f64,
+            _ => 0.0,
+        }
+    }
+}
+
+/// The width of the changed-pixels preview embedded in `report.md`, in pixels.
+pub const PREVIEW_WIDTH: u32 = 480;
+
+/// The files of a changed figure in the report folder: before, after, changed pixels.
+pub fn picture_files(figure: &str) -> [String; 3] {
+    ["before", "after", "changed"].map(|what| format!("{figure}.{what}.png"))
 }
 
 /// One figure in the report.
@@ -133,10 +164,14 @@ pub struct FigureReview {
 pub struct Review {
     pub base: String,
     pub head: String,
-    /// Changed, added, removed, then unchanged figures, each group by name.
+    /// Changed figures, the most changed pixels first; then added, removed and unchanged
+    /// figures, each group by name.
     pub figures: Vec<FigureReview>,
     /// Spec and data files that differ.
     pub sources: Vec<SourceChange>,
+    /// Quoted numbers (see [`crate::numbers`]) whose text changed; empty when neither side
+    /// writes numbers files.
+    pub quotes: Vec<QuoteChange>,
 }
 
 impl Review {
@@ -172,6 +207,11 @@ impl Review {
                 f.diff.state.as_str(),
                 f.diff.name
             ));
+        }
+        match self.quotes.len() {
+            0 => {}
+            1 => out.push_str("1 quoted number changed\n"),
+            n => out.push_str(&format!("{n} quoted numbers changed\n")),
         }
         out.push_str(&format!(
             "{} changed, {} added, {} removed, {} unchanged\n",
@@ -224,20 +264,33 @@ pub fn diff_in(options: &DiffOptions, cwd: &Path) -> Result<DiffOutcome, ReviewE
     let old = build_side(&base, "base", &scratch.path().join("base-out"))?;
     let new = build_side(&head, "head", &scratch.path().join("head-out"))?;
     let diffs = compare::compare_figures(&old.figures, &new.figures)?;
-    let figures = diffs
+    let mut figures = diffs
         .into_iter()
         .map(|diff| {
             let picture = picture_of(&diff, &old, &new)?;
             Ok(FigureReview { diff, picture })
         })
         .collect::<Result<Vec<_>, ReviewError>>()?;
+    // Largest change first; a stable sort keeps states and names in order otherwise.
+    figures.sort_by(|a, b| {
+        a.diff
+            .state
+            .cmp(&b.diff.state)
+            .then(
+                b.picture
+                    .changed_share()
+                    .total_cmp(&a.picture.changed_share()),
+            )
+            .then(b.diff.numbers.len().cmp(&a.diff.numbers.len()))
+    });
     let review = Review {
         base: base.label.clone(),
         head: head.label.clone(),
         figures,
         sources: sources::changes(&old.sources, &new.sources),
+        quotes: quotes::changes(old.quotes.as_ref(), new.quotes.as_ref()),
     };
-    let written = write_report(&review, &options.report_dir)?;
+    let written = write_report(&review, &options.report_dir, options.image_url.as_deref())?;
     Ok(DiffOutcome { review, written })
 }
 
@@ -245,25 +298,36 @@ pub fn diff_in(options: &DiffOptions, cwd: &Path) -> Result<DiffOutcome, ReviewE
 struct Built {
     figures: std::collections::BTreeMap<String, Outputs>,
     sources: Vec<SourceText>,
+    /// The quoted numbers, when the side's project writes them.
+    quotes: Option<quotes::Quotes>,
 }
 
 fn build_side(side: &Side, which: &str, out: &Path) -> Result<Built, ReviewError> {
     std::fs::create_dir_all(&side.root).map_err(|e| ReviewError::io(&side.root, e))?;
     std::fs::create_dir_all(out).map_err(|e| ReviewError::io(out, e))?;
-    // A side with its own figura.toml builds its project's specs with its defaults.
-    let has_project = side.root.join(crate::project::FILE_NAME).is_file();
-    let project = if has_project {
-        Some(crate::project::open(&side.root).map_err(|e| ReviewError::Project(e.to_string()))?)
-    } else {
-        None
+    // A side inside a project builds the project's specs with its settings.
+    let project = match side.project_root() {
+        Some(root) => {
+            Some(crate::project::open(&root).map_err(|e| ReviewError::Project(e.to_string()))?)
+        }
+        None => None,
     };
+    // The numbers are always written as JSON too, to compare the quoted numbers.
+    let numbers = project.as_ref().map_or_else(Vec::new, |p| {
+        let mut formats = p.numbers.clone();
+        if !formats.is_empty() && !formats.contains(&NumbersFormat::Json) {
+            formats.push(NumbersFormat::Json);
+        }
+        formats
+    });
     let options = BuildOptions {
         paths: project
             .as_ref()
             .map_or_else(|| vec![side.root.clone()], |p| p.specs.clone()),
         out: Some(out.to_path_buf()),
         defaults: project.map(|p| p.defaults).unwrap_or_default(),
-        work_tree: side.top.clone(),
+        work_tree: side.work_tree.clone(),
+        numbers,
         ..BuildOptions::default()
     };
     let report = build::build(&options, &build::NoProgress)?;
@@ -275,7 +339,8 @@ fn build_side(side: &Side, which: &str, out: &Path) -> Result<Built, ReviewError
     }
     Ok(Built {
         figures: compare::read_outputs(out)?,
-        sources: sources::collect(&report.sources, &side.root),
+        sources: sources::collect(&report.sources, &side.top),
+        quotes: quotes::read(out)?,
     })
 }
 
@@ -306,13 +371,16 @@ fn picture_of(diff: &FigureDiff, old: &Built, new: &Built) -> Result<Picture, Re
         State::Changed => match (png(old)?, png(new)?) {
             (Some(before), Some(after)) => {
                 let decode = |b: &[u8]| picture::decode_png(b).map_err(ReviewError::Picture);
-                let composed = picture::compose(&decode(&before)?, &decode(&after)?)
-                    .map_err(ReviewError::Picture)?;
+                let changes = picture::changes(&decode(&before)?, &decode(&after)?);
+                let encode =
+                    |img: &picture::Image| picture::encode(img).map_err(ReviewError::Picture);
                 Picture::Diff {
-                    file: format!("{name}{DIFF_SUFFIX}"),
-                    png: composed.png,
-                    changed_pixels: composed.changed_pixels,
-                    compared_pixels: composed.compared_pixels,
+                    changed: encode(&changes.picture)?,
+                    preview: encode(&picture::preview(&changes.picture, PREVIEW_WIDTH))?,
+                    before,
+                    after,
+                    changed_pixels: changes.changed_pixels,
+                    compared_pixels: changes.compared_pixels,
                 }
             }
             _ => Picture::Unavailable,
@@ -321,37 +389,51 @@ fn picture_of(diff: &FigureDiff, old: &Built, new: &Built) -> Result<Picture, Re
     Ok(picture)
 }
 
-/// The suffix of picture diffs in the report folder.
-const DIFF_SUFFIX: &str = ".diff.png";
+/// The suffixes of the pictures a report writes (and an earlier version's picture diffs).
+const PICTURE_SUFFIXES: [&str; 4] = [".before.png", ".after.png", ".changed.png", ".diff.png"];
 
-/// Removes picture diffs of an earlier report that this one does not write again.
+/// Removes pictures of an earlier report that this one does not write again.
 fn remove_stale_pictures(dir: &Path, keep: &[String]) -> Result<(), ReviewError> {
     let Ok(entries) = std::fs::read_dir(dir) else {
         return Ok(());
     };
     for entry in entries.filter_map(|e| e.ok()) {
         let name = entry.file_name().to_string_lossy().into_owned();
-        if name.ends_with(DIFF_SUFFIX) && !keep.contains(&name) && entry.path().is_file() {
+        let ours = PICTURE_SUFFIXES.iter().any(|s| name.ends_with(s));
+        if ours && !keep.contains(&name) && entry.path().is_file() {
             std::fs::remove_file(entry.path()).map_err(|e| ReviewError::io(&entry.path(), e))?;
         }
     }
     Ok(())
 }
 
-/// Writes the pictures, `report.md` and `index.html` (replacing the picture diffs of an
-/// earlier report); returns the paths written.
-fn write_report(review: &Review, dir: &Path) -> Result<Vec<PathBuf>, ReviewError> {
+/// Writes the pictures, `report.md` and `index.html` (replacing the pictures of an earlier
+/// report); returns the paths written.
+fn write_report(
+    review: &Review,
+    dir: &Path,
+    image_url: Option<&str>,
+) -> Result<Vec<PathBuf>, ReviewError> {
     let mut files: Vec<(String, Vec<u8>)> = Vec::new();
     for f in &review.figures {
-        if let Picture::Diff { file, png, .. } = &f.picture {
-            files.push((file.clone(), png.clone()));
+        if let Picture::Diff {
+            before,
+            after,
+            changed,
+            ..
+        } = &f.picture
+        {
+            let names = picture_files(&f.diff.name);
+            for (name, png) in names.into_iter().zip([before, after, changed]) {
+                files.push((name, png.clone()));
+            }
         }
     }
     let pictures: Vec<String> = files.iter().map(|(name, _)| name.clone()).collect();
     remove_stale_pictures(dir, &pictures)?;
     files.push((
         "report.md".to_owned(),
-        markdown::report(review).into_bytes(),
+        markdown::report(review, image_url).into_bytes(),
     ));
     files.push(("index.html".to_owned(), html::page(review).into_bytes()));
     let mut written = Vec::new();

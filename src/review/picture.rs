@@ -1,12 +1,12 @@
-//! Picture diffs: before, after, and a third panel that marks the pixels that changed.
+//! Picture diffs: the changed pixels of a figure, marked over its new picture.
 //!
 //! The pictures are the figures' PNG files (decoded with the `png` crate); a figure built
-//! without a PNG is drawn from its SVG at [`PREVIEW_DPI`]. The three panels sit side by side
-//! under a label each, on white; pictures of different sizes are aligned at their top-left
-//! corner, and a pixel that only one side has counts as changed. In the third panel the new
-//! picture is shown faded to light grey and every changed pixel, widened by
-//! [`MARK_RADIUS`] pixels so that a one-pixel change stays visible, is painted vermillion
-//! (Okabe–Ito).
+//! without a PNG is drawn from its SVG at [`PREVIEW_DPI`]. Pictures of different sizes are
+//! aligned at their top-left corner, and a pixel that only one side has counts as changed.
+//! The changed-pixels picture shows the new picture faded to light grey, and every changed
+//! pixel, widened by [`MARK_RADIUS`] pixels so that a one-pixel change stays visible,
+//! painted vermillion (Okabe–Ito). [`preview`] makes a small copy (an average of each block
+//! of pixels) for places with little room, such as a review comment.
 
 use resvg::tiny_skia;
 
@@ -17,9 +17,6 @@ pub const PREVIEW_DPI: f32 = 300.0;
 
 /// How far, in pixels, the mark of a changed pixel spreads.
 pub const MARK_RADIUS: u32 = 2;
-
-/// Space between panels, in pixels.
-pub const GAP: u32 = 24;
 
 /// Vermillion of the Okabe–Ito palette.
 const MARK: [u8; 3] = [213, 94, 0];
@@ -197,79 +194,56 @@ fn highlight(before: &Image, after: &Image) -> (Image, usize) {
     )
 }
 
-/// Copies `img` into `pixmap` with its top-left corner at (`left`, `top`).
-fn paste(pixmap: &mut tiny_skia::Pixmap, img: &Image, left: u32, top: u32) {
-    let pw = pixmap.width();
-    let data = pixmap.pixels_mut();
-    for y in 0..img.height {
-        for x in 0..img.width {
-            let Some([r, g, b, a]) = img.pixel(x, y) else {
-                continue;
-            };
-            let i = ((top + y) * pw + left + x) as usize;
-            if let Some(slot) = data.get_mut(i) {
-                *slot = tiny_skia::ColorU8::from_rgba(r, g, b, a).premultiply();
-            }
-        }
-    }
-}
-
-/// The label strip: one word over each panel, in the bundled font.
-fn draw_labels(pixmap: &mut tiny_skia::Pixmap, panel_width: u32, label_height: u32) {
-    let size = label_height as f32 * 0.55;
-    let baseline = label_height as f32 * 0.72;
-    let mut svg = format!(
-        r#"<svg xmlns="http://www.w3.org/2000/svg" width="{}" height="{label_height}">"#,
-        pixmap.width()
-    );
-    for (i, label) in ["before", "after", "changed pixels"].iter().enumerate() {
-        let x = (i as u32 * (panel_width + GAP)) as f32 + size * 0.4;
-        svg.push_str(&format!(
-            r##"<text x="{x}" y="{baseline}" font-family="{}" font-size="{size}" fill="#333333">{label}</text>"##,
-            font::FAMILY
-        ));
-    }
-    svg.push_str("</svg>");
-    if let Ok(tree) = usvg::Tree::from_str(&svg, &svg_options()) {
-        resvg::render(
-            &tree,
-            tiny_skia::Transform::identity(),
-            &mut pixmap.as_mut(),
-        );
-    }
-}
-
-/// The composed picture and how many pixels changed.
-pub struct Composed {
-    pub png: Vec<u8>,
+/// The changed-pixels picture and how many pixels changed.
+pub struct Changes {
+    pub picture: Image,
     pub changed_pixels: usize,
     /// Pixels in the compared area (the larger of the two sizes).
     pub compared_pixels: usize,
 }
 
-/// Before, after and changed pixels side by side, as PNG bytes.
-pub fn compose(before: &Image, after: &Image) -> Result<Composed, String> {
-    let (marks, changed_pixels) = highlight(before, after);
-    let panel_width = marks.width;
-    let label_height = (panel_width / 16).clamp(24, 120);
-    let width = panel_width * 3 + GAP * 2;
-    let height = label_height + marks.height;
-    let mut pixmap = new_pixmap(width, height)?;
-    for (i, img) in [before, after, &marks].into_iter().enumerate() {
-        paste(
-            &mut pixmap,
-            img,
-            i as u32 * (panel_width + GAP),
-            label_height,
-        );
-    }
-    draw_labels(&mut pixmap, panel_width, label_height);
-    let png = encode(&from_pixmap(&pixmap))?;
-    Ok(Composed {
-        png,
+/// Compares two pictures.
+pub fn changes(before: &Image, after: &Image) -> Changes {
+    let (picture, changed_pixels) = highlight(before, after);
+    let compared_pixels = (picture.width * picture.height) as usize;
+    Changes {
+        picture,
         changed_pixels,
-        compared_pixels: (marks.width * marks.height) as usize,
-    })
+        compared_pixels,
+    }
+}
+
+/// A copy of `img` at most `max_width` pixels wide: each block of k × k pixels (k the
+/// smallest whole factor that fits) becomes their average; unchanged when it already fits.
+pub fn preview(img: &Image, max_width: u32) -> Image {
+    let k = img.width.div_ceil(max_width.max(1)).max(1);
+    if k == 1 {
+        return img.clone();
+    }
+    let (width, height) = (img.width.div_ceil(k), img.height.div_ceil(k));
+    let mut rgba = Vec::with_capacity((width * height * 4) as usize);
+    for by in 0..height {
+        for bx in 0..width {
+            let mut sum = [0u32; 4];
+            let mut n = 0;
+            for y in by * k..((by + 1) * k).min(img.height) {
+                for x in bx * k..((bx + 1) * k).min(img.width) {
+                    if let Some(p) = img.pixel(x, y) {
+                        for (s, v) in sum.iter_mut().zip(p) {
+                            *s += u32::from(v);
+                        }
+                        n += 1;
+                    }
+                }
+            }
+            rgba.extend(sum.map(|s| (s / n.max(1)) as u8));
+        }
+    }
+    Image {
+        width,
+        height,
+        rgba,
+    }
 }
 
 /// Encodes an opaque picture as an 8-bit RGB PNG.
@@ -317,17 +291,27 @@ mod tests {
     }
 
     #[test]
-    fn composed_png_has_three_panels_and_reads_back() {
+    fn a_wider_picture_changes_its_extra_columns_and_reads_back() {
         let before = solid(30, 20, [0, 114, 178]);
         let after = solid(40, 20, [0, 114, 178]);
-        let composed = compose(&before, &after).unwrap();
+        let c = changes(&before, &after);
         // The extra 10 columns of the wider picture are the only change.
-        assert_eq!(composed.changed_pixels, 10 * 20);
-        assert_eq!(composed.compared_pixels, 40 * 20);
-        let back = decode_png(&composed.png).unwrap();
-        assert_eq!(back.width, 3 * 40 + 2 * GAP);
-        // Below the labels, the first panel starts with the old picture's colour.
-        let top = back.height - 20;
-        assert_eq!(back.pixel(0, top), Some([0, 114, 178, 255]));
+        assert_eq!(c.changed_pixels, 10 * 20);
+        assert_eq!(c.compared_pixels, 40 * 20);
+        let back = decode_png(&encode(&c.picture).unwrap()).unwrap();
+        assert_eq!((back.width, back.height), (40, 20));
+        assert_eq!(back.pixel(35, 5), Some([213, 94, 0, 255]));
+    }
+
+    #[test]
+    fn a_preview_averages_blocks_of_pixels() {
+        let mut img = solid(4, 2, [255, 255, 255]);
+        // One black pixel in the first 2 x 2 block: its average is three quarters white.
+        img.rgba[0..3].copy_from_slice(&[0, 0, 0]);
+        let small = preview(&img, 2);
+        assert_eq!((small.width, small.height), (2, 1));
+        assert_eq!(small.pixel(0, 0), Some([191, 191, 191, 255]));
+        assert_eq!(small.pixel(1, 0), Some([255, 255, 255, 255]));
+        assert_eq!(preview(&img, 10), img);
     }
 }

@@ -3,8 +3,11 @@
 //!
 //! A revision's files are copied out of the repository into a temporary folder (see
 //! [`super::git`]); a folder and the working tree are built where they are (the build writes
-//! only into the output folder it is given). The folder built is the current folder's place
-//! in each revision, so `figura diff` run from `figures/` compares `figures/` of both.
+//! only into the output folder it is given). What is built is the current folder's place in
+//! each side: the project around it (the nearest `figura.toml` at or above it, inside the
+//! side), else that folder. So `figura diff` gives the same report from any folder of a
+//! project. Paths in the report are relative to the side's top: the repository's top folder
+//! for a revision and the working tree, the folder itself for a folder.
 
 use std::path::{Path, PathBuf};
 
@@ -41,27 +44,42 @@ impl SideSpec {
 pub struct Side {
     /// How the side is named in reports, e.g. `HEAD~1 (3f2a9c1)` or `working tree`.
     pub label: String,
-    /// The folder whose specs are built.
+    /// The folder whose specs are built (when it is inside no project).
     pub root: PathBuf,
     /// The top folder of a revision's copy: what it builds reads and writes only inside.
-    pub top: Option<PathBuf>,
+    pub work_tree: Option<PathBuf>,
+    /// The folder paths are shown relative to; `root` lies inside it.
+    pub top: PathBuf,
     /// Holds a revision's files for as long as the side lives.
     _files: Option<TempDir>,
 }
 
 /// Makes the folder of one side. `scratch` is where temporary folders go.
 pub fn prepare(spec: &SideSpec, cwd: &Path, scratch: &Path) -> Result<Side, ReviewError> {
+    let mut side = prepare_as_named(spec, cwd, scratch)?;
+    // Resolved on disk, so that `root` and `top` compare as paths whatever links lead there.
+    for path in [&mut side.root, &mut side.top] {
+        if let Ok(real) = std::fs::canonicalize(&*path) {
+            *path = real;
+        }
+    }
+    Ok(side)
+}
+
+fn prepare_as_named(spec: &SideSpec, cwd: &Path, scratch: &Path) -> Result<Side, ReviewError> {
     match spec {
         SideSpec::WorkTree => Ok(Side {
             label: "working tree".to_owned(),
             root: cwd.to_path_buf(),
-            top: None,
+            work_tree: None,
+            top: Repo::discover(cwd).map_or_else(|_| cwd.to_path_buf(), |r| r.top().to_path_buf()),
             _files: None,
         }),
         SideSpec::Folder(dir) => Ok(Side {
             label: dir.display().to_string(),
             root: dir.clone(),
-            top: None,
+            work_tree: None,
+            top: dir.clone(),
             _files: None,
         }),
         SideSpec::Revision(rev) => {
@@ -80,10 +98,27 @@ pub fn prepare(spec: &SideSpec, cwd: &Path, scratch: &Path) -> Result<Side, Revi
             Ok(Side {
                 label: format!("{rev} ({short})"),
                 root: files.path().join(prefix),
-                top: Some(files.path().to_path_buf()),
+                work_tree: Some(files.path().to_path_buf()),
+                top: files.path().to_path_buf(),
                 _files: Some(files),
             })
         }
+    }
+}
+
+impl Side {
+    /// The folder of the project the side's folder is in: the nearest folder at or above
+    /// `root`, and not above `top`, that holds a `figura.toml`.
+    pub fn project_root(&self) -> Option<PathBuf> {
+        for dir in self.root.ancestors() {
+            if dir.join(crate::project::FILE_NAME).is_file() {
+                return Some(dir.to_path_buf());
+            }
+            if dir == self.top {
+                break;
+            }
+        }
+        None
     }
 }
 
