@@ -27,6 +27,7 @@ use std::path::{Path, PathBuf};
 use rayon::prelude::*;
 
 use crate::check::{self, FigureDefaults, FigurePlan, Program};
+use crate::compute::ComputeError;
 use crate::data::{self, Table};
 use crate::diag::{Diagnostic, SourceMap, Span};
 
@@ -401,9 +402,9 @@ fn read_tables(
     needed
         .iter()
         .map(|&idx| {
-            let spec = table_spec(&program.codebooks[idx]);
-            let table = match data::read_table(&spec, &mut report.sources) {
-                Ok(t) => Some(t),
+            let book = &program.codebooks[idx];
+            let table = match data::read_table(&table_spec(book), &mut report.sources) {
+                Ok(t) => design_checked(book, t, report),
                 Err(diags) => {
                     report.diagnostics.extend(diags);
                     None
@@ -412,6 +413,17 @@ fn read_tables(
             (idx, table)
         })
         .collect()
+}
+
+/// The table when the data fit the block's declared design; `None` (the errors reported) when
+/// they do not, so no figure of the block is made.
+fn design_checked(book: &check::Codebook, table: Table, report: &mut BuildReport) -> Option<Table> {
+    match crate::compute::check_design(book, &table) {
+        Ok(diags) if diags.is_empty() => return Some(table),
+        Ok(diags) | Err(ComputeError::Data(diags)) => report.diagnostics.extend(diags),
+        Err(ComputeError::Internal(m)) => report.failures.push(BuildError::Internal(m)),
+    }
+    None
 }
 
 /// Makes one figure and, in a build, writes each output whose bytes changed.

@@ -5,7 +5,10 @@ use crate::diag::{Code, Diagnostic, Span};
 use crate::syntax::ast::{Call, Ident, Term};
 
 use super::super::codebook::resolve;
-use super::super::plan::{Bandwidth, BinRule, Codebook, ErrorBar, Heights, VarId};
+use super::super::plan::{
+    Band, BandKind, Bandwidth, BinRule, BootMethod, Codebook, ErrorBar, Heights, SummaryDetail,
+    VarId,
+};
 use super::super::terms::{self, Options};
 use super::LayerDecl;
 
@@ -126,11 +129,6 @@ fn level(term: &Term, shape: &str, diags: &mut Vec<Diagnostic>) -> Option<f64> {
     None
 }
 
-/// The single interval level of `call`, e.g. `band(0.95)`.
-pub fn level_arg(c: &Call, shape: &str, diags: &mut Vec<Diagnostic>) -> Option<f64> {
-    terms::single(c, shape, diags).and_then(|t| level(t, shape, diags))
-}
-
 /// `error(...)`, one of `choices` (`sd`, `se`, `ci`, `boot`), with its span.
 ///
 /// `Ok(None)` without the option; `Err(())` after an error (reported).
@@ -157,9 +155,7 @@ pub fn error_bar(
         ("sd", None) => Some(ErrorBar::Sd),
         ("se", None) => Some(ErrorBar::Se),
         ("ci", Some(call)) => ci(call, diags),
-        ("boot", Some(call)) => {
-            level_arg(call, "boot(0.95)", diags).map(|level| ErrorBar::Bootstrap { level })
-        }
+        ("boot", Some(call)) => boot(call, diags),
         (word, _) => {
             let fix = match word {
                 "ci" => "ci(0.95)",
@@ -178,6 +174,68 @@ pub fn error_bar(
         }
     };
     bar.map(|b| Some((b, c.span))).ok_or(())
+}
+
+/// `boot(L)` or `boot(L, bca)`.
+fn boot(call: &Call, diags: &mut Vec<Diagnostic>) -> Option<ErrorBar> {
+    let shape = "boot(0.95) or boot(0.95, bca)";
+    match call.args.items.as_slice() {
+        [l] => level(l, shape, diags).map(|level| ErrorBar::Bootstrap {
+            level,
+            method: BootMethod::Percentile,
+        }),
+        [l, m] => {
+            let level = level(l, shape, diags);
+            let bca = terms::expect_choice(m, &["bca"], shape, diags);
+            Some(ErrorBar::Bootstrap {
+                level: level?,
+                method: BootMethod::Bca,
+            })
+            .filter(|_| bca.is_some())
+        }
+        _ => {
+            terms::arity(call, 1, shape, diags);
+            None
+        }
+    }
+}
+
+/// `band(L)` or `band(L, prediction)`: the band of a fitted line.
+pub fn band(c: &Call, diags: &mut Vec<Diagnostic>) -> Option<Band> {
+    let shape = "band(0.95) or band(0.95, prediction)";
+    match c.args.items.as_slice() {
+        [l] => level(l, shape, diags).map(|level| Band {
+            level,
+            kind: BandKind::Mean,
+        }),
+        [l, k] => {
+            let level = level(l, shape, diags);
+            let kind = terms::expect_choice(k, &["mean", "prediction"], shape, diags)?;
+            Some(Band {
+                level: level?,
+                kind: if kind.name == "prediction" {
+                    BandKind::Prediction
+                } else {
+                    BandKind::Mean
+                },
+            })
+        }
+        _ => {
+            terms::arity(c, 1, shape, diags);
+            None
+        }
+    }
+}
+
+/// `summary(full)`: list every drawn point of the layer's curves; the default without it.
+pub fn summary_detail(opts: &Options, diags: &mut Vec<Diagnostic>) -> Option<SummaryDetail> {
+    let Some(c) = opts.call("summary") else {
+        return Some(SummaryDetail::Default);
+    };
+    let shape = "summary(full)";
+    terms::single(c, shape, diags)
+        .and_then(|t| terms::expect_choice(t, &["full"], shape, diags))?;
+    Some(SummaryDetail::Full)
 }
 
 fn ci(call: &Call, diags: &mut Vec<Diagnostic>) -> Option<ErrorBar> {
