@@ -441,6 +441,74 @@ mod tests {
         assert!(axis.frac(330.0) >= 0.0 && axis.frac(620.0) <= 1.0);
     }
 
+    // Reference: the labelling rule of the module doc (common practice: scientific notation
+    // with a superscript exponent); the values are the extreme magnitudes.
+    #[test]
+    fn extreme_magnitudes_get_short_scientific_labels() {
+        let axis = NumAxisMap::new(&scale(2e40, 1.2e41), 5);
+        assert!(axis
+            .labels
+            .iter()
+            .all(|l| l.ends_with("10⁴⁰") || l.ends_with("10⁴¹")));
+        assert!(
+            axis.labels.contains(&"5×10⁴⁰".to_string()),
+            "{:?}",
+            axis.labels
+        );
+        let axis = NumAxisMap::new(&scale(-3e-30, 5e-30), 5);
+        assert!(axis.labels.contains(&"0".to_string()), "{:?}", axis.labels);
+        assert!(
+            axis.labels
+                .iter()
+                .any(|l| l.starts_with('\u{2013}') && l.ends_with("10⁻³⁰")),
+            "{:?}",
+            axis.labels
+        );
+        // The whole range of doubles: measured in units of 10^308, every tick finite.
+        let axis = NumAxisMap::new(&scale(-1.7e308, 1.7e308), 5);
+        assert_eq!(axis.labels, ["\u{2013}1×10³⁰⁸", "0", "1×10³⁰⁸"]);
+        assert!(axis.ticks.iter().all(|t| t.is_finite()));
+        assert!((axis.frac(0.0) - 0.5).abs() < 1e-12);
+        assert!(axis.frac(-1.7e308) >= 0.0 && axis.frac(1.7e308) <= 1.0);
+        // Subnormal values keep exact labels.
+        let axis = NumAxisMap::new(&scale(0.0, 1e-319), 5);
+        assert_eq!(axis.labels.last().map(String::as_str), Some("1×10⁻³¹⁹"));
+        // Plain from 0.001 to under 1 000 000.
+        assert_eq!(
+            NumAxisMap::new(&scale(0.0, 400_000.0), 5).labels,
+            ["0", "100000", "200000", "300000", "400000"]
+        );
+        assert_eq!(scientific(-2.5, 40, Mantissa::Always), "\u{2013}2.5×10⁴⁰");
+        assert_eq!(scientific(1.0, -7, Mantissa::OmitOne), "10⁻⁷");
+        assert_eq!(scientific(9.99999999999999, 2, Mantissa::Always), "1×10³");
+    }
+
+    #[test]
+    fn log_axes_beyond_the_plain_range_write_powers_with_superscripts() {
+        let mut s = scale(3e6, 4e12);
+        s.log = true;
+        let axis = NumAxisMap::new(&s, 5);
+        assert!(
+            axis.labels.iter().all(|l| l.starts_with("10")),
+            "{:?}",
+            axis.labels
+        );
+        assert!(
+            axis.labels.contains(&"10⁹".to_string()),
+            "{:?}",
+            axis.labels
+        );
+        let mut s = scale(1e-320, 1e-300);
+        s.log = true;
+        let axis = NumAxisMap::new(&s, 5);
+        assert!(
+            axis.labels.iter().all(|l| l.starts_with("10⁻³")),
+            "{:?}",
+            axis.labels
+        );
+        assert!(axis.frac(1e-320) >= 0.0 && axis.frac(1e-300) <= 1.0);
+    }
+
     #[test]
     fn many_decades_keep_every_other_power() {
         let mut s = scale(1e-2, 1e9);
