@@ -47,7 +47,7 @@ pub fn compute(opts: &DensityOpts, at: &At, values: &Values) -> Result<LayerOutp
         rows.push(k.number(Stat::Bandwidth, curve.bandwidth));
         let points: Vec<(f64, f64)> = curve.x.into_iter().zip(curve.density).collect();
         if opts.summary == SummaryDetail::Full {
-            density_rows(&points, k, rows);
+            density_rows(&points, k, |px| format_number(px), rows);
         }
         for (px, d) in &points {
             x.add(*px);
@@ -82,9 +82,15 @@ pub(super) fn boundary_of(at: &At) -> Boundary {
     }
 }
 
-/// One `density` row per point drawn, `x` the point (shared with `violin`).
-pub(super) fn density_rows(points: &[(f64, f64)], k: &RowKey, rows: &mut Vec<SummaryRow>) {
+/// One `density` row per point drawn, its `x` the text `place` gives the point (shared with
+/// `violin`).
+pub(super) fn density_rows(
+    points: &[(f64, f64)],
+    k: &RowKey,
+    place: impl Fn(f64) -> String,
+    rows: &mut Vec<SummaryRow>,
+) {
     for (px, d) in points {
-        rows.push(k.at(format_number(*px)).number(Stat::Density, *d));
+        rows.push(k.at(place(*px)).number(Stat::Density, *d));
     }
 }

@@ -15,8 +15,8 @@
 //! A cell with values always reports its quartiles; its bandwidth when it is defined (a rule
 //! needs two values with some spread); it draws an outline only when the bandwidth is defined
 //! and its values are not all equal. Summary rows per cell: `n`, `n_missing`, `bandwidth`,
-//! `q1`, `median`, `q3`; with `summary(full)`, `density` at every point of the outline (`x` = the
-//! point, in y units).
+//! `q1`, `median`, `q3`; with `summary(full)`, `density` at every point of the outline (`x` =
+//! `LEVEL@y`: the x level and the point, in y units).
 
 use crate::check::layer::ViolinOpts;
 use crate::check::plan::SummaryDetail;
@@ -24,6 +24,7 @@ use crate::stats::{self, Boundary};
 
 use super::super::cells::Values;
 use super::super::extent::Extent;
+use super::super::summary::format_number;
 use super::super::ComputeError;
 use super::density::{bandwidth_rule, boundary_of, density_rows};
 use super::{At, LayerMarks, LayerOutput, Stat};
@@ -62,7 +63,13 @@ pub fn compute(opts: &ViolinOpts, at: &At, values: &Values) -> Result<LayerOutpu
             return;
         };
         if opts.summary == SummaryDetail::Full {
-            density_rows(&outline, k, rows);
+            // `LEVEL@y`: the cell's x level and the point of the outline.
+            density_rows(
+                &outline,
+                k,
+                |y| format!("{}@{}", k.x, format_number(y)),
+                rows,
+            );
         }
         marks.push(ViolinMark {
             x: cell.x,
