@@ -47,7 +47,7 @@ pub fn compute(opts: &DensityOpts, at: &At, values: &Values) -> Result<LayerOutp
         rows.push(k.number(Stat::Bandwidth, curve.bandwidth));
         let points: Vec<(f64, f64)> = curve.x.into_iter().zip(curve.density).collect();
         if opts.summary == SummaryDetail::Full {
-            density_rows(&points, k, |px| format_number(px), rows);
+            density_rows(&points, k, format_number, rows);
         }
         for (px, d) in &points {
             x.add(*px);
