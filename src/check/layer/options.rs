@@ -210,14 +210,10 @@ pub fn band(c: &Call, diags: &mut Vec<Diagnostic>) -> Option<Band> {
         }),
         [l, k] => {
             let level = level(l, shape, diags);
-            let kind = terms::expect_choice(k, &["mean", "prediction"], shape, diags)?;
+            terms::expect_choice(k, &["prediction"], shape, diags)?;
             Some(Band {
                 level: level?,
-                kind: if kind.name == "prediction" {
-                    BandKind::Prediction
-                } else {
-                    BandKind::Mean
-                },
+                kind: BandKind::Prediction,
             })
         }
         _ => {
