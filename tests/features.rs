@@ -11,6 +11,8 @@
 
 mod common;
 
+use common::{close, rel};
+
 use std::path::PathBuf;
 
 use figura::build::{self, BuildOptions, BuildReport};
@@ -200,18 +202,6 @@ fn bits(values: &[f64]) -> Vec<u64> {
 
 fn number(v: &Value) -> f64 {
     v.as_f64().expect("a reference number")
-}
-
-/// `|actual − expected| ≤ tol · scale`, where `scale` is the quantity's natural size.
-fn close(actual: f64, expected: f64, tol: f64, scale: f64, what: &str) {
-    assert!(
-        (actual - expected).abs() <= tol * scale.abs().max(f64::MIN_POSITIVE),
-        "{what}: {actual} against the reference {expected}"
-    );
-}
-
-fn rel(actual: f64, expected: f64, tol: f64, what: &str) {
-    close(actual, expected, tol, expected, what);
 }
 
 /// The marks of layer `layer` in panel `panel`.

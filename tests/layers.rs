@@ -6,6 +6,8 @@
 
 mod common;
 
+use common::{close, rel};
+
 use std::collections::BTreeMap;
 
 use figura::build::{self, BuildOptions, NoProgress};
@@ -78,18 +80,6 @@ fn reference(mode: &str, request: serde_json::Value) -> serde_json::Value {
 
 fn num(v: &serde_json::Value) -> f64 {
     v.as_f64().expect("a reference number")
-}
-
-/// `|actual − expected| ≤ tol · max(|scale|, tiny)`.
-fn close(actual: f64, expected: f64, tol: f64, scale: f64, what: &str) {
-    assert!(
-        (actual - expected).abs() <= tol * scale.abs().max(f64::MIN_POSITIVE),
-        "{what}: {actual}, reference {expected}"
-    );
-}
-
-fn rel(actual: f64, expected: f64, tol: f64, what: &str) {
-    close(actual, expected, tol, expected, what);
 }
 
 fn sleep_table() -> String {

@@ -31,15 +31,7 @@ pub struct DensityOpts {
 }
 
 fn read(input: &ReadInput, diags: &mut Vec<Diagnostic>) -> Option<(Layer, Traits)> {
-    let before = diags.len();
-    let bandwidth = options::bandwidth(input.opts, diags);
-    let summary = options::summary_detail(input.opts, diags);
-    if diags.len() > before {
-        return None;
-    }
-    let opts = DensityOpts {
-        bandwidth: bandwidth?,
-        summary: summary?,
-    };
+    let (bandwidth, summary) = options::kernel(input.opts, diags)?;
+    let opts = DensityOpts { bandwidth, summary };
     Some((Layer::Density(opts), Traits::default()))
 }

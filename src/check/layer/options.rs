@@ -178,46 +178,43 @@ pub fn error_bar(
 
 /// `boot(L)` or `boot(L, bca)`.
 fn boot(call: &Call, diags: &mut Vec<Diagnostic>) -> Option<ErrorBar> {
-    let shape = "boot(0.95) or boot(0.95, bca)";
-    match call.args.items.as_slice() {
-        [l] => level(l, shape, diags).map(|level| ErrorBar::Bootstrap {
-            level,
-            method: BootMethod::Percentile,
-        }),
-        [l, m] => {
-            let level = level(l, shape, diags);
-            let bca = terms::expect_choice(m, &["bca"], shape, diags);
-            Some(ErrorBar::Bootstrap {
-                level: level?,
-                method: BootMethod::Bca,
-            })
-            .filter(|_| bca.is_some())
-        }
-        _ => {
-            terms::arity(call, 1, shape, diags);
-            None
-        }
-    }
+    let (level, bca) = level_with(call, "bca", "boot(0.95) or boot(0.95, bca)", diags)?;
+    let method = if bca {
+        BootMethod::Bca
+    } else {
+        BootMethod::Percentile
+    };
+    Some(ErrorBar::Bootstrap { level, method })
 }
 
 /// `band(L)` or `band(L, prediction)`: the band of a fitted line.
 pub fn band(c: &Call, diags: &mut Vec<Diagnostic>) -> Option<Band> {
     let shape = "band(0.95) or band(0.95, prediction)";
-    match c.args.items.as_slice() {
-        [l] => level(l, shape, diags).map(|level| Band {
-            level,
-            kind: BandKind::Mean,
-        }),
-        [l, k] => {
+    let (level, prediction) = level_with(c, "prediction", shape, diags)?;
+    let kind = if prediction {
+        BandKind::Prediction
+    } else {
+        BandKind::Mean
+    };
+    Some(Band { level, kind })
+}
+
+/// `NAME(L)` or `NAME(L, WORD)`: the level, and whether the word was given.
+fn level_with(
+    call: &Call,
+    word: &str,
+    shape: &str,
+    diags: &mut Vec<Diagnostic>,
+) -> Option<(f64, bool)> {
+    match call.args.items.as_slice() {
+        [l] => level(l, shape, diags).map(|level| (level, false)),
+        [l, w] => {
             let level = level(l, shape, diags);
-            terms::expect_choice(k, &["prediction"], shape, diags)?;
-            Some(Band {
-                level: level?,
-                kind: BandKind::Prediction,
-            })
+            let given = terms::expect_choice(w, &[word], shape, diags);
+            Some((level?, true)).filter(|_| given.is_some())
         }
         _ => {
-            terms::arity(c, 1, shape, diags);
+            terms::arity(call, 1, shape, diags);
             None
         }
     }
@@ -236,18 +233,24 @@ pub fn summary_detail(opts: &Options, diags: &mut Vec<Diagnostic>) -> Option<Sum
 
 fn ci(call: &Call, diags: &mut Vec<Diagnostic>) -> Option<ErrorBar> {
     let shape = "ci(0.95) or ci(0.95, within)";
-    match call.args.items.as_slice() {
-        [l] => level(l, shape, diags).map(|level| ErrorBar::Ci { level }),
-        [l, w] => {
-            let level = level(l, shape, diags);
-            let within = terms::expect_choice(w, &["within"], shape, diags);
-            Some(ErrorBar::CiWithin { level: level? }).filter(|_| within.is_some())
-        }
-        _ => {
-            terms::arity(call, 1, shape, diags);
-            None
-        }
+    let (level, within) = level_with(call, "within", shape, diags)?;
+    Some(if within {
+        ErrorBar::CiWithin { level }
+    } else {
+        ErrorBar::Ci { level }
+    })
+}
+
+/// The options of a kernel density layer (`density`, `violin`): `bandwidth(...)` and
+/// `summary(full)`; `None` after an error (reported).
+pub fn kernel(opts: &Options, diags: &mut Vec<Diagnostic>) -> Option<(Bandwidth, SummaryDetail)> {
+    let before = diags.len();
+    let bandwidth = bandwidth(opts, diags);
+    let summary = summary_detail(opts, diags);
+    if diags.len() > before {
+        return None;
     }
+    Some((bandwidth?, summary?))
 }
 
 /// `bandwidth(silverman | scott | W)`; Silverman's rule without the option.

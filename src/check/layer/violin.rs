@@ -33,15 +33,7 @@ pub struct ViolinOpts {
 }
 
 fn read(input: &ReadInput, diags: &mut Vec<Diagnostic>) -> Option<(Layer, Traits)> {
-    let before = diags.len();
-    let bandwidth = options::bandwidth(input.opts, diags);
-    let summary = options::summary_detail(input.opts, diags);
-    if diags.len() > before {
-        return None;
-    }
-    let opts = ViolinOpts {
-        bandwidth: bandwidth?,
-        summary: summary?,
-    };
+    let (bandwidth, summary) = options::kernel(input.opts, diags)?;
+    let opts = ViolinOpts { bandwidth, summary };
     Some((Layer::Violin(opts), Traits::default()))
 }
