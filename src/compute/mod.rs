@@ -10,7 +10,9 @@
 //! - every number drawn also appears in `summary`, in a fixed order (panel, layer, then the
 //!   layer's own order: x and group, or group and bin);
 //! - the data-dependent rules (a subject twice in one cell, zeros on a log axis, more colour
-//!   levels than colours) have been applied and reported as diagnostics.
+//!   levels than colours, a filter that keeps no rows) have been applied and reported as
+//!   diagnostics, and every number is finite (a statistic that overflows is `F0123`); the
+//!   design's rules ([`check_design`]) run once per data block, before.
 //!
 //! Invariant: no I/O and no geometry here — values stay in data units; the layout maps them.
 
