@@ -110,6 +110,10 @@ fn every_rule_of_the_contract_has_a_rejected_case() {
         Code::SubjectRepeatedInCell,
         Code::LogOfZero,
         Code::TooManyColours,
+        Code::EmptyFilter,
+        Code::BetweenVariesWithinSubject,
+        Code::WithinNeverRepeated,
+        Code::BeyondDoubleRange,
     ];
     let all: String = cases("err")
         .iter()

@@ -11,6 +11,8 @@
 
 mod common;
 
+use common::{close, rel};
+
 use std::path::PathBuf;
 
 use figura::build::{self, BuildOptions, BuildReport};
@@ -200,18 +202,6 @@ fn bits(values: &[f64]) -> Vec<u64> {
 
 fn number(v: &Value) -> f64 {
     v.as_f64().expect("a reference number")
-}
-
-/// `|actual − expected| ≤ tol · scale`, where `scale` is the quantity's natural size.
-fn close(actual: f64, expected: f64, tol: f64, scale: f64, what: &str) {
-    assert!(
-        (actual - expected).abs() <= tol * scale.abs().max(f64::MIN_POSITIVE),
-        "{what}: {actual} against the reference {expected}"
-    );
-}
-
-fn rel(actual: f64, expected: f64, tol: f64, what: &str) {
-    close(actual, expected, tol, expected, what);
 }
 
 /// The marks of layer `layer` in panel `panel`.
@@ -1023,4 +1013,256 @@ figure paper { from sleep; x drug; y extra_hours; violin; points; size 120mm x 7
     let [x0, y0, x1, y1] = media_box(&one);
     close(x1 - x0, 120.0 / 25.4 * 72.0, 1e-3, 1.0, "page width in pt");
     close(y1 - y0, 70.0 / 25.4 * 72.0, 1e-3, 1.0, "page height in pt");
+}
+
+// ---------------------------------------------------------------------------------------------
+// Issue 9's fixes, each with the numbers it got wrong (every check failed before its fix).
+
+const RATINGS_BOOK: &str = r#"
+data ratings "ratings.csv" {
+  rater: id
+  trial: ratio
+  task: nominal levels("easy")
+  effort: ordinal levels(1, 2, 3, 4, 5)
+  subject rater
+  replicates trial collapse(COLLAPSE)
+}
+
+figure effort {
+  from ratings
+  x task
+  y effort
+  median
+}
+"#;
+
+/// R1 rated 1 and 5; R2 rated 2, 3 and 3; R3 rated 4 once.
+const RATINGS_CSV: &str = "rater,trial,task,effort
+R1,1,easy,1
+R1,2,easy,5
+R2,1,easy,2
+R2,2,easy,3
+R2,3,easy,3
+R3,1,easy,4
+";
+
+#[test]
+fn ordinal_trials_collapse_to_a_level_some_trial_had() {
+    // Hand derivation with Hyndman & Fan definition 1 (the first level whose cumulative
+    // proportion reaches 1/2): R1's trials 1, 5 give 1 (1/2 of them at or below 1), not 3;
+    // R2's 2, 3, 3 give 3; R3's single 4 gives 4. Across the three raters, 1, 3, 4: the median
+    // is 3 (2/3 ≥ 1/2), the first quartile 1 (1/3 ≥ 1/4), the third 4. Both `collapse` words
+    // give the same levels: a mean of levels is not defined, so ordinal trials always collapse
+    // to their median level.
+    for collapse in ["median", "mean"] {
+        let project = Project::new(
+            &RATINGS_BOOK.replace("COLLAPSE", collapse),
+            &[("ratings.csv", RATINGS_CSV)],
+        );
+        project.build();
+        let summary = project.summary("effort");
+        assert_eq!(summary.value("median", "", "easy", "n"), 3.0, "{collapse}");
+        assert_eq!(
+            summary.value("median", "", "easy", "median"),
+            3.0,
+            "{collapse}"
+        );
+        assert_eq!(summary.value("median", "", "easy", "q1"), 1.0, "{collapse}");
+        assert_eq!(summary.value("median", "", "easy", "q3"), 4.0, "{collapse}");
+    }
+}
+
+#[test]
+fn flows_count_a_row_without_an_occasion_in_its_own_panel_only() {
+    let book = r#"
+data clinic "clinic.csv" {
+  patient: id
+  site: nominal levels("north", "south")
+  visit: ordinal levels("v1", "v2")
+  state: nominal levels("well", "ill")
+  subject patient
+  within visit
+}
+
+figure moves {
+  from clinic
+  x visit
+  y state
+  panels site
+  flows by(patient)
+}
+"#;
+    // North: P1 and P2 at both visits, plus P3 with no visit (row 6). South: P4 at both
+    // visits. P5 has no site (row 9): it is in no panel and counts nowhere.
+    let csv = "patient,site,visit,state
+P1,north,v1,well
+P1,north,v2,ill
+P2,north,v1,ill
+P2,north,v2,ill
+P3,north,,well
+P4,south,v1,well
+P4,south,v2,well
+P5,,v1,ill
+";
+    let project = Project::new(book, &[("clinic.csv", csv)]);
+    project.build();
+    let summary = project.summary("moves");
+    assert_eq!(summary.get("north", "flows", "", "", "n"), 2.0);
+    assert_eq!(summary.get("north", "flows", "", "", "n_missing"), 1.0);
+    assert_eq!(summary.get("south", "flows", "", "", "n"), 1.0);
+    assert_eq!(summary.get("south", "flows", "", "", "n_missing"), 0.0);
+}
+
+#[test]
+fn a_histogram_group_all_on_the_grid_s_last_edge_keeps_its_bar() {
+    // A ceiling effect: group `top` scored 100 every time, the most of anyone, so its values
+    // lie on the last edge of the shared grid (width 10: edges 0, 10, ..., 100). The last bin
+    // is closed, [90,100], and holds them.
+    let spec = r#"
+data scores "scores.csv" {
+  pupil: id
+  class: nominal levels("mixed", "top")
+  score: ratio
+}
+
+figure scores {
+  from scores
+  x score
+  colour class
+  histogram width(10)
+}
+"#;
+    let csv =
+        "pupil,class,score\nA,mixed,5\nB,mixed,42\nC,mixed,100\nD,top,100\nE,top,100\nF,top,100\n";
+    let project = Project::new(spec, &[("scores.csv", csv)]);
+    project.build();
+    let summary = project.summary("scores");
+    assert_eq!(summary.value("histogram", "top", "", "n"), 3.0);
+    assert_eq!(summary.value("histogram", "top", "[90,100]", "count"), 3.0);
+    assert_eq!(
+        summary.value("histogram", "mixed", "[90,100]", "count"),
+        1.0
+    );
+    // Every value of every group is in a bar.
+    for group in ["mixed", "top"] {
+        let counted: f64 = summary
+            .0
+            .iter()
+            .filter(|r| r.layer == "histogram" && r.group == group && r.stat == "count")
+            .map(|r| r.value.parse::<f64>().unwrap())
+            .sum();
+        assert_eq!(
+            counted,
+            summary.value("histogram", group, "", "n"),
+            "{group}"
+        );
+    }
+    // A group whose largest value is an inner edge takes the bin starting there ([40,50) holds
+    // 42; [100 is the last edge]): the bins are those of the shared grid.
+    assert_eq!(summary.value("histogram", "mixed", "[40,50)", "count"), 1.0);
+}
+
+#[test]
+fn a_violin_of_equal_values_reports_its_quartiles_and_draws_nothing() {
+    let spec = r#"
+data trays "trays.csv" {
+  tray: id
+  light: nominal levels("shade", "sun")
+  height: ratio
+}
+
+figure heights {
+  from trays
+  x light
+  y height
+  violin
+}
+"#;
+    // Every shaded tray measured 5: the quartiles are 5, and no bandwidth rule has a spread.
+    let csv =
+        "tray,light,height\nT1,shade,5\nT2,shade,5\nT3,shade,5\nT4,sun,7\nT5,sun,9\nT6,sun,8\n";
+    let project = Project::new(spec, &[("trays.csv", csv)]);
+    project.build();
+    let summary = project.summary("heights");
+    for stat in ["q1", "median", "q3"] {
+        assert_eq!(summary.value("violin", "", "shade", stat), 5.0, "{stat}");
+    }
+    assert!(!summary
+        .0
+        .iter()
+        .any(|r| r.x == "shade" && r.stat == "bandwidth"));
+    let data = project.figure_data("heights");
+    let LayerMarks::Violin(violins) = layer(&data, 0, 0) else {
+        panic!("no violins")
+    };
+    assert_eq!(violins.len(), 1, "only the sunny trays are drawn");
+}
+
+#[test]
+fn every_finite_double_lays_out_with_readable_tick_labels() {
+    // Values from the smallest subnormal to the largest double, of both signs, through a
+    // scatter plot with a fit, a box plot and a histogram: every figure is drawn, or (when a
+    // statistic is beyond the range of doubles) refused with F0123, never an internal error.
+    let cases: [(&str, [f64; 5]); 7] = [
+        ("big", [2e40, 3.5e40, 5e40, 1.2e41, 8e40]),
+        ("tiny", [1e-30, 2.5e-30, 3e-30, 7e-30, 4.4e-30]),
+        ("largest", [1e308, 1.5e308, 1.7e308, 1.2e308, 1.1e308]),
+        ("mixed", [-3e40, 2e40, -1e40, 5e40, 0.5e40]),
+        ("mixed_tiny", [-3e-30, 2e-30, -1e-30, 5e-30, 0.5e-30]),
+        ("whole_range", [-1.7e308, 1.7e308, 0.0, 1.0, -1.0]),
+        ("subnormal", [5e-324, 1e-320, 2e-322, 3e-321, 1e-319]),
+    ];
+    let mut spec = String::new();
+    let mut files = Vec::new();
+    for (name, values) in &cases {
+        let mut csv = String::from("p,g,x,y\n");
+        for (i, v) in values.iter().enumerate() {
+            let w = values[(i + 1) % values.len()];
+            csv.push_str(&format!("p{i},{},{v:e},{w:e}\n", ["a", "b"][i % 2]));
+        }
+        files.push((format!("{name}.csv"), csv));
+        spec.push_str(&format!(
+            "data {name} \"{name}.csv\" {{\n  p: id\n  g: nominal\n  x: interval\n  y: interval\n}}\n\
+             figure {name}_scatter {{\n  from {name}\n  x x\n  y y\n  points\n  fit band(0.95)\n}}\n\
+             figure {name}_box {{\n  from {name}\n  x g\n  y y\n  points\n  box\n}}\n\
+             figure {name}_histogram {{\n  from {name}\n  x x\n  histogram\n}}\n"
+        ));
+    }
+    let files: Vec<(&str, &str)> = files
+        .iter()
+        .map(|(n, c)| (n.as_str(), c.as_str()))
+        .collect();
+    let project = Project::new(&spec, &files);
+    let report = project.build_into("out");
+    assert!(
+        report.failures.is_empty(),
+        "internal errors: {:?}",
+        report.failures
+    );
+    assert!(
+        report.diagnostics.iter().all(|d| d.code == "F0123"),
+        "{:#?}",
+        report.diagnostics
+    );
+    assert!(
+        report.count(build::FigureState::Built) >= 19,
+        "{:?}",
+        report.figures
+    );
+    // Tick labels of extreme magnitudes are short: scientific, with a superscript exponent.
+    let data = project.figure_data("big_scatter");
+    let figura::compute::XScale::Numbers(x) = &data.x else {
+        panic!("numeric x")
+    };
+    let axis = figura::layout::NumAxisMap::new(x, 5);
+    assert!(
+        axis.labels.iter().all(|l| l.chars().count() <= 8),
+        "{:?}",
+        axis.labels
+    );
+    assert!(
+        axis.labels.iter().any(|l| l.ends_with("10⁴⁰")),
+        "{:?}",
+        axis.labels
+    );
 }

@@ -29,6 +29,7 @@ use std::path::{Path, PathBuf};
 use rayon::prelude::*;
 
 use crate::check::{self, FigureDefaults, FigurePlan, Program};
+use crate::compute::ComputeError;
 use crate::compute::SummaryRow;
 use crate::data::{self, Table};
 use crate::diag::{Diagnostic, SourceMap, Span};
@@ -509,7 +510,7 @@ fn read_tables(
         }
         let spec = table_spec(&program.codebooks[idx]);
         let table = match data::read_table(&spec, &mut report.sources) {
-            Ok(t) => Some(t),
+            Ok(t) => design_checked(&program.codebooks[idx], t, report),
             Err(diags) => {
                 report.diagnostics.extend(diags);
                 None
@@ -530,6 +531,17 @@ fn create_folders<'a>(dirs: impl Iterator<Item = &'a Path>) -> BTreeMap<PathBuf,
                 .map(|e| (dir.to_path_buf(), e.to_string()))
         })
         .collect()
+}
+
+/// The table when the data fit the block's declared design; `None` (the errors reported) when
+/// they do not, so no figure of the block is made.
+fn design_checked(book: &check::Codebook, table: Table, report: &mut BuildReport) -> Option<Table> {
+    match crate::compute::check_design(book, &table) {
+        Ok(diags) if diags.is_empty() => return Some(table),
+        Ok(diags) | Err(ComputeError::Data(diags)) => report.diagnostics.extend(diags),
+        Err(ComputeError::Internal(m)) => report.failures.push(BuildError::Internal(m)),
+    }
+    None
 }
 
 /// Makes one figure and, in a build, writes each output whose bytes changed (its folder

@@ -46,6 +46,7 @@ pub fn check_data_block(
         subject: None,
         within: Vec::new(),
         between: Vec::new(),
+        factor_spans: Vec::new(),
         replicates: None,
         span: block.span,
     };
@@ -398,6 +399,7 @@ fn add_factor(
     };
     if !list.contains(&id) {
         list.push(id);
+        book.factor_spans.push((id, name.span));
     }
 }
 

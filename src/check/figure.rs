@@ -74,8 +74,9 @@ pub fn check_figure(
     defaults: &FigureDefaults,
     diags: &mut Vec<Diagnostic>,
 ) -> Option<FigurePlan> {
-    let parts = sort_statements(block, diags);
+    // Every error from here on, the statements' own included, stops the figure (§11).
     let errors_before = count_errors(diags);
+    let parts = sort_statements(block, diags);
     let Some(from) = parts.from else {
         diags.push(
             Diagnostic::new(
@@ -198,6 +199,7 @@ pub fn check_figure(
         colour,
         panels,
         filter,
+        filter_span: parts.filter.map(|w| w.span),
         width_mm,
         height_mm,
         formats,
@@ -278,7 +280,8 @@ fn warn_hidden_data(layers: &[LayerPlan], diags: &mut Vec<Diagnostic>) {
     }
 }
 
-fn count_errors(diags: &[Diagnostic]) -> usize {
+/// The number of errors (not warnings) among `diags`.
+pub(super) fn count_errors(diags: &[Diagnostic]) -> usize {
     diags.iter().filter(|d| d.is_error()).count()
 }
 

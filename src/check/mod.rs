@@ -55,6 +55,8 @@ pub fn check_with(units: &[SpecUnit], defaults: &FigureDefaults) -> (Program, Ve
     let mut program = Program::default();
     // Codebooks of every file, indexed by file.
     let mut books_of_file: Vec<Vec<usize>> = Vec::with_capacity(units.len());
+    // Whether each codebook had an error: its figures are not built (§11).
+    let mut book_failed: Vec<bool> = Vec::new();
     for unit in units {
         let dir = unit.path.parent().unwrap_or(Path::new("."));
         let mut mine = Vec::new();
@@ -63,9 +65,11 @@ pub fn check_with(units: &[SpecUnit], defaults: &FigureDefaults) -> (Program, Ve
             if block.kind.name != "data" {
                 continue;
             }
+            let errors_before = figure::count_errors(&diags);
             if let Some(book) = codebook::check_data_block(block, dir, &mut diags) {
                 mine.push(program.codebooks.len());
                 program.codebooks.push(book);
+                book_failed.push(figure::count_errors(&diags) > errors_before);
             }
         }
         books_of_file.push(mine);
@@ -89,7 +93,10 @@ pub fn check_with(units: &[SpecUnit], defaults: &FigureDefaults) -> (Program, Ve
                     }
                     figure_names.insert(block.name.name.clone(), block.name.span);
                     let books: Vec<(usize, &Codebook)> = visible.iter().map(|&i| (i, &program.codebooks[i])).collect();
-                    if let Some(plan) = figure::check_figure(block, &unit.path, &books, defaults, &mut diags) {
+                    let plan = figure::check_figure(block, &unit.path, &books, defaults, &mut diags);
+                    // A figure whose data block has an error is not built either: the error is
+                    // reported at the data block.
+                    if let Some(plan) = plan.filter(|p| !book_failed[p.data]) {
                         program.figures.push(plan);
                     }
                 }

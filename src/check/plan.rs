@@ -109,6 +109,8 @@ pub struct Codebook {
     pub subject: Option<VarId>,
     pub within: Vec<VarId>,
     pub between: Vec<VarId>,
+    /// Where each `within` and `between` factor is first named, for the design's data errors.
+    pub factor_spans: Vec<(VarId, Span)>,
     pub replicates: Option<Replicates>,
     pub span: Span,
 }
@@ -128,6 +130,15 @@ impl Codebook {
 
     pub fn is_between(&self, id: VarId) -> bool {
         self.between.contains(&id)
+    }
+
+    /// Where a design factor is named in its `within` or `between` statement (else the
+    /// variable's declaration).
+    pub fn factor_span(&self, id: VarId) -> Span {
+        self.factor_spans
+            .iter()
+            .find(|(v, _)| *v == id)
+            .map_or(self.var(id).span, |(_, s)| *s)
     }
 }
 
@@ -221,10 +232,46 @@ pub enum ErrorBar {
     CiWithin {
         level: f64,
     },
-    /// Percentile bootstrap interval.
+    /// Bootstrap interval: percentile, or bias-corrected and accelerated.
     Bootstrap {
         level: f64,
+        method: BootMethod,
     },
+}
+
+/// How a bootstrap interval is read from the resampled statistics.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum BootMethod {
+    /// The `(1 − L)/2` and `1 − (1 − L)/2` quantiles (Efron & Tibshirani 1993, §13.3).
+    Percentile,
+    /// Bias-corrected and accelerated (Efron 1987).
+    Bca,
+}
+
+/// What the band of a fitted line shows.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum BandKind {
+    /// The confidence interval for the mean response.
+    Mean,
+    /// The prediction interval for one new observation.
+    Prediction,
+}
+
+/// The band of a fitted line: its level and what it shows.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Band {
+    pub level: f64,
+    pub kind: BandKind,
+}
+
+/// How much of a drawn curve the summary lists.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+pub enum SummaryDetail {
+    /// The curve's defining numbers only (a bandwidth, a fit's coefficients).
+    #[default]
+    Default,
+    /// Also every point at which the curve is drawn (`summary(full)`).
+    Full,
 }
 
 /// Kernel bandwidth rule.
@@ -308,6 +355,8 @@ pub struct FigurePlan {
     pub colour: Option<CatVar>,
     pub panels: Option<CatVar>,
     pub filter: Option<Filter>,
+    /// The `where` statement, for a filter that keeps no rows (found in the data).
+    pub filter_span: Option<Span>,
     pub width_mm: f64,
     pub height_mm: f64,
     pub formats: Formats,

@@ -10,8 +10,9 @@
 //!   numeric x alone), level slots for a categorical y, pairs for a numeric x and y;
 //! - observations are in table-row order (collapsed trials take the row of their first trial);
 //!   each cell's values are also kept sorted;
-//! - a row whose panel, x or colour value is missing is in no cell (counted in `unplaced`); a
-//!   placed row whose measured value is missing counts in its cell's `n_missing`;
+//! - a row whose panel, x or colour value is missing is in no cell (counted in its panel's
+//!   `unplaced` when its panel is known); a placed row whose measured value is missing counts
+//!   in its cell's `n_missing`;
 //! - with `replicates`, each subject has one value per cell; without, a subject with two values
 //!   in one cell is an error when a layer joins or compares one value per subject.
 
@@ -53,14 +54,20 @@ pub struct Placement<T> {
     pub obs: Vec<Obs<T>>,
     /// Placed rows of each cell whose measured value is missing.
     pub missing: BTreeMap<Cell, usize>,
-    /// Kept rows that could not be placed (missing panel, x or colour value).
-    pub unplaced: usize,
+    /// Kept rows of each panel that could not be placed in a cell (a missing x or colour
+    /// value); a row whose panel value is missing belongs to no panel and is not counted.
+    pub unplaced: BTreeMap<usize, usize>,
 }
 
 impl<T> Placement<T> {
     /// Placed rows of `cell` whose measured value is missing.
     pub fn n_missing(&self, cell: Cell) -> usize {
         self.missing.get(&cell).copied().unwrap_or(0)
+    }
+
+    /// Kept rows of `panel` without a cell (a missing x or colour value).
+    pub fn unplaced_in(&self, panel: usize) -> usize {
+        self.unplaced.get(&panel).copied().unwrap_or(0)
     }
 
     /// The observations of one panel, in row order.
@@ -169,11 +176,13 @@ impl Sorter<'_> {
         let mut out = Placement {
             obs: Vec::new(),
             missing: BTreeMap::new(),
-            unplaced: 0,
+            unplaced: BTreeMap::new(),
         };
         for row in (0..self.keep.len()).filter(|&r| self.keep[r]) {
             let Some(cell) = self.cell(row) else {
-                out.unplaced += 1;
+                if let Some(panel) = slot(self.panel, row) {
+                    *out.unplaced.entry(panel).or_default() += 1;
+                }
                 continue;
             };
             match value(row) {
@@ -212,6 +221,7 @@ impl<'a> Cells<'a> {
         table: &'a Table,
     ) -> Result<Cells<'a>, ComputeError> {
         let keep = filter_rows(table, book, plan.filter.as_ref())?;
+        check_filter_keeps_rows(plan, table, &keep)?;
         let (panels, panel_codes) = grouping(table, book, plan.panels.as_ref(), &keep)?;
         let (groups, group_codes) = grouping(table, book, plan.colour.as_ref(), &keep)?;
         if let Some(c) = &plan.colour {
@@ -248,7 +258,7 @@ impl<'a> Cells<'a> {
             placed: Placed::Rows(Placement {
                 obs: Vec::new(),
                 missing: BTreeMap::new(),
-                unplaced: 0,
+                unplaced: BTreeMap::new(),
             }),
             jitter: plan
                 .layers
@@ -281,7 +291,7 @@ impl<'a> Cells<'a> {
         let column = numbers(self.table, self.book, axis.var.var)?;
         let mut placed = sorter.place(|row| column[row]);
         match &self.book.replicates {
-            Some(rep) => collapse(&mut placed, rep.collapse),
+            Some(rep) => collapse(&mut placed, numeric_collapse(rep.collapse)),
             None => self.check_one_value_per_subject(&placed)?,
         }
         self.check_log(axis, placed.obs.iter().map(|o| (o.row, o.value)))?;
@@ -300,10 +310,12 @@ impl<'a> Cells<'a> {
                 .and_then(|c| y_levels.slot(c))
                 .map(|s| s as f64)
         });
-        if let Some(rep) = &self.book.replicates {
-            if rep.collapse == Collapse::Median {
-                collapse(&mut placed, rep.collapse);
-            }
+        // Ordinal trials collapse to a level, their median by definition 1, whatever the
+        // block's `collapse` says (a mean of levels is not defined); a layer that follows each
+        // trial's state (flows) keeps them as they are.
+        let follows_trials = self.plan.layers.iter().any(|l| l.traits.keeps_trials);
+        if self.book.replicates.is_some() && y.var.ordered && !follows_trials {
+            collapse(&mut placed, level_median);
         }
         Ok(Values::new(placed))
     }
@@ -321,8 +333,8 @@ impl<'a> Cells<'a> {
         let mut placed_x = sorter.place(|row| complete(xs, row));
         let mut placed_y = sorter.place(|row| complete(ys, row));
         if let Some(rep) = &self.book.replicates {
-            collapse(&mut placed_x, rep.collapse);
-            collapse(&mut placed_y, rep.collapse);
+            collapse(&mut placed_x, numeric_collapse(rep.collapse));
+            collapse(&mut placed_y, numeric_collapse(rep.collapse));
         }
         // Both placements saw the same rows, so their observations pair up one to one.
         let obs = placed_x
@@ -480,8 +492,9 @@ fn units(obs: Vec<&Obs<f64>>) -> usize {
     subjects.len() + obs.iter().filter(|o| o.subject.is_none()).count()
 }
 
-/// Collapses repeated trials: one value per subject per cell (mean or median of its trials).
-fn collapse(placed: &mut Placement<f64>, how: Collapse) {
+/// Collapses repeated trials: one value per subject per cell, `reduce` of its trials' values
+/// (in row order, at least one).
+fn collapse(placed: &mut Placement<f64>, reduce: fn(&mut [f64]) -> f64) {
     let mut by_key: BTreeMap<(Cell, u32), Vec<Obs<f64>>> = BTreeMap::new();
     let mut without_subject = Vec::new();
     for o in placed.obs.drain(..) {
@@ -494,19 +507,33 @@ fn collapse(placed: &mut Placement<f64>, how: Collapse) {
         .into_values()
         .map(|trials| {
             let mut values: Vec<f64> = trials.iter().map(|o| o.value).collect();
-            let value = match how {
-                Collapse::Mean => crate::stats::mean(&values).unwrap_or(values[0]),
-                Collapse::Median => {
-                    values.sort_by(f64::total_cmp);
-                    crate::stats::quantile_sorted(&values, 0.5).unwrap_or(values[0])
-                }
-            };
-            Obs { value, ..trials[0] }
+            Obs {
+                value: reduce(&mut values),
+                ..trials[0]
+            }
         })
         .collect();
     out.extend(without_subject);
     out.sort_by_key(|o| o.row);
     placed.obs = out;
+}
+
+/// The reduction of numeric trials a data block asks for: their mean or median (definition 7).
+fn numeric_collapse(how: Collapse) -> fn(&mut [f64]) -> f64 {
+    match how {
+        Collapse::Mean => |values| crate::stats::mean(values).unwrap_or(values[0]),
+        Collapse::Median => |values| {
+            values.sort_by(f64::total_cmp);
+            crate::stats::quantile_sorted(values, 0.5).unwrap_or(values[0])
+        },
+    }
+}
+
+/// The median level of ordinal trials given as level slots (Hyndman & Fan definition 1): a
+/// level some trial had, the lower middle one for an even number of trials.
+fn level_median(slots: &mut [f64]) -> f64 {
+    let levels: Vec<usize> = slots.iter().map(|&s| s as usize).collect();
+    crate::stats::level_median(&levels).map_or(slots[0], |l| l as f64)
 }
 
 /// The first subject with more than one value in a cell, if any: (subject code, cell, rows).
@@ -535,6 +562,32 @@ fn repeated_subject_error(
     )
     .with_label(layer_span, "joins one value per subject and cell")
     .with_help("if these are repeated trials, declare `replicates TRIAL collapse(mean)` in the data block; otherwise correct the data")
+}
+
+/// Rule F0120 in the data: a `where` filter that keeps none of the file's rows would draw an
+/// empty figure.
+fn check_filter_keeps_rows(
+    plan: &FigurePlan,
+    table: &Table,
+    keep: &[bool],
+) -> Result<(), ComputeError> {
+    let Some(span) = plan.filter_span else {
+        return Ok(());
+    };
+    if keep.contains(&true) {
+        return Ok(());
+    }
+    Err(Diagnostic::new(
+        Code::EmptyFilter,
+        format!(
+            "the filter keeps none of the {} rows of {}",
+            table.n_rows(),
+            table.file_label()
+        ),
+    )
+    .with_label(span, "keeps no rows")
+    .with_help("check the values it compares with: a level's spelling, a number's unit and range")
+    .into())
 }
 
 /// Levels told apart by colour must not outnumber the palette's colours (no colour is ever

@@ -10,25 +10,29 @@
 //! - every number drawn also appears in `summary`, in a fixed order (panel, layer, then the
 //!   layer's own order: x and group, or group and bin);
 //! - the data-dependent rules (a subject twice in one cell, zeros on a log axis, more colour
-//!   levels than colours) have been applied and reported as diagnostics.
+//!   levels than colours, a filter that keeps no rows) have been applied and reported as
+//!   diagnostics, and every number is finite (a statistic that overflows is `F0123`); the
+//!   design's rules ([`check_design`]) run once per data block, before.
 //!
 //! Invariant: no I/O and no geometry here — values stay in data units; the layout maps them.
 
 pub mod cells;
+mod design;
 mod extent;
 mod filter;
 pub mod layer;
 mod levels;
 pub mod summary;
 
-use crate::check::plan::{Axes, AxisScale, Codebook, FigurePlan, NumAxis};
+use crate::check::plan::{Axes, AxisScale, Codebook, FigurePlan, LayerPlan, NumAxis};
 use crate::data::Table;
-use crate::diag::Diagnostic;
+use crate::diag::{Code, Diagnostic};
 
 use cells::{Cells, Placed};
 use extent::Extent;
 use layer::YUse;
 
+pub use design::check_design;
 pub use layer::{LayerMarks, Stat};
 pub use levels::Levels;
 pub use summary::{StatValue, SummaryRow};
@@ -128,6 +132,7 @@ pub fn compute(
         let mut marks = Vec::with_capacity(plan.layers.len());
         for l in &plan.layers {
             let out = layer::compute(l, &cells, p)?;
+            check_finite(&out, l)?;
             summary.extend_from_slice(&out.rows);
             marks.push(merged.add(out));
         }
@@ -151,6 +156,28 @@ pub fn compute(
         summary,
         width_peak: merged.width_peak,
     })
+}
+
+/// Rule F0123: a layer whose numbers overflowed (data near the largest double) cannot be
+/// drawn; every number of a figure is finite.
+fn check_finite(out: &layer::LayerOutput, l: &LayerPlan) -> Result<(), ComputeError> {
+    let rows_finite = out.rows.iter().all(|r| match r.value {
+        StatValue::Number(v) => v.is_finite(),
+        StatValue::Level(_) => true,
+    });
+    if rows_finite && !out.x.saw_not_finite() && !out.y.saw_not_finite() {
+        return Ok(());
+    }
+    Err(Diagnostic::new(
+        Code::BeyondDoubleRange,
+        format!(
+            "{} gives a number beyond the range of double-precision numbers for these data",
+            l.decl.quoted()
+        ),
+    )
+    .with_label(l.span, "overflows")
+    .with_help("the values are too large in magnitude for this statistic: measure the variable in a larger unit (and say so in its `unit`)")
+    .into())
 }
 
 /// What every layer's output adds up to for the figure.

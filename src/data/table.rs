@@ -177,6 +177,11 @@ impl Table {
         self.rows.get(row).copied()
     }
 
+    /// How the file is named in messages: its file name (`speeds.csv`).
+    pub fn file_label(&self) -> String {
+        super::report::file_label(&self.path)
+    }
+
     /// `speeds.csv row 14` (with `(line L)` when the line differs), for messages of later stages.
     pub fn row_label(&self, row: usize) -> Option<String> {
         let place = self.row_place(row)?;

@@ -90,6 +90,10 @@ code_table! {
     YNotNumeric = "F0117", Error, "A layer that needs a numeric `y` was given a categorical one or an id.";
     LayerDoesNotFit = "F0118", Error, "A layer that does not fit the figure's axes or its other layers.";
     TooManyColours = "F0119", Error, "More levels to tell apart by colour than the palette has colours (found in the data).";
+    EmptyFilter = "F0120", Error, "A `where` filter that keeps no rows of the data (found in the data).";
+    BetweenVariesWithinSubject = "F0121", Error, "A subject listed at two levels of a `between` factor (found in the data).";
+    WithinNeverRepeated = "F0122", Error, "A `within` factor at which no subject was measured at two levels (found in the data).";
+    BeyondDoubleRange = "F0123", Error, "A statistic of the data beyond the range of double-precision numbers (found in the data).";
 
     // Form of statements and files.
     UnknownStatement = "F0201", Error, "A statement word that does not exist in this kind of block.";

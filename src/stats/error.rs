@@ -45,6 +45,9 @@ pub enum StatError {
     /// A BCa interval is undefined: every bootstrap replicate lies on one side of the estimate
     /// (the bias correction is infinite), or the acceleration is too large for the level.
     BcaUndefined,
+    /// A result is beyond the range of double-precision numbers (values near ±1.8e308, or
+    /// squares of differences beyond it).
+    Overflow,
 }
 
 impl fmt::Display for StatError {
@@ -87,6 +90,10 @@ impl fmt::Display for StatError {
             StatError::SuccessesExceedTrials { successes, trials } => {
                 write!(f, "{successes} successes is more than the {trials} trials")
             }
+            StatError::Overflow => write!(
+                f,
+                "a result is beyond the range of double-precision numbers"
+            ),
             StatError::BcaUndefined => write!(
                 f,
                 "the bias-corrected interval is undefined: the bootstrap replicates all lie on \

@@ -59,7 +59,16 @@ pub fn quantile_sorted(sorted: &[f64], p: f64) -> Result<f64, StatError> {
     let fraction = h - lower;
     let below = sorted[index];
     match sorted.get(index + 1) {
-        Some(&above) if fraction > 0.0 && above != below => Ok(below + fraction * (above - below)),
+        Some(&above) if fraction > 0.0 && above != below => {
+            let gap = above - below;
+            if gap.is_finite() {
+                Ok(below + fraction * gap)
+            } else {
+                // Neighbours of opposite sign near the largest double: their difference
+                // overflows, the weighted sum does not.
+                Ok(below * (1.0 - fraction) + above * fraction)
+            }
+        }
         _ => Ok(below),
     }
 }

@@ -15,6 +15,7 @@
 //!   `se(intercept) = s · √(1/n + x̄²/Sxx)`, their intervals `estimate ± t(1 − (1 − L)/2, n − 2)
 //!   · se`, `r`, `R² = r²` and `s` (Draper & Smith 1998, *Applied Regression Analysis*, 3rd ed.,
 //!   §1.4 and §3.1; the certified values of NIST StRD Norris and statsmodels OLS are the checks).
+//! - Deviations whose squares overflow (beyond about 1e154) give `Overflow`: no line.
 //! - Degenerate cases: two distinct x values are needed for a line (`NoSpread` otherwise); `s`,
 //!   the standard errors, intervals and bands need `n ≥ 3` (`TooFewValues`); a perfect fit has
 //!   `s = 0` and intervals of zero width; `r` and `R²` are `None` when every y is equal.
@@ -188,6 +189,9 @@ pub fn linear_fit(x: &[f64], y: &[f64]) -> Result<LinearFit, StatError> {
     let sxx = accurate_sum(pairs().map(|(dx, _)| dx * dx));
     let sxy = accurate_sum(pairs().map(|(dx, dy)| dx * dy));
     let syy = accurate_sum(pairs().map(|(_, dy)| dy * dy));
+    if !(sxx.is_finite() && sxy.is_finite() && syy.is_finite()) {
+        return Err(StatError::Overflow);
+    }
     if sxx <= 0.0 {
         return Err(StatError::NoSpread);
     }

@@ -82,23 +82,55 @@ pub(crate) fn accurate_sum(values: impl IntoIterator<Item = f64>) -> f64 {
     sum + compensation
 }
 
-/// Two-pass mean with a correction term. Caller guarantees at least one finite value.
+/// Two-pass mean with a correction term. Caller guarantees at least one finite value. When the
+/// sums overflow (values near the largest double), the mean of the values scaled by 2^-64
+/// (exact) is scaled back, so every mean of finite values is finite.
 pub(crate) fn accurate_mean(values: &[f64]) -> f64 {
-    let n = values.len() as f64;
-    let first = accurate_sum(values.iter().copied()) / n;
-    let correction = accurate_sum(values.iter().map(|&v| v - first)) / n;
+    let mean = two_pass_mean(values.iter().copied(), values.len());
+    if mean.is_finite() {
+        return mean;
+    }
+    let scaled = two_pass_mean(values.iter().map(|&v| v * OVERFLOW_SCALE), values.len());
+    scaled / OVERFLOW_SCALE
+}
+
+/// A power of two small enough that sums of a few billion scaled doubles stay finite.
+const OVERFLOW_SCALE: f64 = 5.421010862427522e-20; // 2^-64
+
+fn two_pass_mean(values: impl Iterator<Item = f64> + Clone, n: usize) -> f64 {
+    let n = n as f64;
+    let first = accurate_sum(values.clone()) / n;
+    let correction = accurate_sum(values.map(|v| v - first)) / n;
     first + correction
 }
 
-/// Sum of squared deviations from `mean` by the corrected two-pass formula, never negative.
+/// Sum of squared deviations from `mean` by the corrected two-pass formula, never negative;
+/// infinite when the squares overflow.
 pub(crate) fn squared_deviations(values: &[f64], mean: f64) -> f64 {
     let n = values.len() as f64;
     let sum_d = accurate_sum(values.iter().map(|&v| v - mean));
     let sum_d2 = accurate_sum(values.iter().map(|&v| (v - mean) * (v - mean)));
-    (sum_d2 - sum_d * sum_d / n).max(0.0)
+    let ssd = sum_d2 - sum_d * sum_d / n;
+    if ssd.is_nan() {
+        f64::INFINITY
+    } else {
+        ssd.max(0.0)
+    }
 }
 
-/// Sample sd about a given (accurate) mean. Caller guarantees at least two values.
+/// Sample sd about a given (accurate) mean. Caller guarantees at least two values. When the
+/// squares overflow (deviations beyond about 1e154), the sd of the values scaled by 2^-600
+/// (exact for such magnitudes) is scaled back; it is infinite only when the sd itself is
+/// beyond the largest double.
 pub(crate) fn sd_about(values: &[f64], mean: f64) -> f64 {
-    (squared_deviations(values, mean) / (values.len() as f64 - 1.0)).sqrt()
+    let df = values.len() as f64 - 1.0;
+    let sd = (squared_deviations(values, mean) / df).sqrt();
+    if sd.is_finite() {
+        return sd;
+    }
+    let scaled: Vec<f64> = values.iter().map(|&v| v * SPREAD_SCALE).collect();
+    (squared_deviations(&scaled, mean * SPREAD_SCALE) / df).sqrt() / SPREAD_SCALE
 }
+
+/// 2^-600: brings deviations up to 2^1025 down to 2^425, whose squares are finite.
+const SPREAD_SCALE: f64 = 2.409919865102884e-181;

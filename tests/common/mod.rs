@@ -197,3 +197,17 @@ pub fn without_spans(debug: &str) -> String {
     out.push_str(rest);
     out
 }
+
+/// Asserts `|actual − expected| ≤ tol · scale`, where `scale` is the quantity's natural size
+/// (at least the smallest positive double).
+pub fn close(actual: f64, expected: f64, tol: f64, scale: f64, what: &str) {
+    assert!(
+        (actual - expected).abs() <= tol * scale.abs().max(f64::MIN_POSITIVE),
+        "{what}: {actual} against the reference {expected}"
+    );
+}
+
+/// Asserts `actual` is within `tol` of `expected`, relative to `expected`.
+pub fn rel(actual: f64, expected: f64, tol: f64, what: &str) {
+    close(actual, expected, tol, expected, what);
+}

@@ -509,22 +509,27 @@ def t_multiplier(level, n):
     return float(stats.t.ppf(1.0 - (1.0 - level) / 2.0, n - 1))
 
 
-def mean_rows(v, error, level):
+def mean_rows(v, error, level, log=False):
+    """The mean and its error bar; on a log axis the geometric mean (scipy.stats.gmean) with
+    the interval of the mean of numpy.log exponentiated, sd and se as the factors exp(sd) and
+    exp(se) of the logs (language.md section 9, log axes)."""
     v = np.asarray(v, dtype=float)
     n = len(v)
-    m = float(np.mean(v))
-    out = [("mean", m)]
+    on = np.log(v) if log else v
+    m = float(np.mean(on))
+    back = math.exp if log else (lambda a: a)
+    out = [("geometric_mean", float(stats.gmean(v))) if log else ("mean", m)]
     if n < 2:
         return out
-    sd = float(np.std(v, ddof=1))
+    sd = float(np.std(on, ddof=1))
     se = sd / math.sqrt(n)
     if error == "sd":
-        out.append(("sd", sd))
+        out.append(("geometric_sd" if log else "sd", back(sd)))
     elif error == "se":
-        out.append(("se", se))
+        out.append(("geometric_se" if log else "se", back(se)))
     elif error == "ci":
         half = t_multiplier(level, n) * se
-        out += [("ci_low", m - half), ("ci_high", m + half)]
+        out += [("ci_low", back(m - half)), ("ci_high", back(m + half))]
     return out
 
 
@@ -598,12 +603,10 @@ def grid_width(pooled, rule):
     return None if ambiguous else w
 
 
-def expected_edges(values, width):
-    """Edges at whole multiples of the width, each the double nearest to the exact multiple, the
-    first at or below the smallest value, the last at or above the largest, at least one bin
-    apart (language.md section 5)."""
-    v = np.asarray(values, dtype=float)
-    lo, hi = float(v.min()), float(v.max())
+def edge_indices(lo, hi, width):
+    """The first and last edge index of a grid of whole multiples of the width (each the double
+    nearest to the exact multiple) covering [lo, hi]: the first at or below lo, the last at or
+    above hi, at least one bin apart (language.md section 9)."""
     edge = lambda k: float(k * width)  # noqa: E731  the double nearest to k x width
     # Values and edges are compared as doubles: "2.7" in the data is the edge 27 x 0.1.
     k0 = math.floor(Fraction(lo) / width)
@@ -616,7 +619,27 @@ def expected_edges(values, width):
         k1 += 1
     while edge(k1 - 1) >= hi:
         k1 -= 1
-    return [edge(k) for k in range(k0, max(k1, k0 + 1) + 1)]
+    return k0, max(k1, k0 + 1)
+
+
+def expected_edges(values, width, pooled):
+    """The edges of one group on the figure's shared grid (which covers the `pooled` values):
+    from the bin holding its smallest value to the bin holding its largest, bins [a, b) and the
+    grid's last closed, so a largest value on an inner edge starts the next bin and one on the
+    grid's last edge is in the last bin."""
+    v = np.asarray(values, dtype=float)
+    lo, hi = float(v.min()), float(v.max())
+    edge = lambda k: float(k * width)  # noqa: E731
+    grid_first, grid_last = edge_indices(min(pooled), max(pooled), width)
+
+    def bin_of(x):
+        # The bin starting at the last edge at or below x; a value on the grid's last edge is in
+        # the last bin.
+        k, _ = edge_indices(x, x, width)
+        return min(max(k, grid_first), grid_last - 1)
+
+    first, last = bin_of(lo), bin_of(hi)
+    return [edge(k) for k in range(first, last + 2)]
 
 
 def ordinal_levels(codes):
@@ -741,9 +764,9 @@ def counts_ref(f, emit):
                 for level in f.x_levels:
                     count = present.count(level)
                     emit(p, "counts", g, level, "count", count)
-                    if layer["heights"] == "percent":
-                        emit(p, "counts", g, level, "percent",
-                             100.0 * count / total if total else 0.0)
+                    # A group with no rows has no percentages (language.md section 9).
+                    if layer["heights"] == "percent" and total:
+                        emit(p, "counts", g, level, "percent", 100.0 * count / total)
 
 
 def histogram_ref(f, summary, emit, problems):
@@ -775,7 +798,7 @@ def histogram_ref(f, summary, emit, problems):
             edges = [b[0] for b in bins] + [bins[-1][1]]
             if any(bins[i][1] != bins[i + 1][0] for i in range(len(bins) - 1)):
                 problems.append("%s: bins %s are not contiguous" % (f.fig["name"], labels))
-            want = expected_edges(v, width) if width is not None else None
+            want = expected_edges(v, width, pooled) if width is not None else None
             if want is not None and want != edges:
                 problems.append("%s (panel %r group %r, rule %r): edges %s, expected %s"
                                 % (f.fig["name"], p, g, layer["rule"], edges, want))
@@ -903,7 +926,8 @@ def cat_num_ref(f, emit):
                         for stat, value in box_rows(v, layer["whiskers"]):
                             emit(p, kind, g, x, stat, value, scale)
                     elif kind == "mean":
-                        for stat, value in mean_rows(v, layer["error"], layer.get("level")):
+                        log = f.fig["y_scale"] == "log"
+                        for stat, value in mean_rows(v, layer["error"], layer.get("level"), log):
                             emit(p, kind, g, x, stat, value, scale)
                     elif kind == "median":
                         emit(p, kind, g, x, "median", percentile(v, 50), scale)

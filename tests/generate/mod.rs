@@ -25,18 +25,7 @@ use arbitrary::Unstructured;
 /// Internal errors known and not yet fixed: (a text the failure contains, why it is known).
 /// The fuzz targets and the properties run them but do not fail on them; `tests/fuzz.rs`
 /// fails when the regression corpus no longer reproduces one, so the list shrinks.
-pub const KNOWN: &[(&str, &str)] = &[
-    (
-        "a rectangle width in the drawing is out of range",
-        "values near 1e300 give a negative width when the figure is laid out (layout, not yet \
-         assigned) — regression 004_huge_values_box",
-    ),
-    (
-        "a coordinate in the drawing is not a finite number",
-        "a least squares line over values near 1e300 overflows (stats or layout, not yet \
-         assigned) — regression 005_huge_values_fit",
-    ),
-];
+pub const KNOWN: &[(&str, &str)] = &[];
 
 /// Panics inside a figure keep their place (file and line) for the failure's message, which
 /// is what [`KNOWN`] matches; call it before making figures.

@@ -1,9 +1,22 @@
 #!/usr/bin/env python3
-"""Reference values from scipy for the layer checks of tests/layers.rs.
+"""Reference values from scipy and statsmodels for the layer checks of tests/layers.rs.
 
 Modes (a JSON request on stdin, JSON on stdout; numbers travel as JSON doubles, which both
 sides read and write exactly):
-  reference.py ecdf   scipy.stats.ecdf(sample).cdf: its distinct values and probabilities
+  reference.py ecdf       scipy.stats.ecdf(sample).cdf: its distinct values and probabilities
+  reference.py ols        statsmodels OLS: params, bse, conf_int, rsquared, sqrt(scale), and
+                          get_prediction(at).summary_frame (mean and observation intervals)
+  reference.py wilson     statsmodels.stats.proportion.proportion_confint(method="wilson")
+  reference.py geometric  scipy.stats.gmean, and the t interval of numpy.log restated with
+                          scipy.stats.t.ppf (sd, se and ci factors exponentiated)
+  reference.py median_ci  order-statistic ranks from scipy.stats.binom.cdf (the largest l with
+                          1 - 2 P(B <= l - 1) >= L) and McGill-Tukey-Larsen notches from
+                          numpy.percentile(method="linear")
+  reference.py bca        scipy.stats.bootstrap(method="BCa") of the mean, 50 000 resamples,
+                          with its bootstrap standard error
+  reference.py reflected  the density reflected at zero, sum of scipy.stats.norm.pdf((x - v)/h)
+                          + norm.pdf((x + v)/h) over n h for x >= 0 (Silverman 1986 §2.10
+                          restated)
 """
 
 import json
@@ -21,7 +34,126 @@ def mode_ecdf(request):
     return out
 
 
-MODES = {"ecdf": mode_ecdf}
+def mode_ols(request):
+    import statsmodels.api as sm
+
+    x = np.array(request["x"], dtype=float)
+    y = np.array(request["y"], dtype=float)
+    level = request["level"]
+    fit = sm.OLS(y, sm.add_constant(x)).fit()
+    conf = fit.conf_int(alpha=1.0 - level)
+    at = np.array(request["at"], dtype=float)
+    frame = fit.get_prediction(sm.add_constant(at, has_constant="add")).summary_frame(
+        alpha=1.0 - level
+    )
+    return {
+        "intercept": fit.params[0],
+        "slope": fit.params[1],
+        "intercept_se": fit.bse[0],
+        "slope_se": fit.bse[1],
+        "intercept_ci": conf[0].tolist(),
+        "slope_ci": conf[1].tolist(),
+        "r_squared": fit.rsquared,
+        "residual_sd": float(np.sqrt(fit.scale)),
+        "fitted": frame["mean"].tolist(),
+        "mean_low": frame["mean_ci_lower"].tolist(),
+        "mean_high": frame["mean_ci_upper"].tolist(),
+        "obs_low": frame["obs_ci_lower"].tolist(),
+        "obs_high": frame["obs_ci_upper"].tolist(),
+    }
+
+
+def mode_wilson(request):
+    from statsmodels.stats.proportion import proportion_confint
+
+    out = []
+    for count, n, level in request:
+        low, high = proportion_confint(count, n, alpha=1.0 - level, method="wilson")
+        out.append([float(low), float(high)])
+    return out
+
+
+def mode_geometric(request):
+    level = request["level"]
+    out = []
+    for sample in request["samples"]:
+        v = np.array(sample, dtype=float)
+        logs = np.log(v)
+        n = len(v)
+        sd = float(np.std(logs, ddof=1))
+        se = sd / np.sqrt(n)
+        t = stats.t.ppf(1.0 - (1.0 - level) / 2.0, n - 1)
+        out.append(
+            {
+                "gmean": float(stats.gmean(v)),
+                "sd_factor": float(np.exp(sd)),
+                "se_factor": float(np.exp(se)),
+                "ci": [float(np.exp(logs.mean() - t * se)), float(np.exp(logs.mean() + t * se))],
+            }
+        )
+    return out
+
+
+def mode_median_ci(request):
+    level = request["level"]
+    out = []
+    for sample in request["samples"]:
+        v = np.sort(np.array(sample, dtype=float))
+        n = len(v)
+        ranks = [
+            l
+            for l in range(1, (n + 1) // 2 + 1)
+            if 1.0 - 2.0 * stats.binom.cdf(l - 1, n, 0.5) >= level
+        ]
+        q1, median, q3 = np.percentile(v, [25, 50, 75], method="linear")
+        half = 1.58 * (q3 - q1) / np.sqrt(n)
+        entry = {"median": float(median), "notch": [float(median - half), float(median + half)]}
+        if ranks:
+            l = max(ranks)
+            entry["ci"] = [float(v[l - 1]), float(v[n - l])]
+            entry["coverage"] = float(1.0 - 2.0 * stats.binom.cdf(l - 1, n, 0.5))
+        out.append(entry)
+    return out
+
+
+def mode_bca(request):
+    level = request["level"]
+    out = []
+    for sample in request["samples"]:
+        v = np.array(sample, dtype=float)
+        res = stats.bootstrap(
+            (v,),
+            np.mean,
+            confidence_level=level,
+            n_resamples=50_000,
+            method="BCa",
+            random_state=np.random.default_rng(19_870_101),
+        )
+        ci = res.confidence_interval
+        out.append(
+            {"low": float(ci.low), "high": float(ci.high), "standard_error": float(res.standard_error)}
+        )
+    return out
+
+
+def mode_reflected(request):
+    v = np.array(request["values"], dtype=float)
+    h = request["bandwidth"]
+    x = np.array(request["grid"], dtype=float)
+    n = len(v)
+    d = (stats.norm.pdf((x[:, None] - v) / h) + stats.norm.pdf((x[:, None] + v) / h)).sum(axis=1)
+    return np.where(x >= 0, d / (n * h), 0.0).tolist()
+
+
+MODES = {
+    "ecdf": mode_ecdf,
+    "ols": mode_ols,
+    "wilson": mode_wilson,
+    "geometric": mode_geometric,
+    "median_ci": mode_median_ci,
+    "bca": mode_bca,
+    "reflected": mode_reflected,
+}
 
 if __name__ == "__main__":
     print(json.dumps(MODES[sys.argv[1]](json.load(sys.stdin))))

@@ -1,4 +1,4 @@
-//! `box`: Tukey's box plot of the values in each cell.
+//! `box`: Tukey's box plot of the values in each cell, optionally notched at the median.
 
 use crate::diag::Diagnostic;
 use crate::syntax::ast::Term;
@@ -10,7 +10,10 @@ use super::{Layer, LayerDecl, OptionDecl, ReadInput, Refusal, Shows, Traits, XNe
 pub static DECL: LayerDecl = LayerDecl {
     word: "box",
     draws: "quartiles as a box, the median as a line, whiskers and outliers",
-    options: &[OptionDecl::call("whiskers", "whiskers(tukey | range)")],
+    options: &[
+        OptionDecl::call("whiskers", "whiskers(tukey | range)"),
+        OptionDecl::flag("notch"),
+    ],
     x: XNeed::Categories,
     y: YNeed::Numbers {
         refusal: Refusal::Order,
@@ -25,6 +28,8 @@ pub static DECL: LayerDecl = LayerDecl {
 #[derive(Debug, Clone, PartialEq)]
 pub struct BoxOpts {
     pub whiskers: Whiskers,
+    /// McGill–Tukey–Larsen notches around the median.
+    pub notch: bool,
 }
 
 fn read(input: &ReadInput, diags: &mut Vec<Diagnostic>) -> Option<(Layer, Traits)> {
@@ -41,5 +46,6 @@ fn read(input: &ReadInput, diags: &mut Vec<Diagnostic>) -> Option<(Layer, Traits
             }
         }
     };
-    Some((Layer::Box(BoxOpts { whiskers }), Traits::default()))
+    let notch = input.opts.flag("notch").is_some();
+    Some((Layer::Box(BoxOpts { whiskers, notch }), Traits::default()))
 }

@@ -2,16 +2,16 @@
 
 use crate::diag::Diagnostic;
 
-use super::super::plan::Bandwidth;
+use super::super::plan::{Bandwidth, SummaryDetail};
 use super::{options, Layer, LayerDecl, OptionDecl, ReadInput, Shows, Traits, XNeed, YNeed};
 
 pub static DECL: LayerDecl = LayerDecl {
     word: "density",
     draws: "a kernel density curve of x per colour group",
-    options: &[OptionDecl::call(
-        "bandwidth",
-        "bandwidth(silverman | scott | W)",
-    )],
+    options: &[
+        OptionDecl::call("bandwidth", "bandwidth(silverman | scott | W)"),
+        OptionDecl::call("summary", "summary(full)"),
+    ],
     x: XNeed::Numbers,
     y: YNeed::None {
         what: "it shows how x is distributed",
@@ -26,9 +26,12 @@ pub static DECL: LayerDecl = LayerDecl {
 #[derive(Debug, Clone, PartialEq)]
 pub struct DensityOpts {
     pub bandwidth: Bandwidth,
+    /// Whether the summary lists the density at every point drawn.
+    pub summary: SummaryDetail,
 }
 
 fn read(input: &ReadInput, diags: &mut Vec<Diagnostic>) -> Option<(Layer, Traits)> {
-    let bandwidth = options::bandwidth(input.opts, diags)?;
-    Some((Layer::Density(DensityOpts { bandwidth }), Traits::default()))
+    let (bandwidth, summary) = options::kernel(input.opts, diags)?;
+    let opts = DensityOpts { bandwidth, summary };
+    Some((Layer::Density(opts), Traits::default()))
 }

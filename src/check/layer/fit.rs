@@ -1,17 +1,20 @@
-//! `fit linear`: the least squares line of y on x per colour group, with its band.
+//! `fit linear`: the least squares line of y on x per colour group, with its band; on log axes
+//! the line is fitted to the logs.
 
 use crate::diag::Diagnostic;
 
+use super::super::plan::{Band, SummaryDetail};
 use super::{
     options, Layer, LayerDecl, OptionDecl, ReadInput, Refusal, Shows, Traits, XNeed, YNeed,
 };
 
 pub static DECL: LayerDecl = LayerDecl {
     word: "fit",
-    draws: "the least squares line of y on x per colour group, with a confidence band",
+    draws: "the least squares line of y on x per colour group (of the logs on log axes), with a confidence or prediction band",
     options: &[
         OptionDecl::flag("linear"),
-        OptionDecl::call("band", "band(L)"),
+        OptionDecl::call("band", "band(L) | band(L, prediction)"),
+        OptionDecl::call("summary", "summary(full)"),
     ],
     x: XNeed::Numbers,
     y: YNeed::Numbers {
@@ -26,14 +29,22 @@ pub static DECL: LayerDecl = LayerDecl {
 /// Options of `fit`.
 #[derive(Debug, Clone, PartialEq)]
 pub struct FitOpts {
-    /// The level of the confidence band for the mean response; no band without it.
-    pub band: Option<f64>,
+    /// The band around the line and the level of the coefficients' intervals; none without it.
+    pub band: Option<Band>,
+    /// Whether the summary lists the line and band at every point drawn.
+    pub summary: SummaryDetail,
 }
 
 fn read(input: &ReadInput, diags: &mut Vec<Diagnostic>) -> Option<(Layer, Traits)> {
-    let band = match input.opts.call("band") {
-        None => None,
-        Some(c) => Some(options::level_arg(c, "band(0.95)", diags)?),
+    let before = diags.len();
+    let band = input.opts.call("band").map(|c| options::band(c, diags));
+    let summary = options::summary_detail(input.opts, diags);
+    if diags.len() > before {
+        return None;
+    }
+    let opts = FitOpts {
+        band: band.flatten(),
+        summary: summary?,
     };
-    Some((Layer::Fit(FitOpts { band }), Traits::default()))
+    Some((Layer::Fit(opts), Traits::default()))
 }

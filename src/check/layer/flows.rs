@@ -46,5 +46,9 @@ fn read(input: &ReadInput, diags: &mut Vec<Diagnostic>) -> Option<(Layer, Traits
             return None;
         }
     }
-    Some((Layer::Flows(FlowsOpts { by }), Traits::default()))
+    let traits = Traits {
+        keeps_trials: true,
+        ..Traits::default()
+    };
+    Some((Layer::Flows(FlowsOpts { by }), traits))
 }

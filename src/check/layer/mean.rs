@@ -1,4 +1,5 @@
-//! `mean`: the mean of each cell, as a dot or a bar from zero, with an optional error bar.
+//! `mean`: the mean of each cell, as a dot or a bar from zero, with an optional error bar; on a
+//! log y axis, the geometric mean with intervals computed on the logs.
 
 use crate::diag::{Code, Diagnostic, Span};
 
@@ -12,7 +13,10 @@ pub static DECL: LayerDecl = LayerDecl {
     draws: "the mean of each cell as a dot (or a bar from zero), with an error bar",
     options: &[
         OptionDecl::flag("bar"),
-        OptionDecl::call("error", "error(sd | se | ci(L) | ci(L, within) | boot(L))"),
+        OptionDecl::call(
+            "error",
+            "error(sd | se | ci(L) | ci(L, within) | boot(L) | boot(L, bca))",
+        ),
     ],
     x: XNeed::Categories,
     y: YNeed::Numbers {

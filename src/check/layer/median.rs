@@ -11,7 +11,10 @@ use super::{
 pub static DECL: LayerDecl = LayerDecl {
     word: "median",
     draws: "the median of each cell (of an ordinal y: its level, with the quartile levels)",
-    options: &[OptionDecl::call("error", "error(boot(L))")],
+    options: &[OptionDecl::call(
+        "error",
+        "error(ci(L) | boot(L) | boot(L, bca))",
+    )],
     x: XNeed::Categories,
     y: YNeed::NumbersOrOrdinal {
         refusal: Refusal::Order,
@@ -30,7 +33,18 @@ pub struct MedianOpts {
 }
 
 fn read(input: &ReadInput, diags: &mut Vec<Diagnostic>) -> Option<(Layer, Traits)> {
-    let error = options::error_bar(input.opts, &["boot"], diags).ok()?;
+    let error = options::error_bar(input.opts, &["ci", "boot"], diags).ok()?;
+    if let Some((ErrorBar::CiWithin { .. }, span)) = error {
+        diags.push(
+            Diagnostic::new(
+                Code::BadArgument,
+                "a median has no within-subject interval",
+            )
+            .with_label(span, "within-subject interval of a median")
+            .with_help("write `error(ci(0.95))` for the order-statistic interval of each cell's median"),
+        );
+        return None;
+    }
     let ordinal = input
         .axes
         .and_then(|a| a.y)
@@ -39,7 +53,7 @@ fn read(input: &ReadInput, diags: &mut Vec<Diagnostic>) -> Option<(Layer, Traits
         diags.push(
             Diagnostic::new(
                 Code::BadArgument,
-                "the median of an ordinal variable is a level; it has no bootstrap interval here",
+                "the median of an ordinal variable is a level; it has no interval here",
             )
             .with_label(span, "interval of a level")
             .with_help("remove `error(...)`: the drawn line already spans the quartile levels"),

@@ -113,6 +113,9 @@ pub struct Traits {
     /// The layer draws bars that hide the values unless `points` show them (W0002): the span
     /// of what draws them.
     pub needs_points: Option<Span>,
+    /// The layer follows each subject's own rows, so repeated trials are never collapsed for it
+    /// (`flows`: one state per subject and occasion, whatever the data block says).
+    pub keeps_trials: bool,
 }
 
 /// What a layer needs on x.

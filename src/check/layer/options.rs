@@ -5,7 +5,10 @@ use crate::diag::{Code, Diagnostic, Span};
 use crate::syntax::ast::{Call, Ident, Term};
 
 use super::super::codebook::resolve;
-use super::super::plan::{Bandwidth, BinRule, Codebook, ErrorBar, Heights, VarId};
+use super::super::plan::{
+    Band, BandKind, Bandwidth, BinRule, BootMethod, Codebook, ErrorBar, Heights, SummaryDetail,
+    VarId,
+};
 use super::super::terms::{self, Options};
 use super::LayerDecl;
 
@@ -126,11 +129,6 @@ fn level(term: &Term, shape: &str, diags: &mut Vec<Diagnostic>) -> Option<f64> {
     None
 }
 
-/// The single interval level of `call`, e.g. `band(0.95)`.
-pub fn level_arg(c: &Call, shape: &str, diags: &mut Vec<Diagnostic>) -> Option<f64> {
-    terms::single(c, shape, diags).and_then(|t| level(t, shape, diags))
-}
-
 /// `error(...)`, one of `choices` (`sd`, `se`, `ci`, `boot`), with its span.
 ///
 /// `Ok(None)` without the option; `Err(())` after an error (reported).
@@ -157,9 +155,7 @@ pub fn error_bar(
         ("sd", None) => Some(ErrorBar::Sd),
         ("se", None) => Some(ErrorBar::Se),
         ("ci", Some(call)) => ci(call, diags),
-        ("boot", Some(call)) => {
-            level_arg(call, "boot(0.95)", diags).map(|level| ErrorBar::Bootstrap { level })
-        }
+        ("boot", Some(call)) => boot(call, diags),
         (word, _) => {
             let fix = match word {
                 "ci" => "ci(0.95)",
@@ -180,20 +176,81 @@ pub fn error_bar(
     bar.map(|b| Some((b, c.span))).ok_or(())
 }
 
-fn ci(call: &Call, diags: &mut Vec<Diagnostic>) -> Option<ErrorBar> {
-    let shape = "ci(0.95) or ci(0.95, within)";
+/// `boot(L)` or `boot(L, bca)`.
+fn boot(call: &Call, diags: &mut Vec<Diagnostic>) -> Option<ErrorBar> {
+    let (level, bca) = level_with(call, "bca", "boot(0.95) or boot(0.95, bca)", diags)?;
+    let method = if bca {
+        BootMethod::Bca
+    } else {
+        BootMethod::Percentile
+    };
+    Some(ErrorBar::Bootstrap { level, method })
+}
+
+/// `band(L)` or `band(L, prediction)`: the band of a fitted line.
+pub fn band(c: &Call, diags: &mut Vec<Diagnostic>) -> Option<Band> {
+    let shape = "band(0.95) or band(0.95, prediction)";
+    let (level, prediction) = level_with(c, "prediction", shape, diags)?;
+    let kind = if prediction {
+        BandKind::Prediction
+    } else {
+        BandKind::Mean
+    };
+    Some(Band { level, kind })
+}
+
+/// `NAME(L)` or `NAME(L, WORD)`: the level, and whether the word was given.
+fn level_with(
+    call: &Call,
+    word: &str,
+    shape: &str,
+    diags: &mut Vec<Diagnostic>,
+) -> Option<(f64, bool)> {
     match call.args.items.as_slice() {
-        [l] => level(l, shape, diags).map(|level| ErrorBar::Ci { level }),
+        [l] => level(l, shape, diags).map(|level| (level, false)),
         [l, w] => {
             let level = level(l, shape, diags);
-            let within = terms::expect_choice(w, &["within"], shape, diags);
-            Some(ErrorBar::CiWithin { level: level? }).filter(|_| within.is_some())
+            let given = terms::expect_choice(w, &[word], shape, diags);
+            Some((level?, true)).filter(|_| given.is_some())
         }
         _ => {
             terms::arity(call, 1, shape, diags);
             None
         }
     }
+}
+
+/// `summary(full)`: list every drawn point of the layer's curves; the default without it.
+pub fn summary_detail(opts: &Options, diags: &mut Vec<Diagnostic>) -> Option<SummaryDetail> {
+    let Some(c) = opts.call("summary") else {
+        return Some(SummaryDetail::Default);
+    };
+    let shape = "summary(full)";
+    terms::single(c, shape, diags)
+        .and_then(|t| terms::expect_choice(t, &["full"], shape, diags))?;
+    Some(SummaryDetail::Full)
+}
+
+fn ci(call: &Call, diags: &mut Vec<Diagnostic>) -> Option<ErrorBar> {
+    let shape = "ci(0.95) or ci(0.95, within)";
+    let (level, within) = level_with(call, "within", shape, diags)?;
+    Some(if within {
+        ErrorBar::CiWithin { level }
+    } else {
+        ErrorBar::Ci { level }
+    })
+}
+
+/// The options of a kernel density layer (`density`, `violin`): `bandwidth(...)` and
+/// `summary(full)`; `None` after an error (reported).
+pub fn kernel(opts: &Options, diags: &mut Vec<Diagnostic>) -> Option<(Bandwidth, SummaryDetail)> {
+    let before = diags.len();
+    let bandwidth = bandwidth(opts, diags);
+    let summary = summary_detail(opts, diags);
+    if diags.len() > before {
+        return None;
+    }
+    Some((bandwidth?, summary?))
 }
 
 /// `bandwidth(silverman | scott | W)`; Silverman's rule without the option.

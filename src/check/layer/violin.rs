@@ -2,7 +2,7 @@
 
 use crate::diag::Diagnostic;
 
-use super::super::plan::Bandwidth;
+use super::super::plan::{Bandwidth, SummaryDetail};
 use super::{
     options, Layer, LayerDecl, OptionDecl, ReadInput, Refusal, Shows, Traits, XNeed, YNeed,
 };
@@ -10,10 +10,10 @@ use super::{
 pub static DECL: LayerDecl = LayerDecl {
     word: "violin",
     draws: "the density of each cell's values, mirrored, trimmed to the data, with its quartiles",
-    options: &[OptionDecl::call(
-        "bandwidth",
-        "bandwidth(silverman | scott | W)",
-    )],
+    options: &[
+        OptionDecl::call("bandwidth", "bandwidth(silverman | scott | W)"),
+        OptionDecl::call("summary", "summary(full)"),
+    ],
     x: XNeed::Categories,
     y: YNeed::Numbers {
         refusal: Refusal::Numbers,
@@ -28,9 +28,12 @@ pub static DECL: LayerDecl = LayerDecl {
 #[derive(Debug, Clone, PartialEq)]
 pub struct ViolinOpts {
     pub bandwidth: Bandwidth,
+    /// Whether the summary lists the density at every point drawn.
+    pub summary: SummaryDetail,
 }
 
 fn read(input: &ReadInput, diags: &mut Vec<Diagnostic>) -> Option<(Layer, Traits)> {
-    let bandwidth = options::bandwidth(input.opts, diags)?;
-    Some((Layer::Violin(ViolinOpts { bandwidth }), Traits::default()))
+    let (bandwidth, summary) = options::kernel(input.opts, diags)?;
+    let opts = ViolinOpts { bandwidth, summary };
+    Some((Layer::Violin(opts), Traits::default()))
 }

@@ -1,8 +1,10 @@
 //! `box`: Tukey's box plot of each cell — quartiles (Hyndman & Fan definition 7), whiskers and
-//! outliers ([`stats::box_summary`]).
+//! outliers ([`stats::box_summary`]) — with McGill–Tukey–Larsen notches `median ± 1.58 · IQR /
+//! √n` ([`stats::notch`]) under `box notch`.
 //!
 //! Summary rows per cell: `n`, `n_missing`, and when the cell has values `q1`, `median`, `q3`,
-//! `whisker_low`, `whisker_high`, one `outliers` row per outlier, `min` and `max`.
+//! (`notch_low`, `notch_high`), `whisker_low`, `whisker_high`, one `outliers` row per outlier,
+//! `min` and `max`.
 
 use crate::check::layer::BoxOpts;
 use crate::check::plan::Whiskers;
@@ -24,6 +26,8 @@ pub struct BoxMark {
     pub whisker_low: f64,
     pub whisker_high: f64,
     pub outliers: Vec<f64>,
+    /// The notch's ends around the median (`box notch`); they may reach beyond the box.
+    pub notch: Option<(f64, f64)>,
 }
 
 pub fn compute(opts: &BoxOpts, at: &At, values: &Values) -> Result<LayerOutput, ComputeError> {
@@ -41,6 +45,15 @@ pub fn compute(opts: &BoxOpts, at: &At, values: &Values) -> Result<LayerOutput, 
         rows.push(k.number(Stat::Q1, b.q1));
         rows.push(k.number(Stat::Median, b.median));
         rows.push(k.number(Stat::Q3, b.q3));
+        let notch = opts
+            .notch
+            .then(|| stats::notch(sorted).ok())
+            .flatten()
+            .map(|n| {
+                rows.push(k.number(Stat::NotchLow, n.low));
+                rows.push(k.number(Stat::NotchHigh, n.high));
+                (n.low, n.high)
+            });
         rows.push(k.number(Stat::WhiskerLow, b.whisker_low));
         rows.push(k.number(Stat::WhiskerHigh, b.whisker_high));
         rows.extend(b.outliers.iter().map(|o| k.number(Stat::Outliers, *o)));
@@ -49,6 +62,10 @@ pub fn compute(opts: &BoxOpts, at: &At, values: &Values) -> Result<LayerOutput, 
         y.add(b.whisker_low);
         y.add(b.whisker_high);
         b.outliers.iter().for_each(|o| y.add(*o));
+        if let Some((lo, hi)) = notch {
+            y.add(lo);
+            y.add(hi);
+        }
         boxes.push(BoxMark {
             x: cell.x,
             group: cell.group,
@@ -58,6 +75,7 @@ pub fn compute(opts: &BoxOpts, at: &At, values: &Values) -> Result<LayerOutput, 
             whisker_low: b.whisker_low,
             whisker_high: b.whisker_high,
             outliers: b.outliers,
+            notch,
         });
     });
     Ok(LayerOutput {

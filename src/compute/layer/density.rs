@@ -1,14 +1,21 @@
-//! `density`: a Gaussian kernel density curve of a numeric x per panel and colour group,
-//! evaluated on a grid over the data's range padded by three bandwidths on each side.
+//! `density`: a Gaussian kernel density curve of a numeric x per panel and colour group
+//! ([`stats::kernel_density_bounded`]), evaluated at [`DENSITY_GRID`] points over the data's
+//! range padded by three bandwidths on each side.
 //!
-//! Summary rows per colour group: `n`, `n_missing`, and `bandwidth` when it is defined.
+//! A ratio variable has no values below zero, so its density is reflected at zero (Silverman
+//! 1986 §2.10): the mass the plain estimate would put below zero is folded back, the curve
+//! starts at `max(0, min − 3h)` and still has area 1.
+//!
+//! Summary rows per colour group: `n`, `n_missing`, and `bandwidth` when it is defined; with
+//! `summary(full)`, `density` at every point drawn (`x` = the point).
 
 use crate::check::layer::DensityOpts;
-use crate::check::plan::Bandwidth;
-use crate::stats;
+use crate::check::plan::{Bandwidth, SummaryDetail};
+use crate::stats::{self, Boundary, DensityGrid};
 
 use super::super::cells::Values;
 use super::super::extent::Extent;
+use super::super::summary::{format_number, RowKey, SummaryRow};
 use super::super::ComputeError;
 use super::{At, LayerMarks, LayerOutput, Stat, YUse};
 
@@ -23,32 +30,30 @@ pub struct Curve {
 }
 
 pub fn compute(opts: &DensityOpts, at: &At, values: &Values) -> Result<LayerOutput, ComputeError> {
+    let boundary = boundary_of(at);
+    let grid = DensityGrid {
+        points: DENSITY_GRID,
+        reach: 3.0,
+    };
     let mut rows = Vec::new();
     let mut curves = Vec::new();
     let (mut x, mut y) = (Extent::default(), Extent::default());
     y.add(0.0);
     at.each_group(values, &mut rows, |g, v, k, rows| {
-        let (Some(first), Some(last)) = (v.first(), v.last()) else {
+        let rule = bandwidth_rule(opts.bandwidth);
+        let Ok(curve) = stats::kernel_density_bounded(v, rule, grid, boundary) else {
             return;
         };
-        let Ok(h) = stats::bandwidth(v, bandwidth_rule(opts.bandwidth)) else {
-            return;
-        };
-        rows.push(k.number(Stat::Bandwidth, h));
-        let (lo, hi) = (first - 3.0 * h, last + 3.0 * h);
-        let grid: Vec<f64> = (0..DENSITY_GRID)
-            .map(|i| lo + (hi - lo) * i as f64 / (DENSITY_GRID - 1) as f64)
-            .collect();
-        let Ok(ys) = stats::kde(v, h, &grid) else {
-            return;
-        };
-        x.add(lo);
-        x.add(hi);
-        ys.iter().for_each(|d| y.add(*d));
-        curves.push(Curve {
-            group: g,
-            points: grid.into_iter().zip(ys).collect(),
-        });
+        rows.push(k.number(Stat::Bandwidth, curve.bandwidth));
+        let points: Vec<(f64, f64)> = curve.x.into_iter().zip(curve.density).collect();
+        if opts.summary == SummaryDetail::Full {
+            density_rows(&points, k, format_number, rows);
+        }
+        for (px, d) in &points {
+            x.add(*px);
+            y.add(*d);
+        }
+        curves.push(Curve { group: g, points });
     });
     Ok(LayerOutput {
         x,
@@ -65,5 +70,27 @@ pub(super) fn bandwidth_rule(b: Bandwidth) -> stats::BandwidthRule {
         Bandwidth::Silverman => stats::BandwidthRule::Silverman,
         Bandwidth::Scott => stats::BandwidthRule::Scott,
         Bandwidth::Fixed(h) => stats::BandwidthRule::Fixed(h),
+    }
+}
+
+/// Reflected at zero for a ratio variable, open otherwise (shared with `violin`).
+pub(super) fn boundary_of(at: &At) -> Boundary {
+    if at.measure_is_ratio() {
+        Boundary::ReflectAtZero
+    } else {
+        Boundary::Open
+    }
+}
+
+/// One `density` row per point drawn, its `x` the text `place` gives the point (shared with
+/// `violin`).
+pub(super) fn density_rows(
+    points: &[(f64, f64)],
+    k: &RowKey,
+    place: impl Fn(f64) -> String,
+    rows: &mut Vec<SummaryRow>,
+) {
+    for (px, d) in points {
+        rows.push(k.at(place(*px)).number(Stat::Density, *d));
     }
 }

@@ -8,7 +8,8 @@
 //!   subjects in state `s` at occasion `o` and in state `t` at occasion `o + 1` (occasions in
 //!   level order). A subject missing at an occasion is in no stack there and in no move to or
 //!   from it, so each move's count is at most its two stacks';
-//! - rows without a subject, a state or an occasion are counted as `n_missing`, never followed;
+//! - rows without a subject, a state or an occasion are counted as `n_missing` of their panel,
+//!   never followed; a row without a panel value belongs to no panel and counts nowhere;
 //! - the layer's `width_peak` is the most subjects at any occasion, so panels share a scale.
 //!
 //! Summary rows, per panel: `n` (subjects) and `n_missing` with x empty; per occasion `n`,
@@ -137,7 +138,10 @@ fn summarise(at: &At, placed: &Values, states: &Levels, marks: &FlowMarks) -> Ve
     let mut rows = Vec::new();
     let whole = key(String::new(), String::new());
     rows.push(whole.count(Stat::N, subjects.len()));
-    rows.push(whole.count(Stat::NMissing, placed.unplaced + anonymous + state_missing));
+    rows.push(whole.count(
+        Stat::NMissing,
+        placed.unplaced_in(p) + anonymous + state_missing,
+    ));
     for (o, name) in cells.x_levels.names.iter().enumerate() {
         let k = key(name.clone(), String::new());
         rows.push(k.count(Stat::N, marks.stacks[o].iter().sum()));

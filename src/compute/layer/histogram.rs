@@ -4,8 +4,9 @@
 //! Every panel and colour group uses one grid of bin edges, so their bars can be compared: the
 //! rule is applied to all values together (edges are whole multiples of one width, each the
 //! double nearest to the exact multiple, so a value written on an edge falls in the bin that
-//! starts there); each group draws the bins from the last edge at or below its smallest value
-//! to the first at or above its largest.
+//! starts there); each group draws the bins from the one holding its smallest value to the one
+//! holding its largest (bins are `[a, b)`, the grid's last one closed), so every value of every
+//! group is in a bar.
 //!
 //! Summary rows per colour group: `n`, `n_missing`, then per bin (`x` = `[lo,hi)`, the last
 //! `[lo,hi]`) `count`, and `percent` or `density` when those are the heights drawn.
@@ -46,10 +47,10 @@ pub fn compute(
             return;
         };
         let counts = stats::count_in_bins(v, edges);
-        let n_bins = counts.len();
         for (i, &count) in counts.iter().enumerate() {
             let (lo, hi) = (edges[i], edges[i + 1]);
-            let k = k.at(bin_label(lo, hi, i + 1 == n_bins));
+            // Only the shared grid's last bin is closed.
+            let k = k.at(bin_label(lo, hi, shared.last() == Some(&hi)));
             rows.push(k.count(Stat::Count, count as usize));
             let height = match opts.heights {
                 Heights::Count => count as f64,
@@ -89,20 +90,12 @@ pub fn compute(
     })
 }
 
-/// The edges of the shared grid one group needs: from the last edge at or below its smallest
-/// value to the first at or above its largest (at least one bin). `None` for no values or no
-/// grid.
+/// The edges of the shared grid one group needs ([`stats::bins_covering`]): from the bin that
+/// holds its smallest value to the bin that holds its largest, by the rule the counts use, so
+/// every value falls in a bin drawn (a group all on the grid's last edge gets the last bin).
+/// `None` for no values or no grid.
 fn group_edges<'e>(shared: &'e [f64], sorted: &[f64]) -> Option<&'e [f64]> {
-    let (min, max) = (*sorted.first()?, *sorted.last()?);
-    if shared.len() < 2 {
-        return None;
-    }
-    let first = shared.partition_point(|&e| e <= min).saturating_sub(1);
-    let last = shared
-        .partition_point(|&e| e < max)
-        .max(first + 1)
-        .min(shared.len() - 1);
-    Some(&shared[first..=last])
+    stats::bins_covering(shared, *sorted.first()?, *sorted.last()?)
 }
 
 fn bin_rule(rule: BinRule) -> stats::BinRule {

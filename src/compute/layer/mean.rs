@@ -1,20 +1,26 @@
 //! `mean`: the mean of each cell, as a dot (and a bar from zero with `bar`), with an optional
-//! error bar: `sd`, `se`, a t interval `ci(L)`, a percentile bootstrap `boot(L)`, or a
-//! Cousineau–Morey within-subject interval `ci(L, within)`.
+//! error bar: `sd`, `se`, a t interval `ci(L)`, a bootstrap interval `boot(L)` (percentile) or
+//! `boot(L, bca)`, or a Cousineau–Morey within-subject interval `ci(L, within)`.
 //!
-//! Summary rows per cell: `n`, `n_missing`, and when the mean exists `mean` and the error bar's
-//! rows (`sd`, `se`, or `ci_low` and `ci_high`).
+//! On a log y axis the mean is the geometric mean ([`stats::geometric`]): every interval is
+//! computed on the natural logs and both ends exponentiated, so it is asymmetric (`gm ÷ f` to
+//! `gm × f`), and `sd` and `se` are reported as multiplicative factors `exp(sd of ln y)` and
+//! `exp(se of ln y)`.
+//!
+//! Summary rows per cell: `n`, `n_missing`, and when the mean exists `mean` (or
+//! `geometric_mean`) and the error bar's rows (`sd`, `se`, `geometric_sd`, `geometric_se`, or
+//! `ci_low` and `ci_high`).
 
 use std::collections::BTreeMap;
 
 use crate::check::layer::MeanOpts;
 use crate::check::plan::ErrorBar;
-use crate::stats;
+use crate::stats::{self, BootstrapStatistic, Spread};
 
 use super::super::cells::{Cell, Values};
 use super::super::extent::Extent;
 use super::super::ComputeError;
-use super::{At, Bar, Estimate, LayerMarks, LayerOutput, Stat};
+use super::{boot_interval, At, Bar, Estimate, LayerMarks, LayerOutput, Stat};
 
 /// What a `mean` layer shows in one cell.
 #[derive(Debug, Clone, Default)]
@@ -29,9 +35,47 @@ struct MeanCell {
     interval: Option<(f64, f64)>,
 }
 
+/// Which mean a `mean` layer shows: arithmetic on a linear axis, geometric on a log axis.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum MeanKind {
+    Arithmetic,
+    /// `exp(mean of ln y)`, with intervals computed on the logs.
+    Geometric,
+}
+
+impl MeanKind {
+    /// The values the interval is computed on: y, or ln y.
+    fn scaled(self, v: f64) -> f64 {
+        match self {
+            MeanKind::Arithmetic => v,
+            MeanKind::Geometric => v.ln(),
+        }
+    }
+
+    /// Back from the scale the interval is computed on.
+    fn back(self, v: f64) -> f64 {
+        match self {
+            MeanKind::Arithmetic => v,
+            MeanKind::Geometric => v.exp(),
+        }
+    }
+
+    fn stat(self) -> Stat {
+        match self {
+            MeanKind::Arithmetic => Stat::Mean,
+            MeanKind::Geometric => Stat::GeometricMean,
+        }
+    }
+}
+
 pub fn compute(opts: &MeanOpts, at: &At, values: &Values) -> Result<LayerOutput, ComputeError> {
+    let kind = if at.y_is_log() {
+        MeanKind::Geometric
+    } else {
+        MeanKind::Arithmetic
+    };
     let within = match opts.error {
-        Some(ErrorBar::CiWithin { level }) => Some(within_cells(at, values, level)),
+        Some(ErrorBar::CiWithin { level }) => Some(within_cells(at, values, level, kind)),
         _ => None,
     };
     let mut rows = Vec::new();
@@ -41,14 +85,14 @@ pub fn compute(opts: &MeanOpts, at: &At, values: &Values) -> Result<LayerOutput,
         let k = at.cell_key(cell);
         let m = match &within {
             Some(w) => w.get(&cell).cloned().unwrap_or_default(),
-            None => mean_cell(values, cell, opts.error),
+            None => mean_cell(values, cell, opts.error, kind),
         };
         rows.push(k.count(Stat::N, m.n));
         rows.push(k.count(Stat::NMissing, m.n_missing));
         let Some(mean) = m.mean else {
             continue;
         };
-        rows.push(k.number(Stat::Mean, mean));
+        rows.push(k.number(kind.stat(), mean));
         rows.extend(m.error_rows.iter().map(|(stat, v)| k.number(*stat, *v)));
         bars.push(Bar {
             x: cell.x,
@@ -76,6 +120,7 @@ pub fn compute(opts: &MeanOpts, at: &At, values: &Values) -> Result<LayerOutput,
     let marks = LayerMarks::Mean {
         bars: opts.bar.then_some(bars),
         estimates,
+        kind,
     };
     Ok(LayerOutput {
         y,
@@ -85,30 +130,29 @@ pub fn compute(opts: &MeanOpts, at: &At, values: &Values) -> Result<LayerOutput,
 }
 
 /// The mean of every value in a cell, with an error bar that needs no other cell.
-fn mean_cell(values: &Values, cell: Cell, error: Option<ErrorBar>) -> MeanCell {
+fn mean_cell(values: &Values, cell: Cell, error: Option<ErrorBar>, kind: MeanKind) -> MeanCell {
     let sorted = values.sorted(cell);
     let mut out = MeanCell {
         n: sorted.len(),
         n_missing: values.placed.n_missing(cell),
         ..MeanCell::default()
     };
-    let Ok(m) = stats::moments(sorted) else {
-        return out;
+    out.mean = match kind {
+        MeanKind::Arithmetic => stats::mean(sorted).ok(),
+        MeanKind::Geometric => stats::geometric_mean(sorted).ok(),
     };
-    out.mean = Some(m.mean);
+    if out.mean.is_none() {
+        return out;
+    }
     let (rows, interval) = match error {
-        Some(ErrorBar::Sd) => {
-            m.sd.map(|sd| (vec![(Stat::Sd, sd)], (m.mean - sd, m.mean + sd)))
+        Some(ErrorBar::Sd) => spread_rows(sorted, Spread::Sd, kind),
+        Some(ErrorBar::Se) => spread_rows(sorted, Spread::Se, kind),
+        Some(ErrorBar::Ci { level }) => spread_rows(sorted, Spread::Ci { level }, kind),
+        Some(ErrorBar::Bootstrap { level, method }) => {
+            let scaled: Vec<f64> = sorted.iter().map(|&v| kind.scaled(v)).collect();
+            boot_interval(&scaled, BootstrapStatistic::Mean, level, method)
+                .map(|(lo, hi)| interval_rows(kind.back(lo), kind.back(hi)))
         }
-        Some(ErrorBar::Se) => m
-            .se()
-            .map(|se| (vec![(Stat::Se, se)], (m.mean - se, m.mean + se))),
-        Some(ErrorBar::Ci { level }) => stats::mean_ci(sorted, level)
-            .ok()
-            .map(|ci| interval_rows(ci.low, ci.high)),
-        Some(ErrorBar::Bootstrap { level }) => stats::bootstrap::bootstrap_mean(sorted, level)
-            .ok()
-            .map(|ci| interval_rows(ci.low, ci.high)),
         None | Some(ErrorBar::CiWithin { .. }) => None,
     }
     .unzip();
@@ -117,8 +161,34 @@ fn mean_cell(values: &Values, cell: Cell, error: Option<ErrorBar>) -> MeanCell {
     out
 }
 
+/// The rows and ends of an `sd`, `se` or `ci(L)` bar: around the mean, or around the geometric
+/// mean computed on the logs (`sd` and `se` then reported as the factors `exp(half-width)`).
+fn spread_rows(sorted: &[f64], spread: Spread, kind: MeanKind) -> Option<ErrorRows> {
+    let (low, high, half_width) = match kind {
+        MeanKind::Arithmetic => {
+            let m = stats::mean_interval(sorted, spread).ok()?;
+            (m.low, m.high, m.half_width)
+        }
+        MeanKind::Geometric => {
+            let g = stats::geometric_mean_interval(sorted, spread).ok()?;
+            (g.low, g.high, g.log_half_width.exp())
+        }
+    };
+    let stat = match (spread, kind) {
+        (Spread::Ci { .. }, _) => return Some(interval_rows(low, high)),
+        (Spread::Sd, MeanKind::Arithmetic) => Stat::Sd,
+        (Spread::Se, MeanKind::Arithmetic) => Stat::Se,
+        (Spread::Sd, MeanKind::Geometric) => Stat::GeometricSd,
+        (Spread::Se, MeanKind::Geometric) => Stat::GeometricSe,
+    };
+    Some((vec![(stat, half_width)], (low, high)))
+}
+
+/// An error bar's summary rows and its ends.
+type ErrorRows = (Vec<(Stat, f64)>, (f64, f64));
+
 /// The summary rows and ends of an interval.
-fn interval_rows(low: f64, high: f64) -> (Vec<(Stat, f64)>, (f64, f64)) {
+fn interval_rows(low: f64, high: f64) -> ErrorRows {
     (vec![(Stat::CiLow, low), (Stat::CiHigh, high)], (low, high))
 }
 
@@ -129,7 +199,10 @@ fn interval_rows(low: f64, high: f64) -> (Vec<(Stat, f64)>, (f64, f64)) {
 /// between factor) split the subjects into separate normalisations. Only subjects with a value
 /// in every within cell of their normalisation are used, for the mean as for the interval, so
 /// the interval is centred on the mean shown; a cell's other values count as missing.
-fn within_cells(at: &At, values: &Values, level: f64) -> BTreeMap<Cell, MeanCell> {
+///
+/// With a geometric mean the normalisation and intervals are computed on the logs and
+/// exponentiated.
+fn within_cells(at: &At, values: &Values, level: f64, kind: MeanKind) -> BTreeMap<Cell, MeanCell> {
     let cells = at.cells;
     let is_within =
         |v: Option<&crate::check::plan::CatVar>| v.is_some_and(|c| cells.book.is_within(c.var));
@@ -148,7 +221,7 @@ fn within_cells(at: &At, values: &Values, level: f64) -> BTreeMap<Cell, MeanCell
         }
     }
     sets.values()
-        .flat_map(|set| within_set(values, set, level))
+        .flat_map(|set| within_set(values, set, level, kind))
         .collect()
 }
 
@@ -156,10 +229,15 @@ fn within_cells(at: &At, values: &Values, level: f64) -> BTreeMap<Cell, MeanCell
 ///
 /// A cell that holds no value at all (a level nobody was measured at, here) is left out of the
 /// within cells, so it does not drop every subject; it shows nothing.
-fn within_set(values: &Values, cells: &[Cell], level: f64) -> Vec<(Cell, MeanCell)> {
+fn within_set(
+    values: &Values,
+    cells: &[Cell],
+    level: f64,
+    kind: MeanKind,
+) -> Vec<(Cell, MeanCell)> {
     let (used, empty): (Vec<Cell>, Vec<Cell>) =
         cells.iter().partition(|c| !values.sorted(**c).is_empty());
-    let mut out = complete_subjects(values, &used, level);
+    let mut out = complete_subjects(values, &used, level, kind);
     out.extend(empty.into_iter().map(|cell| {
         let m = MeanCell {
             n_missing: values.placed.n_missing(cell),
@@ -171,7 +249,12 @@ fn within_set(values: &Values, cells: &[Cell], level: f64) -> Vec<(Cell, MeanCel
 }
 
 /// Means and intervals of `cells` over the subjects with a value in every one of them.
-fn complete_subjects(values: &Values, cells: &[Cell], level: f64) -> Vec<(Cell, MeanCell)> {
+fn complete_subjects(
+    values: &Values,
+    cells: &[Cell],
+    level: f64,
+    kind: MeanKind,
+) -> Vec<(Cell, MeanCell)> {
     let mut by_subject: BTreeMap<u32, Vec<Option<f64>>> = BTreeMap::new();
     let mut present = vec![0usize; cells.len()];
     for o in &values.placed.obs {
@@ -182,7 +265,7 @@ fn complete_subjects(values: &Values, cells: &[Cell], level: f64) -> Vec<(Cell, 
         if let Some(s) = o.subject {
             by_subject
                 .entry(s)
-                .or_insert_with(|| vec![None; cells.len()])[i] = Some(o.value);
+                .or_insert_with(|| vec![None; cells.len()])[i] = Some(kind.scaled(o.value));
         }
     }
     let complete: Vec<Vec<Option<f64>>> = by_subject
@@ -197,13 +280,13 @@ fn complete_subjects(values: &Values, cells: &[Cell], level: f64) -> Vec<(Cell, 
             let column: Vec<f64> = complete.iter().filter_map(|row| row[i]).collect();
             let (error_rows, interval) = intervals
                 .as_ref()
-                .map(|w| interval_rows(w.cells[i].low, w.cells[i].high))
+                .map(|w| interval_rows(kind.back(w.cells[i].low), kind.back(w.cells[i].high)))
                 .unzip();
             let m = MeanCell {
                 n: complete.len(),
                 n_missing: values.placed.n_missing(*cell)
                     + present[i].saturating_sub(complete.len()),
-                mean: stats::mean(&column).ok(),
+                mean: stats::mean(&column).ok().map(|m| kind.back(m)),
                 error_rows: error_rows.unwrap_or_default(),
                 interval,
             };

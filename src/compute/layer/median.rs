@@ -1,18 +1,20 @@
 //! `median`: the median of each cell. Over a numeric y, a value (Hyndman & Fan definition 7)
-//! with an optional percentile bootstrap interval; over an ordinal y, the median level with the
-//! quartile levels (Hyndman & Fan definition 1 on the levels' order).
+//! with an optional interval: the distribution-free order-statistic interval `ci(L)`
+//! ([`stats::median_interval`], with the coverage it achieves) or a bootstrap interval
+//! `boot(L)` / `boot(L, bca)`; over an ordinal y, the median level with the quartile levels
+//! (Hyndman & Fan definition 1 on the levels' order).
 //!
-//! Summary rows per cell: `n`, `n_missing`, then `median` (and `ci_low`, `ci_high`), or for an
-//! ordinal y the level names `median`, `q1`, `q3`.
+//! Summary rows per cell: `n`, `n_missing`, then `median` (and `ci_low`, `ci_high`, with
+//! `coverage` for `ci(L)`), or for an ordinal y the level names `median`, `q1`, `q3`.
 
 use crate::check::layer::MedianOpts;
 use crate::check::plan::ErrorBar;
-use crate::stats;
+use crate::stats::{self, BootstrapStatistic};
 
 use super::super::cells::{Placed, Values};
 use super::super::extent::Extent;
 use super::super::ComputeError;
-use super::{n_rows, At, Estimate, LayerMarks, LayerOutput, MedianMarks, Stat};
+use super::{boot_interval, n_rows, At, Estimate, LayerMarks, LayerOutput, MedianMarks, Stat};
 
 /// The median level of an ordinal y.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -42,16 +44,20 @@ fn of_numbers(opts: &MedianOpts, at: &At, values: &Values) -> LayerOutput {
         };
         rows.push(k.number(Stat::Median, median));
         let interval = match opts.error {
-            Some(ErrorBar::Bootstrap { level }) => {
-                stats::bootstrap::bootstrap_median(sorted, level)
-                    .ok()
-                    .map(|ci| {
-                        rows.push(k.number(Stat::CiLow, ci.low));
-                        rows.push(k.number(Stat::CiHigh, ci.high));
-                        (ci.low, ci.high)
-                    })
+            Some(ErrorBar::Ci { level }) => stats::median_interval(sorted, level).ok().map(|m| {
+                rows.push(k.number(Stat::CiLow, m.low));
+                rows.push(k.number(Stat::CiHigh, m.high));
+                rows.push(k.number(Stat::Coverage, m.coverage));
+                (m.low, m.high)
+            }),
+            Some(ErrorBar::Bootstrap { level, method }) => {
+                boot_interval(sorted, BootstrapStatistic::Median, level, method).map(|(lo, hi)| {
+                    rows.push(k.number(Stat::CiLow, lo));
+                    rows.push(k.number(Stat::CiHigh, hi));
+                    (lo, hi)
+                })
             }
-            _ => None,
+            Some(ErrorBar::Sd | ErrorBar::Se | ErrorBar::CiWithin { .. }) | None => None,
         };
         marks.push(Estimate {
             x: cell.x,

@@ -18,7 +18,8 @@ mod median;
 mod points;
 mod violin;
 
-use crate::check::plan::{Layer, LayerPlan};
+use crate::check::plan::{Axes, AxisScale, BootMethod, Layer, LayerPlan};
+use crate::stats;
 
 use super::cells::{Cell, Cells, Placed, Placement, Values};
 use super::extent::Extent;
@@ -26,10 +27,11 @@ use super::summary::{RowKey, SummaryRow};
 use super::{ComputeError, Legend};
 
 pub use boxplot::BoxMark;
-pub use fit::FitMark;
+pub use fit::{FitMark, FitModel};
 pub use flows::FlowMarks;
 pub use histogram::Bin;
 pub use lines::SubjectPath;
+pub use mean::MeanKind;
 pub use median::LevelMark;
 pub use points::{CatPoint, PointMarks};
 pub use violin::{ViolinMark, VIOLIN_GRID};
@@ -44,14 +46,16 @@ pub enum LayerMarks {
     Points(PointMarks),
     Box(Vec<BoxMark>),
     Violin(Vec<ViolinMark>),
-    /// Means, with the bars under them when drawn as bars from zero.
+    /// Means, with the bars under them when drawn as bars from zero; `kind` says whether they
+    /// are arithmetic or geometric means (on a log axis), so the figure can say which.
     Mean {
         bars: Option<Vec<Bar>>,
         estimates: Vec<Estimate>,
+        kind: MeanKind,
     },
     Median(MedianMarks),
     Lines(Vec<SubjectPath>),
-    Counts(Vec<Bar>),
+    Counts(CountMarks),
     Histogram(Vec<Bin>),
     Density(Vec<Curve>),
     Ecdf(Vec<EcdfMark>),
@@ -65,6 +69,14 @@ pub struct Bar {
     pub x: usize,
     pub group: usize,
     pub height: f64,
+}
+
+/// The bars of `counts`, with the Wilson interval of each percentage when asked for.
+#[derive(Debug, Clone, PartialEq)]
+pub struct CountMarks {
+    pub bars: Vec<Bar>,
+    /// The Wilson interval of each percentage that has one (`error(ci(L))`), in percent.
+    pub intervals: Vec<Estimate>,
 }
 
 /// A central value with an optional interval.
@@ -219,6 +231,26 @@ impl At<'_, '_> {
         }
     }
 
+    /// Whether the figure's y axis is logarithmic.
+    fn y_is_log(&self) -> bool {
+        matches!(&self.cells.plan.axes, Axes::CatNum { y, .. } | Axes::NumNum { y, .. } if y.scale == AxisScale::Log)
+    }
+
+    /// Whether the figure's x axis is logarithmic.
+    fn x_is_log(&self) -> bool {
+        matches!(&self.cells.plan.axes, Axes::Num { x } | Axes::NumNum { x, .. } if x.scale == AxisScale::Log)
+    }
+
+    /// Whether the measured variable of a distribution (x alone) or of values by category (y) is
+    /// a ratio variable, whose densities are reflected at zero.
+    fn measure_is_ratio(&self) -> bool {
+        match &self.cells.plan.axes {
+            Axes::Num { x } => x.var.ratio,
+            Axes::CatNum { y, .. } => y.var.ratio,
+            Axes::Cat { .. } | Axes::CatCat { .. } | Axes::NumNum { .. } => false,
+        }
+    }
+
     fn values(&self) -> Result<&Values, ComputeError> {
         match &self.cells.placed {
             Placed::Values(v) => Ok(v),
@@ -252,6 +284,25 @@ impl At<'_, '_> {
             "layer `{}` needs {wanted}, which the checker's axes do not give",
             self.layer
         ))
+    }
+}
+
+/// The level-`level` bootstrap interval of `statistic` of `values` by `method` (the same
+/// resamples for both methods), if it is defined.
+fn boot_interval(
+    values: &[f64],
+    statistic: stats::BootstrapStatistic,
+    level: f64,
+    method: BootMethod,
+) -> Option<(f64, f64)> {
+    let settings = stats::BootstrapSettings::default();
+    match method {
+        BootMethod::Percentile => stats::bootstrap_interval(values, statistic, level, settings)
+            .ok()
+            .map(|b| (b.low, b.high)),
+        BootMethod::Bca => stats::bca_interval(values, statistic, level, settings)
+            .ok()
+            .map(|b| (b.low, b.high)),
     }
 }
 
@@ -291,24 +342,41 @@ macro_rules! stat_table {
 }
 
 stat_table! {
-    N = "n", "Number of values used: per cell; per colour group (`x` empty) for `counts`, `histogram`, `density`, scatter `points` and `fit`; for `lines`, the subjects drawn per group; for `flows`, subjects in the panel and at each occasion.";
+    N = "n", "Number of values used: per cell; per colour group (`x` empty) for `counts`, `histogram`, `density`, `ecdf`, scatter `points` and `fit`; for `lines`, the subjects drawn per group; for `flows`, subjects in the panel and at each occasion.";
     NMissing = "n_missing", "Kept rows not shown because a needed value is missing (under `ci(L, within)`, also the cell's values of subjects missing another within cell); with every `n` except that of `lines`.";
     Count = "count", "Rows in a level or bin (`counts`, `histogram`); for `flows`, subjects in a state, or moving between two states of consecutive occasions (zeros included).";
-    Percent = "percent", "`100 · count / n` of the panel and colour group: `counts` and `histogram` with `heights(percent)`.";
-    Density = "density", "`count / (n · width)`: `histogram` with `heights(density)`.";
+    Percent = "percent", "`100 · count / n` of the panel and colour group: `counts` and `histogram` with `heights(percent)` (no row for a group with no rows).";
+    Density = "density", "`count / (n · width)`: `histogram` with `heights(density)`; the kernel density at `x`: `density` and `violin` with `summary(full)`, one row per point drawn.";
     Proportion = "proportion", "The proportion of values at or below `x` (each distinct value): `ecdf`.";
     Bandwidth = "bandwidth", "The kernel bandwidth used: `density`, `violin`.";
-    Slope = "slope", "Slope of the least squares line: `fit`.";
-    Intercept = "intercept", "Intercept of the least squares line: `fit`.";
-    R = "r", "Pearson's correlation of x and y (only when y varies): `fit`.";
-    Mean = "mean", "The mean: `mean`.";
+    Slope = "slope", "Slope of the least squares line (of ln y on ln x, ln y on x or y on ln x on log axes): `fit`.";
+    SlopeSe = "slope_se", "Standard error of the slope, `s / √Sxx`: `fit` with three pairs or more.";
+    SlopeCiLow = "slope_ci_low", "Lower end of the slope's interval at the band's level, from t with n − 2 df: `fit band(L)`.";
+    SlopeCiHigh = "slope_ci_high", "Upper end of the slope's interval, as `slope_ci_low`.";
+    Intercept = "intercept", "Intercept of the least squares line (on the logs, as `slope`): `fit`.";
+    InterceptSe = "intercept_se", "Standard error of the intercept, `s · √(1/n + x̄²/Sxx)`: `fit` with three pairs or more.";
+    InterceptCiLow = "intercept_ci_low", "Lower end of the intercept's interval, as `slope_ci_low`.";
+    InterceptCiHigh = "intercept_ci_high", "Upper end of the intercept's interval, as `slope_ci_low`.";
+    R = "r", "Pearson's correlation of x and y (of their logs on log axes; only when y varies): `fit`.";
+    RSquared = "r_squared", "`r²`, the share of the variance of y the line explains (only when y varies): `fit`.";
+    ResidualSd = "residual_sd", "Residual standard deviation `s = √(RSS / (n − 2))`: `fit` with three pairs or more.";
+    Fitted = "fitted", "The fitted line at `x`, one row per point drawn (back on the axis's scale): `fit summary(full)`.";
+    BandLow = "band_low", "Lower edge of the band at `x`, one row per point drawn: `fit band(L) summary(full)`.";
+    BandHigh = "band_high", "Upper edge of the band at `x`, as `band_low`.";
+    Mean = "mean", "The mean: `mean` on a linear axis.";
+    GeometricMean = "geometric_mean", "The geometric mean `exp(mean of ln y)`: `mean` on a log y axis.";
     Sd = "sd", "Sample standard deviation: `mean error(sd)`.";
+    GeometricSd = "geometric_sd", "`exp(sd of ln y)`, the factor the bar spans each side of the geometric mean (÷ and ×): `mean error(sd)` on a log axis.";
     Se = "se", "Standard error of the mean: `mean error(se)`.";
-    CiLow = "ci_low", "Lower end of the interval: `mean error(ci(L))`, `error(ci(L, within))`, `error(boot(L))`; `median error(boot(L))`.";
+    GeometricSe = "geometric_se", "`exp(se of ln y)`, as `geometric_sd`: `mean error(se)` on a log axis.";
+    CiLow = "ci_low", "Lower end of the interval: `mean error(ci(L))`, `error(ci(L, within))`, `error(boot(L))`, `error(boot(L, bca))`; `median error(ci(L))` (an order statistic), `error(boot(L))`, `error(boot(L, bca))`; `counts heights(percent) error(ci(L))` (Wilson, in percent).";
     CiHigh = "ci_high", "Upper end of the interval, as `ci_low`.";
+    Coverage = "coverage", "The coverage the order-statistic interval achieves, at least `L`: `median error(ci(L))`.";
     Median = "median", "The median (a level name for an ordinal y): `box`, `violin`, `median`.";
     Q1 = "q1", "First quartile (a level name for an ordinal y): `box`, `violin`, `median` of an ordinal y.";
     Q3 = "q3", "Third quartile, as `q1`.";
+    NotchLow = "notch_low", "Lower end of the notch, `median − 1.58 · IQR / √n`: `box notch`.";
+    NotchHigh = "notch_high", "Upper end of the notch, `median + 1.58 · IQR / √n`: `box notch`.";
     WhiskerLow = "whisker_low", "Lower whisker end: `box`.";
     WhiskerHigh = "whisker_high", "Upper whisker end: `box`.";
     Outliers = "outliers", "One row per outlier, ascending: `box` with `whiskers(tukey)`.";

@@ -10,17 +10,23 @@
 //!   every density integrates to 1, so violins of the same area can be compared across x
 //!   levels, groups and panels.
 //!
-//! A cell whose bandwidth is undefined (fewer than two values, or no spread, under a rule) has
-//! its `n` reported and draws nothing. Summary rows per cell: `n`, `n_missing`, `bandwidth`,
-//! `q1`, `median`, `q3`.
+//! - a ratio variable's density is reflected at zero (Silverman 1986 §2.10), as for `density`.
+//!
+//! A cell with values always reports its quartiles; its bandwidth when it is defined (a rule
+//! needs two values with some spread); it draws an outline only when the bandwidth is defined
+//! and its values are not all equal. Summary rows per cell: `n`, `n_missing`, `bandwidth`,
+//! `q1`, `median`, `q3`; with `summary(full)`, `density` at every point of the outline (`x` =
+//! `LEVEL@y`: the x level and the point, in y units).
 
 use crate::check::layer::ViolinOpts;
-use crate::stats;
+use crate::check::plan::SummaryDetail;
+use crate::stats::{self, Boundary};
 
 use super::super::cells::Values;
 use super::super::extent::Extent;
+use super::super::summary::format_number;
 use super::super::ComputeError;
-use super::density::bandwidth_rule;
+use super::density::{bandwidth_rule, boundary_of, density_rows};
 use super::{At, LayerMarks, LayerOutput, Stat};
 
 /// Points at which each violin's density is evaluated.
@@ -39,22 +45,32 @@ pub struct ViolinMark {
 }
 
 pub fn compute(opts: &ViolinOpts, at: &At, values: &Values) -> Result<LayerOutput, ComputeError> {
+    let boundary = boundary_of(at);
     let mut rows = Vec::new();
     let mut marks = Vec::new();
     at.each_cell(values, &mut rows, |cell, sorted, k, rows| {
-        let Ok(h) = stats::bandwidth(sorted, bandwidth_rule(opts.bandwidth)) else {
-            return;
-        };
         let Ok(q) = stats::quartiles_sorted(sorted) else {
             return;
         };
-        rows.push(k.number(Stat::Bandwidth, h));
+        let bandwidth = stats::bandwidth(sorted, bandwidth_rule(opts.bandwidth)).ok();
+        if let Some(h) = bandwidth {
+            rows.push(k.number(Stat::Bandwidth, h));
+        }
         rows.push(k.number(Stat::Q1, q.q1));
         rows.push(k.number(Stat::Median, q.median));
         rows.push(k.number(Stat::Q3, q.q3));
-        let Some(outline) = outline(sorted, h) else {
+        let Some(outline) = bandwidth.and_then(|h| outline(sorted, h, boundary)) else {
             return;
         };
+        if opts.summary == SummaryDetail::Full {
+            // `LEVEL@y`: the cell's x level and the point of the outline.
+            density_rows(
+                &outline,
+                k,
+                |y| format!("{}@{}", k.x, format_number(y)),
+                rows,
+            );
+        }
         marks.push(ViolinMark {
             x: cell.x,
             group: cell.group,
@@ -79,7 +95,7 @@ pub fn compute(opts: &ViolinOpts, at: &At, values: &Values) -> Result<LayerOutpu
 
 /// The density at [`VIOLIN_GRID`] points from the smallest to the largest of the sorted
 /// `values`; `None` when they are all equal (nothing to draw).
-fn outline(values: &[f64], h: f64) -> Option<Vec<(f64, f64)>> {
+fn outline(values: &[f64], h: f64, boundary: Boundary) -> Option<Vec<(f64, f64)>> {
     let (lo, hi) = (*values.first()?, *values.last()?);
     if hi <= lo {
         return None;
@@ -94,6 +110,6 @@ fn outline(values: &[f64], h: f64) -> Option<Vec<(f64, f64)>> {
             }
         })
         .collect();
-    let density = stats::kde(values, h, &grid).ok()?;
+    let density = stats::kde_bounded(values, h, &grid, boundary).ok()?;
     Some(grid.into_iter().zip(density).collect())
 }

@@ -1,5 +1,7 @@
 //! `box`: a box from the first to the third quartile, the median line, whiskers, and (when no
-//! points show them) the outliers as open circles.
+//! points show them) the outliers as open circles. A notched box narrows to the median between
+//! the notch's ends; a notch that reaches beyond the box is drawn to the box's edge (the
+//! summary keeps its computed ends).
 
 use crate::compute::layer::BoxMark;
 use crate::scene::{Colour, Fill, Mark, Point, Stroke};
@@ -34,18 +36,71 @@ fn draw_box(out: &mut Vec<Mark>, frame: &PanelFrame, b: &BoxMark) {
         points: vec![Point::new(cx, y3), Point::new(cx, frame.y(b.whisker_high))],
         stroke: line.clone(),
     });
-    out.push(Mark::Rect {
-        x: cx - half,
-        y: y3,
-        width: 2.0 * half,
-        height: y1 - y3,
-        fill: None,
-        stroke: Some(line.clone()),
-    });
+    let median_half = match b.notch {
+        None => {
+            out.push(Mark::Rect {
+                x: cx - half,
+                y: y3,
+                width: 2.0 * half,
+                height: y1 - y3,
+                fill: None,
+                stroke: Some(line.clone()),
+            });
+            half
+        }
+        Some((lo, hi)) => {
+            out.push(notched_outline(
+                cx,
+                half,
+                (y1, y3),
+                (frame.y(lo), frame.y(hi)),
+                ym,
+                line,
+            ));
+            half * NOTCH_WIDTH_SHARE
+        }
+    };
     out.push(Mark::Line {
-        points: vec![Point::new(cx - half, ym), Point::new(cx + half, ym)],
+        points: vec![
+            Point::new(cx - median_half, ym),
+            Point::new(cx + median_half, ym),
+        ],
         stroke: Stroke::solid(colour, MEDIAN_LINE_MM),
     });
+}
+
+/// Width of a notched box at its median, as a share of its full width (common practice).
+const NOTCH_WIDTH_SHARE: f64 = 0.5;
+
+/// A box's outline narrowing to the median between the notch's ends (page y, clamped to the
+/// box's edges `y1` at Q1 and `y3` at Q3).
+fn notched_outline(
+    cx: f64,
+    half: f64,
+    (y1, y3): (f64, f64),
+    (notch_low, notch_high): (f64, f64),
+    ym: f64,
+    stroke: Stroke,
+) -> Mark {
+    let (top, bottom) = (y3.min(y1), y3.max(y1));
+    let (n_low, n_high) = (notch_low.clamp(top, bottom), notch_high.clamp(top, bottom));
+    let inner = half * NOTCH_WIDTH_SHARE;
+    let side = |sign: f64| {
+        [
+            Point::new(cx + sign * half, y1),
+            Point::new(cx + sign * half, n_low),
+            Point::new(cx + sign * inner, ym),
+            Point::new(cx + sign * half, n_high),
+            Point::new(cx + sign * half, y3),
+        ]
+    };
+    let mut points: Vec<Point> = side(-1.0).to_vec();
+    points.extend(side(1.0).into_iter().rev());
+    Mark::Polygon {
+        points,
+        fill: None,
+        stroke: Some(stroke),
+    }
 }
 
 /// A box's outliers, as open circles on its centre line.

@@ -32,10 +32,12 @@ pub fn draw(frame: &PanelFrame, panel: &PanelData) -> Vec<Mark> {
             LayerMarks::Points(points) => points::draw(&mut out, frame, points),
             LayerMarks::Box(boxes) => boxplot::draw(&mut out, frame, boxes),
             LayerMarks::Violin(violins) => violin::draw(&mut out, frame, violins),
-            LayerMarks::Mean { bars, estimates } => mean::draw(&mut out, frame, bars, estimates),
+            LayerMarks::Mean {
+                bars, estimates, ..
+            } => mean::draw(&mut out, frame, bars, estimates),
             LayerMarks::Median(medians) => median::draw(&mut out, frame, medians),
             LayerMarks::Lines(paths) => lines::draw(&mut out, frame, paths),
-            LayerMarks::Counts(bars) => counts::draw(&mut out, frame, bars),
+            LayerMarks::Counts(counts) => counts::draw(&mut out, frame, counts),
             LayerMarks::Histogram(bins) => histogram::draw(&mut out, frame, bins),
             LayerMarks::Density(curves) => density::draw(&mut out, frame, curves),
             LayerMarks::Ecdf(steps) => ecdf::draw(&mut out, frame, steps),
@@ -97,16 +99,10 @@ fn summary_colour(group: usize, n_groups: usize) -> Colour {
     }
 }
 
-fn draw_estimate(out: &mut Vec<Mark>, frame: &PanelFrame, e: &Estimate, centre_shape: Centre) {
+/// An estimate's interval as an error bar with caps, over a white halo (nothing without one).
+fn draw_interval(out: &mut Vec<Mark>, frame: &PanelFrame, e: &Estimate) {
     let (cx, gw) = frame.group_slot(e.x, e.group);
     let colour = summary_colour(e.group, frame.n_groups);
-    // A summary mark sits on top of the values it summarises: a white halo under the interval
-    // and, with colour groups, an ink outline keep it readable over points of its own colour.
-    let outline = if frame.n_groups > 1 {
-        INK
-    } else {
-        Colour::WHITE
-    };
     if let Some((lo, hi)) = e.interval {
         let cap = CAP_MM.min(gw * CAP_SHARE) / 2.0;
         let (ylo, yhi) = (frame.y(lo), frame.y(hi));
@@ -127,6 +123,19 @@ fn draw_estimate(out: &mut Vec<Mark>, frame: &PanelFrame, e: &Estimate, centre_s
             }
         }
     }
+}
+
+fn draw_estimate(out: &mut Vec<Mark>, frame: &PanelFrame, e: &Estimate, centre_shape: Centre) {
+    let (cx, _) = frame.group_slot(e.x, e.group);
+    let colour = summary_colour(e.group, frame.n_groups);
+    // A summary mark sits on top of the values it summarises: a white halo under the interval
+    // and, with colour groups, an ink outline keep it readable over points of its own colour.
+    let outline = if frame.n_groups > 1 {
+        INK
+    } else {
+        Colour::WHITE
+    };
+    draw_interval(out, frame, e);
     let centre = Point::new(cx, frame.y(e.centre));
     let stroke = Some(Stroke::solid(outline, ESTIMATE_OUTLINE_MM));
     match centre_shape {
