@@ -104,6 +104,9 @@ pub struct BuildOptions {
     pub jobs: Option<NonZeroUsize>,
     /// The version that enters every input hash (normally [`TOOL_VERSION`]).
     pub tool_version: String,
+    /// Build a figure whose content does not fit its size anyway, crowded, with a warning
+    /// (W0003) instead of an error (F0120).
+    pub allow_crowding: bool,
 }
 
 impl Default for BuildOptions {
@@ -116,6 +119,7 @@ impl Default for BuildOptions {
             force: false,
             jobs: None,
             tool_version: TOOL_VERSION.to_string(),
+            allow_crowding: false,
         }
     }
 }
@@ -243,6 +247,7 @@ impl Outcome {
 struct Made {
     result: Result<BTreeMap<String, String>, FigureError>,
     written: Vec<PathBuf>,
+    warnings: Vec<Diagnostic>,
 }
 
 /// Runs a build, a validation or a status check over the given paths.
@@ -261,7 +266,7 @@ pub fn build(options: &BuildOptions, progress: &dyn Progress) -> Result<BuildRep
             .map(|j| Outcome::Compared(j.freshness))
             .collect(),
         Mode::Build | Mode::Validate => {
-            make_all(&program, &jobs, options.mode, &mut report, &pool, progress)
+            make_all(&program, &jobs, options, &mut report, &pool, progress)
         }
     };
     if options.mode == Mode::Build {
@@ -336,7 +341,7 @@ fn plan_jobs<'p>(
 fn make_all(
     program: &Program,
     jobs: &[Job],
-    mode: Mode,
+    options: &BuildOptions,
     report: &mut BuildReport,
     pool: &rayon::ThreadPool,
     progress: &dyn Progress,
@@ -352,11 +357,12 @@ fn make_all(
             .map(|&i| {
                 let job = &jobs[i];
                 let made = match tables.get(&job.plan.data) {
-                    Some(Some(table)) => make(job, program, table, mode),
+                    Some(Some(table)) => make(job, program, table, options),
                     // The table's errors were reported when it was read.
                     _ => Made {
                         result: Err(FigureError::Data(Vec::new())),
                         written: Vec::new(),
+                        warnings: Vec::new(),
                     },
                 };
                 progress.done(&job.plan.name, made.result.is_ok());
@@ -367,6 +373,7 @@ fn make_all(
     let mut outcomes: Vec<Outcome> = jobs.iter().map(|_| Outcome::Kept).collect();
     for (i, made) in todo.into_iter().zip(made) {
         report.written.extend(made.written);
+        report.diagnostics.extend(made.warnings);
         outcomes[i] = match made.result {
             Ok(hashes) => Outcome::Made(hashes),
             Err(FigureError::Data(diags)) => {
@@ -415,17 +422,20 @@ fn read_tables(
 }
 
 /// Makes one figure and, in a build, writes each output whose bytes changed.
-fn make(job: &Job, program: &Program, table: &Table, mode: Mode) -> Made {
+fn make(job: &Job, program: &Program, table: &Table, options: &BuildOptions) -> Made {
     let book = &program.codebooks[job.plan.data];
-    let outputs = match render_figure(job.plan, book, table) {
+    let mode = options.mode;
+    let outputs = match render_figure(job.plan, book, table, options.allow_crowding) {
         Ok(o) => o,
         Err(e) => {
             return Made {
                 result: Err(e),
                 written: Vec::new(),
+                warnings: Vec::new(),
             }
         }
     };
+    let warnings = outputs.warnings;
     let mut hashes = BTreeMap::new();
     let mut written = Vec::new();
     for (name, bytes) in outputs.files {
@@ -438,6 +448,7 @@ fn make(job: &Job, program: &Program, table: &Table, mode: Mode) -> Made {
                     return Made {
                         result: Err(FigureError::Build(e)),
                         written,
+                        warnings,
                     }
                 }
             }
@@ -447,6 +458,7 @@ fn make(job: &Job, program: &Program, table: &Table, mode: Mode) -> Made {
     Made {
         result: Ok(hashes),
         written,
+        warnings,
     }
 }
 

@@ -16,6 +16,8 @@ use super::BuildError;
 pub struct FigureOutputs {
     /// (file name, bytes), in the order of [`output_kinds`].
     pub files: Vec<(String, Vec<u8>)>,
+    /// Warnings found while making it (too many dots, a crowded figure built anyway).
+    pub warnings: Vec<Diagnostic>,
 }
 
 /// Why one figure could not be made.
@@ -70,17 +72,30 @@ pub fn output_names(plan: &FigurePlan) -> Vec<String> {
         .collect()
 }
 
-/// Computes, lays out and renders one figure into its output files (in memory).
+/// Computes, lays out and renders one figure into its output files (in memory). A figure
+/// whose content does not fit its size fails (F0120), unless `allow_crowding` builds it
+/// crowded with a warning (W0003).
 pub fn render_figure(
     plan: &FigurePlan,
     book: &Codebook,
     table: &Table,
+    allow_crowding: bool,
 ) -> Result<FigureOutputs, FigureError> {
     let numbers = compute::compute(plan, book, table).map_err(|e| match e {
         ComputeError::Data(d) => FigureError::Data(d),
         ComputeError::Internal(m) => FigureError::Build(BuildError::Internal(m)),
     })?;
-    let scene = layout::layout(plan, &numbers);
+    let mut warnings = numbers.warnings.clone();
+    let laid = layout::layout(plan, &numbers);
+    if let Some(crowding) = &laid.crowding {
+        let diagnostic = crowding.diagnostic(plan, allow_crowding);
+        if !allow_crowding {
+            warnings.push(diagnostic);
+            return Err(FigureError::Data(warnings));
+        }
+        warnings.push(diagnostic);
+    }
+    let scene = laid.scene;
     let rendered = export::render(&scene)
         .map_err(|e| FigureError::Build(BuildError::Internal(e.to_string())))?;
     let mut files = Vec::new();
@@ -97,7 +112,7 @@ pub fn render_figure(
         };
         files.push((kind.file_name(&plan.name), bytes));
     }
-    Ok(FigureOutputs { files })
+    Ok(FigureOutputs { files, warnings })
 }
 
 /// The data stage's view of a codebook.

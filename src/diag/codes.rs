@@ -89,6 +89,7 @@ code_table! {
     YNotNumeric = "F0117", Error, "A layer that needs a numeric `y` was given a categorical one or an id.";
     LayerDoesNotFit = "F0118", Error, "A layer that does not fit the figure's axes or its other layers.";
     TooManyColours = "F0119", Error, "More levels to tell apart by colour than the palette has colours (found in the data).";
+    FigureCrowded = "F0120", Error, "The figure's content does not fit its size: text would overlap, shrink below 6 pt or leave the page (found when it is laid out).";
 
     // Form of statements and files.
     UnknownStatement = "F0201", Error, "A statement word that does not exist in this kind of block.";
@@ -112,6 +113,8 @@ code_table! {
     // Warnings.
     MeanAlone = "W0001", Warning, "A `mean` with no layer that shows the values or their spread.";
     BarWithoutPoints = "W0002", Warning, "`mean bar` without `points`.";
+    CrowdingAllowed = "W0003", Warning, "The figure's content does not fit its size, and `--allow-crowding` built it anyway.";
+    ManyPoints = "W0004", Warning, "`points` with more values in one cell than dots can show apart (found in the data).";
 
     // Data files.
     Unreadable = "D0001", Error, "The data file is missing, a folder, or cannot be read.";

@@ -3,6 +3,7 @@
 use crate::diag::Diagnostic;
 
 use super::super::plan::Heights;
+use super::key::{KeyContext, MarkKey};
 use super::{options, Layer, LayerDecl, OptionDecl, ReadInput, Shows, Traits, XNeed, YNeed};
 
 pub static DECL: LayerDecl = LayerDecl {
@@ -31,4 +32,9 @@ fn read(input: &ReadInput, diags: &mut Vec<Diagnostic>) -> Option<(Layer, Traits
         Some(_) => options::heights(input.opts, &["count", "percent"], diags)?,
     };
     Some((Layer::Counts(CountsOpts { heights }), Traits::default()))
+}
+
+/// Bars of counts are read off the y axis: nothing to add.
+pub fn key(_opts: &CountsOpts, _ctx: &KeyContext) -> Option<MarkKey> {
+    None
 }

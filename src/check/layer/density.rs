@@ -3,6 +3,7 @@
 use crate::diag::Diagnostic;
 
 use super::super::plan::Bandwidth;
+use super::key::{self, KeyContext, MarkKey};
 use super::{options, Layer, LayerDecl, OptionDecl, ReadInput, Shows, Traits, XNeed, YNeed};
 
 pub static DECL: LayerDecl = LayerDecl {
@@ -31,4 +32,12 @@ pub struct DensityOpts {
 fn read(input: &ReadInput, diags: &mut Vec<Diagnostic>) -> Option<(Layer, Traits)> {
     let bandwidth = options::bandwidth(input.opts, diags)?;
     Some((Layer::Density(DensityOpts { bandwidth }), Traits::default()))
+}
+
+/// The curve and its bandwidth.
+pub fn key(opts: &DensityOpts, _ctx: &KeyContext) -> Option<MarkKey> {
+    Some(MarkKey::new(
+        "Curves",
+        format!("kernel density ({})", key::bandwidth(opts.bandwidth)),
+    ))
 }

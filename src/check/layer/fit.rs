@@ -2,6 +2,7 @@
 
 use crate::diag::Diagnostic;
 
+use super::key::{self, KeyContext, MarkKey};
 use super::{
     options, Layer, LayerDecl, OptionDecl, ReadInput, Refusal, Shows, Traits, XNeed, YNeed,
 };
@@ -36,4 +37,16 @@ fn read(input: &ReadInput, diags: &mut Vec<Diagnostic>) -> Option<(Layer, Traits
         Some(c) => Some(options::level_arg(c, "band(0.95)", diags)?),
     };
     Some((Layer::Fit(FitOpts { band }), Traits::default()))
+}
+
+/// The fitted line and its band.
+pub fn key(opts: &FitOpts, _ctx: &KeyContext) -> Option<MarkKey> {
+    let meaning = match opts.band {
+        Some(level) => format!(
+            "least squares line, band: {} CI of the mean",
+            key::percent(level)
+        ),
+        None => "least squares line".to_string(),
+    };
+    Some(MarkKey::new("Lines", meaning))
 }

@@ -3,6 +3,7 @@
 use crate::diag::{Code, Diagnostic};
 
 use super::super::plan::{Scale, VarId};
+use super::key::{KeyContext, MarkKey};
 use super::{options, Layer, LayerDecl, OptionDecl, ReadInput, Shows, Traits, XNeed, YNeed};
 
 pub static DECL: LayerDecl = LayerDecl {
@@ -47,4 +48,15 @@ fn read(input: &ReadInput, diags: &mut Vec<Diagnostic>) -> Option<(Layer, Traits
         }
     }
     Some((Layer::Flows(FlowsOpts { by }), Traits::default()))
+}
+
+/// Stacked bars of states and ribbons of moves.
+pub fn key(_opts: &FlowsOpts, ctx: &KeyContext) -> Option<MarkKey> {
+    Some(MarkKey::new(
+        "Bars and ribbons",
+        format!(
+            "each {} in a state, and moving between states from one occasion to the next",
+            ctx.subject()
+        ),
+    ))
 }

@@ -3,6 +3,7 @@
 use crate::diag::{Code, Diagnostic, Span};
 
 use super::super::plan::{ErrorBar, Scale};
+use super::key::{self, KeyContext, MarkKey};
 use super::{
     options, Fitted, Layer, LayerDecl, OptionDecl, ReadInput, Refusal, Shows, Traits, XNeed, YNeed,
 };
@@ -114,4 +115,17 @@ fn check_within(
                 .with_help("add `subject ID` to the data block"),
         );
     }
+}
+
+/// The mean's dot (and bar), with its error bar; a within-subject interval uses complete
+/// subjects only.
+pub fn key(opts: &MeanOpts, _ctx: &KeyContext) -> Option<MarkKey> {
+    let marks = if opts.bar {
+        "Bars and large dots"
+    } else {
+        "Large dots"
+    };
+    let mut key = MarkKey::new(marks, key::with_error("mean", opts.error));
+    key.complete_subjects = matches!(opts.error, Some(ErrorBar::CiWithin { .. }));
+    Some(key)
 }

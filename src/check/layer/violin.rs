@@ -3,6 +3,7 @@
 use crate::diag::Diagnostic;
 
 use super::super::plan::Bandwidth;
+use super::key::{self, KeyContext, MarkKey};
 use super::{
     options, Layer, LayerDecl, OptionDecl, ReadInput, Refusal, Shows, Traits, XNeed, YNeed,
 };
@@ -33,4 +34,15 @@ pub struct ViolinOpts {
 fn read(input: &ReadInput, diags: &mut Vec<Diagnostic>) -> Option<(Layer, Traits)> {
     let bandwidth = options::bandwidth(input.opts, diags)?;
     Some((Layer::Violin(ViolinOpts { bandwidth }), Traits::default()))
+}
+
+/// The density outline, with its quartile and median lines.
+pub fn key(opts: &ViolinOpts, _ctx: &KeyContext) -> Option<MarkKey> {
+    Some(MarkKey::new(
+        "Violins",
+        format!(
+            "kernel density ({}), dashed quartiles, solid median",
+            key::bandwidth(opts.bandwidth)
+        ),
+    ))
 }

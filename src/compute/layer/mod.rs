@@ -311,7 +311,8 @@ stat_table! {
     Q3 = "q3", "Third quartile, as `q1`.";
     WhiskerLow = "whisker_low", "Lower whisker end: `box`.";
     WhiskerHigh = "whisker_high", "Upper whisker end: `box`.";
-    Outliers = "outliers", "One row per outlier, ascending: `box` with `whiskers(tukey)`.";
+    Outliers = "outliers", "One row per outlier, ascending: `box` with `whiskers(tukey)`, when a box has at most 30 outliers.";
+    NOutliers = "n_outliers", "The number of outliers, in place of the `outliers` rows when a box has more than 30 (its extremes are `min` and `max`).";
     Min = "min", "Smallest value: `box`.";
     Max = "max", "Largest value: `box`.";
 }

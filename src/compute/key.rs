@@ -1,0 +1,120 @@
+//! The key under a figure: what each summary mark is, how trials were averaged, and what the
+//! n under the axis counts — derived from the plan (each layer's [`MarkKey`]) and the cells
+//! (the subject, the trials collapsed per value).
+//!
+//! Example: "Dots: each participant's mean of 6 trials. Boxes: median and quartiles, whiskers
+//! to 1.5 IQR. Large dots: mean, 95% CI (within-subject, Cousineau–Morey). n: one per
+//! participant with a value at every level (the mean uses only these)."
+
+use crate::check::layer::{KeyContext, Layer, MarkKey, Shows};
+use crate::check::plan::{Axes, Collapse};
+
+use super::cells::{repeated_subject, Cells, Placed};
+
+/// The key's sentences, in the order of the layers, each ending in a full stop.
+pub fn key(cells: &Cells, n_source: Option<usize>) -> Vec<String> {
+    let plan = cells.plan;
+    let book = cells.book;
+    let subject = book.subject.map(|s| words(&book.var(s).name));
+    let ctx = KeyContext {
+        y_ordinal: matches!(&plan.axes, Axes::CatCat { y, .. } if y.var.ordered),
+        shows_points: plan.layers.iter().any(|l| l.decl.shows == Shows::Values),
+        subject: subject.as_deref(),
+    };
+    let keys: Vec<Option<MarkKey>> = plan.layers.iter().map(|l| l.layer.key(&ctx)).collect();
+    let trials = averaged(cells, ctx.subject());
+    let mut out: Vec<String> = Vec::new();
+    for (layer, key) in plan.layers.iter().zip(&keys) {
+        let Some(key) = key else { continue };
+        let meaning = match (&layer.layer, &trials) {
+            (Layer::Points(_), Some(t)) => t.clone(),
+            _ => key.meaning.clone(),
+        };
+        let sentence = format!("{}: {meaning}.", key.marks);
+        if !out.contains(&sentence) {
+            out.push(sentence);
+        }
+    }
+    if let (Some(t), false) = (&trials, ctx.shows_points) {
+        if plan.layers.iter().any(|l| l.decl.shows != Shows::Counts) {
+            out.push(format!("Values: {t}."));
+        }
+    }
+    if let Some(i) = n_source {
+        let complete = keys[i].as_ref().is_some_and(|k| k.complete_subjects);
+        out.push(format!(
+            "n: {}.",
+            n_counts(cells, i, complete, ctx.subject())
+        ));
+    }
+    out
+}
+
+/// "each participant's mean of 6 trials", when `replicates` collapsed trials into one value.
+fn averaged(cells: &Cells, subject: &str) -> Option<String> {
+    let rep = cells.book.replicates.as_ref()?;
+    let (lo, hi) = cells.trials?;
+    let how = match rep.collapse {
+        Collapse::Mean => "mean",
+        Collapse::Median => "median",
+    };
+    let trial = words(&cells.book.var(rep.var).name);
+    let count = if lo == hi {
+        format!("{lo} {}", plural(&trial, lo))
+    } else {
+        format!("{lo}–{hi} {}", plural(&trial, hi))
+    };
+    Some(format!("each {subject}'s {how} of {count}"))
+}
+
+/// What the n under the axis counts, from the layer that gives it.
+fn n_counts(cells: &Cells, source: usize, complete: bool, subject: &str) -> String {
+    let layer = &cells.plan.layers[source];
+    if complete {
+        format!("one per {subject} with a value at every level (the mean uses only these)")
+    } else if matches!(layer.layer, Layer::Flows(_)) {
+        format!("one per {subject} with a state at the occasion")
+    } else if layer.decl.shows == Shows::Counts {
+        "rows counted".to_string()
+    } else if one_value_per_subject(cells) {
+        format!("one per {subject}")
+    } else {
+        "one per value".to_string()
+    }
+}
+
+/// Every value placed has a subject, and no subject has two values in one cell.
+fn one_value_per_subject(cells: &Cells) -> bool {
+    let (Placed::Values(v) | Placed::Levels(v)) = &cells.placed else {
+        return false;
+    };
+    cells.book.subject.is_some()
+        && v.placed.obs.iter().all(|o| o.subject.is_some())
+        && repeated_subject(&v.placed).is_none()
+}
+
+/// A variable's name as words: `reaction_time` → "reaction time".
+fn words(name: &str) -> String {
+    name.replace('_', " ")
+}
+
+/// A count noun for `n` things: "trial", "trials".
+fn plural(noun: &str, n: usize) -> String {
+    if n == 1 || noun.ends_with('s') {
+        noun.to_string()
+    } else {
+        format!("{noun}s")
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn nouns_take_a_plain_plural() {
+        assert_eq!(plural("trial", 6), "trials");
+        assert_eq!(plural("trial", 1), "trial");
+        assert_eq!(words("reaction_time"), "reaction time");
+    }
+}
