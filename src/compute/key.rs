@@ -6,6 +6,7 @@
 //! to 1.5 IQR. Large dots: mean, 95% CI (within-subject, Cousineau–Morey). n: one per
 //! participant with a value at every level (the mean uses only these)."
 
+use crate::check::layer::key::plural;
 use crate::check::layer::{KeyContext, Layer, MarkKey, Shows};
 use crate::check::plan::{Axes, Collapse};
 
@@ -42,8 +43,13 @@ pub fn key(cells: &Cells, n_source: Option<usize>) -> Vec<String> {
     }
     if let Some(i) = n_source {
         let complete = keys[i].as_ref().is_some_and(|k| k.complete_subjects);
+        let per_group = if plan.colour.is_some() {
+            " in each colour group"
+        } else {
+            ""
+        };
         out.push(format!(
-            "n: {}.",
+            "n: {}{per_group}.",
             n_counts(cells, i, complete, ctx.subject())
         ));
     }
@@ -60,9 +66,9 @@ fn averaged(cells: &Cells, subject: &str) -> Option<String> {
     };
     let trial = words(&cells.book.var(rep.var).name);
     let count = if lo == hi {
-        format!("{lo} {}", plural(&trial, lo))
+        format!("{lo} {}", counted(&trial, lo))
     } else {
-        format!("{lo}–{hi} {}", plural(&trial, hi))
+        format!("{lo}–{hi} {}", counted(&trial, hi))
     };
     Some(format!("each {subject}'s {how} of {count}"))
 }
@@ -70,16 +76,17 @@ fn averaged(cells: &Cells, subject: &str) -> Option<String> {
 /// What the n under the axis counts, from the layer that gives it.
 fn n_counts(cells: &Cells, source: usize, complete: bool, subject: &str) -> String {
     let layer = &cells.plan.layers[source];
+    let subjects = plural(subject);
     if complete {
-        format!("one per {subject} with a value at every level (the mean uses only these)")
+        format!("number of {subjects} with a value at every level, the only ones the mean uses")
     } else if matches!(layer.layer, Layer::Flows(_)) {
-        format!("one per {subject} with a state at the occasion")
+        format!("number of {subjects} with a state at the occasion")
     } else if layer.decl.shows == Shows::Counts {
-        "rows counted".to_string()
+        "number of rows counted".to_string()
     } else if one_value_per_subject(cells) {
-        format!("one per {subject}")
+        format!("number of {subjects}")
     } else {
-        "one per value".to_string()
+        "number of values".to_string()
     }
 }
 
@@ -99,11 +106,11 @@ fn words(name: &str) -> String {
 }
 
 /// A count noun for `n` things: "trial", "trials".
-fn plural(noun: &str, n: usize) -> String {
-    if n == 1 || noun.ends_with('s') {
+fn counted(noun: &str, n: usize) -> String {
+    if n == 1 {
         noun.to_string()
     } else {
-        format!("{noun}s")
+        plural(noun)
     }
 }
 
@@ -112,9 +119,9 @@ mod tests {
     use super::*;
 
     #[test]
-    fn nouns_take_a_plain_plural() {
-        assert_eq!(plural("trial", 6), "trials");
-        assert_eq!(plural("trial", 1), "trial");
+    fn counted_nouns_take_a_plural() {
+        assert_eq!(counted("trial", 6), "trials");
+        assert_eq!(counted("trial", 1), "trial");
         assert_eq!(words("reaction_time"), "reaction time");
     }
 }

@@ -5,10 +5,10 @@
 //! the data on that axis (Tufte's range frame): its two ends are the data's minimum and
 //! maximum. Ticks point away from the data.
 
-use crate::scene::{Mark, Point, Rect, Stroke, TextAlign, TextBaseline};
+use crate::scene::{Colour, Fill, Mark, Point, Rect, Stroke, TextAlign, TextBaseline};
 
 use super::labels::{Arrangement, NRow};
-use super::solve::{XAxis, YAxis};
+use super::solve::{n_swatch_side, XAxis, YAxis};
 use super::style::*;
 use super::text;
 use super::PanelFrame;
@@ -158,11 +158,12 @@ pub fn x_axis(out: &mut Vec<Mark>, frame: &PanelFrame, x: &XAxis, axis_line: boo
                 }
                 match cats.arrangement {
                     Arrangement::Upright => {
-                        out.push(text::upright(
-                            &lines.join(" "),
-                            Point::new(centre(i), top),
-                            cats.style,
-                        ));
+                        // The label's lines side by side, the first on the left.
+                        let first = centre(i) - (lines.len() - 1) as f64 * lh / 2.0;
+                        for (k, line) in lines.iter().enumerate() {
+                            let at = Point::new(first + k as f64 * lh, top);
+                            out.push(text::upright(line, at, cats.style));
+                        }
                     }
                     Arrangement::Rows | Arrangement::Staggered => {
                         let row = if cats.arrangement == Arrangement::Staggered {
@@ -182,26 +183,41 @@ pub fn x_axis(out: &mut Vec<Mark>, frame: &PanelFrame, x: &XAxis, axis_line: boo
     }
 }
 
-/// The n row under a panel, from `top`; with its heading `n` left of the first column.
-pub fn n_row(out: &mut Vec<Mark>, rect: Rect, row: &NRow, top: f64, heading: bool) {
+/// The n row under a panel, from `top`; in the first column, with its heading `n` and, when
+/// each colour group has a line, a swatch of the group's colour before each line.
+pub fn n_row(out: &mut Vec<Mark>, rect: Rect, row: &NRow, top: f64, heading: Option<&[Colour]>) {
     let style = n_label();
     let lh = text::line_height(&style);
     for item in &row.items {
         out.push(text::label(
             &item.text,
-            Point::new(rect.x + item.centre, top + item.row as f64 * lh),
+            Point::new(rect.x + item.centre, top + item.line as f64 * lh),
             style,
             TextAlign::Middle,
             TextBaseline::Top,
         ));
     }
-    if heading {
-        out.push(text::label(
-            "n",
-            Point::new(rect.x - AXIS_OFFSET_MM - TICK_MM - GAP_MM, top),
-            n_heading(),
-            TextAlign::End,
-            TextBaseline::Top,
-        ));
+    let Some(colours) = heading else { return };
+    let mut right = rect.x - AXIS_OFFSET_MM - TICK_MM - GAP_MM;
+    if row.per_group {
+        let side = n_swatch_side();
+        for line in 0..row.lines {
+            out.push(Mark::Rect {
+                x: right - side,
+                y: top + line as f64 * lh + (lh - side) / 2.0,
+                width: side,
+                height: side,
+                fill: Some(Fill::solid(colours.get(line).copied().unwrap_or(INK))),
+                stroke: None,
+            });
+        }
+        right -= side + GAP_MM;
     }
+    out.push(text::label(
+        "n",
+        Point::new(right, top),
+        n_heading(),
+        TextAlign::End,
+        TextBaseline::Top,
+    ));
 }

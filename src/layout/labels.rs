@@ -21,7 +21,8 @@ pub enum Arrangement {
     Rows,
     /// Alternate labels on two rows (one line each).
     Staggered,
-    /// Labels turned to read upwards, hanging from their ticks.
+    /// Labels turned to read upwards, hanging from their ticks (a label's lines side by side,
+    /// the first on the left).
     Upright,
 }
 
@@ -97,6 +98,40 @@ pub fn fit_categories(labels: &[String], panel_w: f64, ordered: bool) -> Option<
         .iter()
         .map(|l| text::width(l, &style))
         .fold(0.0, f64::max);
+    // Upright on two lines when the band holds two, so the labels take half the height.
+    if band >= 2.0 * lh + UPRIGHT_GAP_MM {
+        let longest_word = labels
+            .iter()
+            .flat_map(|l| l.split_whitespace())
+            .map(|w| text::width(w, &style))
+            .fold(0.0, f64::max);
+        // The narrowest width at which every label takes at most two lines.
+        let two_lines = |w: f64| {
+            labels
+                .iter()
+                .all(|l| text::wrap(l, &style, w).len() <= MAX_LABEL_LINES)
+        };
+        let (mut lo, mut hi) = ((longest / 2.0).max(longest_word), longest);
+        if two_lines(lo) {
+            hi = lo;
+        }
+        while hi - lo > 0.2 {
+            let mid = (lo + hi) / 2.0;
+            if two_lines(mid) {
+                hi = mid;
+            } else {
+                lo = mid;
+            }
+        }
+        let wrapped: Vec<Vec<String>> = labels.iter().map(|l| text::wrap(l, &style, hi)).collect();
+        let height = wrapped
+            .iter()
+            .map(|l| text::widest(l, &style))
+            .fold(0.0, f64::max);
+        if height < longest - TEXT_GAP_MM {
+            return Some(set(style, Arrangement::Upright, wrapped, all, height));
+        }
+    }
     if band >= lh + UPRIGHT_GAP_MM {
         return Some(set(style, Arrangement::Upright, one_line, all, longest));
     }
@@ -128,61 +163,83 @@ fn set(
     }
 }
 
-/// Labels of the n row, as set: each with its centre (relative to the panel) and the row it
-/// is on (0, or 1 when staggered).
+/// The n under a panel's categories, as set: one number per category on one line (staggered
+/// over two when they crowd) when the colour groups agree, else one line per colour group.
 #[derive(Debug, Clone)]
 pub struct NRow {
     pub items: Vec<NItem>,
+    /// Lines of numbers: one, two when staggered, or one per colour group.
+    pub lines: usize,
+    /// Each line is a colour group's (its heading shows the group's colour).
+    pub per_group: bool,
     pub height: f64,
 }
 
-/// One number of the n row.
+/// One number of the n row: its centre (relative to the panel) and line.
 #[derive(Debug, Clone, PartialEq)]
 pub struct NItem {
     pub centre: f64,
     pub text: String,
-    pub row: usize,
+    pub line: usize,
 }
 
-/// Sets the n row of one panel: one number per category when its colour groups agree (or
-/// there is one group), else one per group under the group's slot; staggered over two rows
-/// when they crowd. `centres[x][g]` is the centre of group `g` of category `x`. `None` when
-/// even two rows crowd.
-pub fn fit_n_row(n_by_x: &[Vec<usize>], centres: &[Vec<f64>], panel_w: f64) -> Option<NRow> {
+/// Whether every category's colour groups have the same n.
+pub fn groups_agree(n_by_x: &[Vec<usize>]) -> bool {
+    n_by_x.iter().all(|c| c.windows(2).all(|w| w[0] == w[1]))
+}
+
+/// Sets the n row of one panel `panel_w` wide; `None` when the numbers crowd even staggered
+/// (or, one line per group, when a group's numbers crowd).
+pub fn fit_n_row(n_by_x: &[Vec<usize>], panel_w: f64) -> Option<NRow> {
     let style = n_label();
-    let mut items: Vec<NItem> = Vec::new();
-    for (x, counts) in n_by_x.iter().enumerate() {
-        let same = counts.windows(2).all(|w| w[0] == w[1]);
-        if same {
-            if let Some(n) = counts.first() {
-                let centre = band_centre(panel_w, n_by_x.len(), x);
-                items.push(NItem {
-                    centre,
-                    text: n.to_string(),
-                    row: 0,
-                });
-            }
-        } else {
-            for (g, n) in counts.iter().enumerate() {
-                items.push(NItem {
-                    centre: centres[x][g],
-                    text: n.to_string(),
-                    row: 0,
-                });
-            }
-        }
-    }
-    let item_centres: Vec<f64> = items.iter().map(|i| i.centre).collect();
-    let widths: Vec<f64> = items.iter().map(|i| text::width(&i.text, &style)).collect();
-    let (lo, hi) = (-PANEL_GAP_MM / 2.0, panel_w + PANEL_GAP_MM / 2.0);
     let lh = text::line_height(&style);
-    let rows = (1..=2).find(|&rows| rows_fit(&item_centres, &widths, rows, lo, hi))?;
-    for (i, item) in items.iter_mut().enumerate() {
-        item.row = i % rows;
+    let n = n_by_x.len();
+    let (lo, hi) = (-PANEL_GAP_MM / 2.0, panel_w + PANEL_GAP_MM / 2.0);
+    let centres: Vec<f64> = (0..n).map(|x| band_centre(panel_w, n, x)).collect();
+    let fits = |texts: &[String], rows: usize| {
+        let widths: Vec<f64> = texts.iter().map(|t| text::width(t, &style)).collect();
+        rows_fit(&centres, &widths, rows, lo, hi)
+    };
+    if groups_agree(n_by_x) {
+        let texts: Vec<String> = n_by_x
+            .iter()
+            .map(|c| c.first().copied().unwrap_or(0).to_string())
+            .collect();
+        let rows = (1..=2).find(|&rows| fits(&texts, rows))?;
+        let items = texts
+            .into_iter()
+            .enumerate()
+            .map(|(x, text)| NItem {
+                centre: centres[x],
+                text,
+                line: x % rows,
+            })
+            .collect();
+        return Some(NRow {
+            items,
+            lines: rows,
+            per_group: false,
+            height: rows as f64 * lh,
+        });
+    }
+    let groups = n_by_x.first().map_or(0, Vec::len);
+    let mut items = Vec::new();
+    for g in 0..groups {
+        let texts: Vec<String> = n_by_x.iter().map(|c| c[g].to_string()).collect();
+        if !fits(&texts, 1) {
+            return None;
+        }
+        items.extend(texts.into_iter().enumerate().map(|(x, text)| NItem {
+            centre: centres[x],
+            text,
+            line: g,
+        }));
     }
     Some(NRow {
         items,
-        height: rows as f64 * lh,
+        lines: groups,
+        per_group: true,
+        height: groups as f64 * lh,
     })
 }
 
@@ -229,10 +286,18 @@ mod tests {
 
     #[test]
     fn wide_numbers_stagger() {
-        let n = vec![vec![2046]; 10];
-        let centres: Vec<Vec<f64>> = (0..10).map(|i| vec![band_centre(40.0, 10, i)]).collect();
-        let row = fit_n_row(&n, &centres, 40.0).unwrap();
-        assert!(row.items.iter().any(|i| i.row == 1));
-        assert!(fit_n_row(&vec![vec![2046]; 40], &centres, 40.0).is_none());
+        let row = fit_n_row(&vec![vec![2046]; 10], 40.0).unwrap();
+        assert_eq!(row.lines, 2);
+        assert!(fit_n_row(&vec![vec![2046]; 40], 40.0).is_none());
+    }
+
+    #[test]
+    fn groups_that_differ_get_a_line_each() {
+        let row = fit_n_row(&[vec![24, 23], vec![24, 24]], 60.0).unwrap();
+        assert!(row.per_group);
+        assert_eq!(row.lines, 2);
+        assert_eq!(row.items.len(), 4);
+        let same = fit_n_row(&[vec![24, 24], vec![23, 23]], 60.0).unwrap();
+        assert!(!same.per_group && same.items.len() == 2);
     }
 }

@@ -183,13 +183,14 @@ fn draw(plan: &FigurePlan, data: &FigureData, page: &Page, legend_at: LegendAt) 
     {
         marks.extend(placed.text.marks(MARGIN_MM, placed.top));
     }
+    // The x-axis title is centred under the panels, but never runs off the page.
     let (plot_left, plot_right) = grid.span_x();
     let x_title = &page.x_title;
-    marks.extend(x_title.text.aligned(
-        (plot_left + plot_right) / 2.0,
-        x_title.top,
-        TextAlign::Middle,
-    ));
+    let half = text::widest(&x_title.text.lines, &x_title.text.style) / 2.0;
+    let centre = ((plot_left + plot_right) / 2.0)
+        .min(page.width - MARGIN_MM - half)
+        .max(MARGIN_MM + half);
+    marks.extend(x_title.text.aligned(centre, x_title.top, TextAlign::Middle));
     let y_map = match &grid.y {
         YAxis::Numbers { map, .. } => YMap::Numbers(map),
         YAxis::Levels { labels, .. } => YMap::Levels { n: labels.len() },
@@ -238,7 +239,11 @@ fn draw(plan: &FigurePlan, data: &FigureData, page: &Page, legend_at: LegendAt) 
         if i == corner_index {
             corner_panel = Some((rect, drawn.clone()));
         }
-        marks.push(Mark::Clip { rect, marks: drawn });
+        // Marks are cut off just outside the data area, so a dot on its edge stays whole.
+        marks.push(Mark::Clip {
+            rect: rect.grown(CLIP_GRACE_MM),
+            marks: drawn,
+        });
         frame::x_axis(
             &mut marks,
             &frame,
@@ -251,7 +256,7 @@ fn draw(plan: &FigurePlan, data: &FigureData, page: &Page, legend_at: LegendAt) 
                 XAxis::Numbers { .. } => 0.0,
             };
             let top = frame::labels_top(rect) + labels_h + GAP_MM / 2.0;
-            frame::n_row(&mut marks, rect, row, top, labelled);
+            frame::n_row(&mut marks, rect, row, top, labelled.then_some(colours));
         }
     }
     if let Some(legend) = &data.legend {

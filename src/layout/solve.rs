@@ -92,6 +92,9 @@ pub struct Grid {
     pub top: f64,
     pub panel_w: f64,
     pub panel_h: f64,
+    /// The data area's width and height before they were held at 1 mm: negative when the
+    /// rest of the page takes more than there is (how far a crowded grid is from fitting).
+    pub room: (f64, f64),
     /// Height of the panel labels above each data area, and the clear space above the data
     /// area for the top y tick label when there are no panel labels.
     pub strip_h: f64,
@@ -353,10 +356,11 @@ impl Content<'_> {
                 continue;
             }
             let (grid, problems) = self.grid(cols, rows, top, bottom);
-            let score = grid.panel_w.min(1.3 * grid.panel_h);
+            let score = grid.room.0.min(1.3 * grid.room.1);
+            // A grid that fits beats one that does not; among either, larger panels win.
             let better = match &best {
                 None => true,
-                Some((_, p, s)) => (problems.len(), -score) < (p.len(), -*s),
+                Some((_, p, s)) => (!problems.is_empty(), -score) < (!p.is_empty(), -*s),
             };
             if better {
                 best = Some((grid, problems, score));
@@ -399,8 +403,14 @@ impl Content<'_> {
         let data = self.data;
         let mut problems = Vec::new();
         let shows_n = data.panels.iter().any(|p| !p.n_by_x.is_empty());
+        let per_group = data.panels.iter().any(|p| !labels::groups_agree(&p.n_by_x));
         let n_heading_w = if shows_n {
             text::width("n", &n_heading())
+                + if per_group {
+                    GAP_MM + n_swatch_side()
+                } else {
+                    0.0
+                }
         } else {
             0.0
         };
@@ -437,16 +447,23 @@ impl Content<'_> {
             }
         }
         if panel_w < MIN_PANEL_WIDTH_MM {
+            let what = if cols == 1 && rows == 1 {
+                "the panel is".to_string()
+            } else if cols == 1 {
+                "the panels are".to_string()
+            } else {
+                format!("{} side by side leave each", plural(cols, "panel"))
+            };
             problems.push(problem(
                 Needs::Width,
                 format!(
-                    "{} side by side leave each {} wide, less than the {} a panel needs",
-                    plural(cols, "panel"),
+                    "{what} {} wide, less than the {} a panel needs",
                     mm(panel_w),
                     mm(MIN_PANEL_WIDTH_MM)
                 ),
             ));
         }
+        let raw_w = panel_w;
         let panel_w = panel_w.max(1.0);
         let (x, labels_h) = match (&data.x, x_map) {
             (XScale::Numbers(s), Some(map)) => {
@@ -492,8 +509,7 @@ impl Content<'_> {
             data.panels
                 .iter()
                 .map(|p| {
-                    let centres = group_centres(&p.n_by_x, panel_w, self.n_groups());
-                    labels::fit_n_row(&p.n_by_x, &centres, panel_w).unwrap_or_else(|| {
+                    labels::fit_n_row(&p.n_by_x, panel_w).unwrap_or_else(|| {
                         problems.push(problem(
                             Needs::Width,
                             format!("the n row does not fit under a panel {} wide", mm(panel_w)),
@@ -519,25 +535,39 @@ impl Content<'_> {
             + if n_h > 0.0 { GAP_MM / 2.0 + n_h } else { 0.0 };
         let avail = bottom - top - (rows - 1) as f64 * PANEL_GAP_MM;
         let panel_h = avail / rows as f64 - strip_h - head_room - below_h;
-        if panel_h < MIN_PANEL_HEIGHT_MM {
+        let too_short = panel_h < MIN_PANEL_HEIGHT_MM;
+        if too_short {
+            let what = if rows == 1 && cols == 1 {
+                "the panel is".to_string()
+            } else if rows == 1 {
+                "the panels are".to_string()
+            } else {
+                format!("{} of panels leave each", plural(rows, "row"))
+            };
             problems.push(problem(
                 Needs::Height,
                 format!(
-                    "{} of panels leave each {} high, less than the {} a panel needs",
-                    plural(rows, "row"),
+                    "{what} {} high, less than the {} a panel needs",
                     mm(panel_h.max(0.0)),
                     mm(MIN_PANEL_HEIGHT_MM)
                 ),
             ));
         }
+        let room = (raw_w, panel_h);
         let panel_h = panel_h.max(1.0);
-        let y = self.y_axis(panel_h, &mut problems);
+        // Tick labels that cannot fit a panel too short anyway need no second word.
+        let mut y_problems = Vec::new();
+        let y = self.y_axis(panel_h, &mut y_problems);
+        if !too_short {
+            problems.extend(y_problems);
+        }
         let grid = Grid {
             cols,
             left,
             top,
             panel_w,
             panel_h,
+            room,
             strip_h,
             head_room,
             below_h,
@@ -548,10 +578,6 @@ impl Content<'_> {
             panel_labels,
         };
         (grid, problems)
-    }
-
-    fn n_groups(&self) -> usize {
-        self.data.legend.as_ref().map_or(1, |l| l.levels.len())
     }
 
     /// Each panel's label wrapped to the panel's width, and the height of the strip they take.
@@ -652,6 +678,11 @@ impl Content<'_> {
     }
 }
 
+/// The side of the colour swatch that heads each group's line of the n row.
+pub fn n_swatch_side() -> f64 {
+    text::line_height(&n_label()) * SWATCH_SHARE
+}
+
 /// Clear space kept between y tick labels one above the other.
 const Y_LABEL_GAP_MM: f64 = 0.6;
 
@@ -717,18 +748,6 @@ fn tick_spacing(map: &NumAxisMap, panel_h: f64) -> f64 {
         .fold(f64::INFINITY, f64::min)
 }
 
-/// The centre of each colour group of each category, relative to the panel.
-pub fn group_centres(n_by_x: &[Vec<usize>], panel_w: f64, n_groups: usize) -> Vec<Vec<f64>> {
-    let rect = Rect::new(0.0, 0.0, panel_w, 1.0);
-    (0..n_by_x.len())
-        .map(|x| {
-            (0..n_groups)
-                .map(|g| super::band_slot(rect, n_by_x.len(), n_groups, x, g).0)
-                .collect()
-        })
-        .collect()
-}
-
 /// Category labels set upright at the smallest size, for a figure that is crowded anyway.
 fn crowded_categories(labels: &[String]) -> CategoryLabels {
     let style = small_tick_label();
@@ -744,7 +763,8 @@ fn crowded_categories(labels: &[String]) -> CategoryLabels {
     }
 }
 
-/// The n row staggered, for a figure that is crowded anyway.
+/// The n row with every group's numbers joined, staggered, for a figure that is crowded
+/// anyway.
 fn crowded_n_row(n_by_x: &[Vec<usize>], panel_w: f64) -> NRow {
     let items = n_by_x
         .iter()
@@ -752,11 +772,13 @@ fn crowded_n_row(n_by_x: &[Vec<usize>], panel_w: f64) -> NRow {
         .map(|(x, n)| labels::NItem {
             centre: labels::band_centre(panel_w, n_by_x.len(), x),
             text: n.iter().map(usize::to_string).collect::<Vec<_>>().join("/"),
-            row: x % 2,
+            line: x % 2,
         })
         .collect();
     NRow {
         items,
+        lines: 2,
+        per_group: false,
         height: 2.0 * text::line_height(&n_label()),
     }
 }

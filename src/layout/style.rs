@@ -50,6 +50,9 @@ pub const TEXT_GAP_MM: f64 = 1.2;
 pub const TICK_MM: f64 = 1.0;
 /// Clear space between the data area and an axis line.
 pub const AXIS_OFFSET_MM: f64 = 1.5;
+/// How far beyond the data area marks are still drawn (a dot on the edge stays whole); less
+/// than [`AXIS_OFFSET_MM`], so no mark reaches an axis.
+pub const CLIP_GRACE_MM: f64 = 0.8;
 /// Clear space between panels side by side (besides the next panel's y ticks) and between rows.
 pub const PANEL_GAP_MM: f64 = 3.0;
 pub const AXIS_WIDTH_MM: f64 = 0.2;

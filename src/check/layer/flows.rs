@@ -52,11 +52,9 @@ fn read(input: &ReadInput, diags: &mut Vec<Diagnostic>) -> Option<(Layer, Traits
 
 /// Stacked bars of states and ribbons of moves.
 pub fn key(_opts: &FlowsOpts, ctx: &KeyContext) -> Option<MarkKey> {
+    let subjects = ctx.subjects();
     Some(MarkKey::new(
-        "Bars and ribbons",
-        format!(
-            "each {} in a state, and moving between states from one occasion to the next",
-            ctx.subject()
-        ),
+        "Bars",
+        format!("{subjects} in each state; ribbons: {subjects} moving between states from one occasion to the next"),
     ))
 }

@@ -44,6 +44,57 @@ impl KeyContext<'_> {
     pub fn subject(&self) -> &str {
         self.subject.unwrap_or("subject")
     }
+
+    /// The subjects: "participants".
+    pub fn subjects(&self) -> String {
+        plural(self.subject())
+    }
+}
+
+/// The plural of an English count noun: the regular endings, and the irregular nouns that
+/// name observational units most often (leaves, children, mice, people, ...).
+pub fn plural(noun: &str) -> String {
+    const IRREGULAR: &[(&str, &str)] = &[
+        ("child", "children"),
+        ("person", "people"),
+        ("mouse", "mice"),
+        ("man", "men"),
+        ("woman", "women"),
+        ("tooth", "teeth"),
+        ("foot", "feet"),
+        ("goose", "geese"),
+        ("leaf", "leaves"),
+        ("calf", "calves"),
+        ("wolf", "wolves"),
+        ("fish", "fish"),
+        ("sheep", "sheep"),
+        ("deer", "deer"),
+        ("series", "series"),
+        ("species", "species"),
+    ];
+    let (head, last) = match noun.rsplit_once(' ') {
+        Some((head, last)) => (format!("{head} "), last),
+        None => (String::new(), noun),
+    };
+    if let Some((_, p)) = IRREGULAR.iter().find(|(s, _)| *s == last) {
+        return format!("{head}{p}");
+    }
+    let vowel_before_y = last
+        .chars()
+        .rev()
+        .nth(1)
+        .is_some_and(|c| "aeiou".contains(c));
+    let word = if ["s", "x", "z", "ch", "sh"]
+        .iter()
+        .any(|e| last.ends_with(e))
+    {
+        format!("{last}es")
+    } else if last.ends_with('y') && !vowel_before_y {
+        format!("{}ies", &last[..last.len() - 1])
+    } else {
+        format!("{last}s")
+    };
+    format!("{head}{word}")
 }
 
 /// A coverage level as a percentage: 0.95 → "95%", 0.975 → "97.5%".
@@ -85,6 +136,22 @@ pub fn bandwidth(b: Bandwidth) -> String {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn nouns_take_their_plurals() {
+        // English plurals (common practice).
+        for (one, many) in [
+            ("participant", "participants"),
+            ("tray", "trays"),
+            ("leaf", "leaves"),
+            ("fly", "flies"),
+            ("box", "boxes"),
+            ("child", "children"),
+            ("test plot", "test plots"),
+        ] {
+            assert_eq!(plural(one), many);
+        }
+    }
 
     #[test]
     fn levels_read_as_percentages() {
