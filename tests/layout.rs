@@ -194,7 +194,7 @@ fn the_within_subject_mean_and_the_n_under_it_agree() {
         .data
         .key
         .iter()
-        .any(|k| k.starts_with("n: number of participants with a value at every level")));
+        .any(|k| k.starts_with("n: participants with a value at every level")));
 }
 
 #[test]

@@ -3,8 +3,9 @@
 //! (the subject, the trials collapsed per value).
 //!
 //! Example: "Dots: each participant's mean of 6 trials. Boxes: median and quartiles, whiskers
-//! to 1.5 IQR. Large dots: mean, 95% CI (within-subject, Cousineau–Morey). n: one per
-//! participant with a value at every level (the mean uses only these)."
+//! to 1.5 IQR. Large dots: mean, 95% CI (within-subject, Cousineau–Morey). n: participants
+//! with a value at every level, the only ones the mean uses." Plain dots need no sentence:
+//! they are the values.
 
 use crate::check::layer::key::plural;
 use crate::check::layer::{KeyContext, Layer, MarkKey, Shows};
@@ -25,20 +26,16 @@ pub fn key(cells: &Cells, n_source: Option<usize>) -> Vec<String> {
     let keys: Vec<Option<MarkKey>> = plan.layers.iter().map(|l| l.layer.key(&ctx)).collect();
     let trials = averaged(cells, ctx.subject());
     let mut out: Vec<String> = Vec::new();
-    for (layer, key) in plan.layers.iter().zip(&keys) {
-        let Some(key) = key else { continue };
-        let meaning = match (&layer.layer, &trials) {
-            (Layer::Points(_), Some(t)) => t.clone(),
-            _ => key.meaning.clone(),
-        };
-        let sentence = format!("{}: {meaning}.", key.marks);
-        if !out.contains(&sentence) {
-            out.push(sentence);
+    if let Some(t) = &trials {
+        let marks = if ctx.shows_points { "Dots" } else { "Values" };
+        if plan.layers.iter().any(|l| l.decl.shows != Shows::Counts) {
+            out.push(format!("{marks}: {t}."));
         }
     }
-    if let (Some(t), false) = (&trials, ctx.shows_points) {
-        if plan.layers.iter().any(|l| l.decl.shows != Shows::Counts) {
-            out.push(format!("Values: {t}."));
+    for key in keys.iter().flatten() {
+        let sentence = format!("{}: {}.", key.marks, key.meaning);
+        if !out.contains(&sentence) {
+            out.push(sentence);
         }
     }
     if let Some(i) = n_source {
@@ -78,15 +75,15 @@ fn n_counts(cells: &Cells, source: usize, complete: bool, subject: &str) -> Stri
     let layer = &cells.plan.layers[source];
     let subjects = plural(subject);
     if complete {
-        format!("number of {subjects} with a value at every level, the only ones the mean uses")
+        format!("{subjects} with a value at every level, the only ones the mean uses")
     } else if matches!(layer.layer, Layer::Flows(_)) {
-        format!("number of {subjects} with a state at the occasion")
+        format!("{subjects} with a state at the occasion")
     } else if layer.decl.shows == Shows::Counts {
-        "number of rows counted".to_string()
+        "rows counted".to_string()
     } else if one_value_per_subject(cells) {
-        format!("number of {subjects}")
+        subjects
     } else {
-        "number of values".to_string()
+        "values".to_string()
     }
 }
 

@@ -783,9 +783,10 @@ fn crowded_n_row(n_by_x: &[Vec<usize>], panel_w: f64) -> NRow {
     }
 }
 
-/// A length for messages: "24.5 mm".
+/// A length for messages: "24.5 mm" (rounded down, so a length just short of a limit never
+/// reads as the limit).
 pub fn mm(v: f64) -> String {
-    format!("{:.1} mm", v)
+    format!("{:.1} mm", (v * 10.0).floor() / 10.0)
 }
 
 fn plural(n: usize, noun: &str) -> String {

@@ -37,8 +37,8 @@ pub const DATA_COLOUR: Colour = Colour::from_hex(0x0072B2);
 /// Smallest text layout may set.
 pub const MIN_TEXT_PT: f64 = 6.0;
 /// Narrowest and shortest data area of a panel.
-pub const MIN_PANEL_WIDTH_MM: f64 = 15.0;
-pub const MIN_PANEL_HEIGHT_MM: f64 = 12.0;
+pub const MIN_PANEL_WIDTH_MM: f64 = 12.0;
+pub const MIN_PANEL_HEIGHT_MM: f64 = 10.0;
 /// Most lines a category label, a panel label or a legend label may wrap onto.
 pub const MAX_LABEL_LINES: usize = 2;
 

@@ -37,7 +37,8 @@ fn read(input: &ReadInput, diags: &mut Vec<Diagnostic>) -> Option<(Layer, Traits
     Some((Layer::Points(PointsOpts { jitter }), traits))
 }
 
-/// Dots are the values themselves (the figure's key adds how trials were averaged).
+/// Dots are the values themselves: nothing to explain (the figure's key says how trials were
+/// averaged, when they were).
 pub fn key(_opts: &PointsOpts, _ctx: &KeyContext) -> Option<MarkKey> {
-    Some(MarkKey::new("Dots", "individual values"))
+    None
 }
