@@ -11,8 +11,6 @@ use crate::check::SIZE_LIMITS_MM;
 use crate::compute::FigureData;
 use crate::diag::{Code, Diagnostic};
 
-use super::solve::Problem;
-
 /// What does not fit a figure's size, and the smallest size that would hold it.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Crowding {
@@ -21,19 +19,29 @@ pub struct Crowding {
     /// The smallest size (width, height in mm) at which everything fits; `None` when even the
     /// largest size does not.
     pub smallest: Option<(f64, f64)>,
+    /// The number of columns the grid takes at that size (the crowded figure is drawn so).
+    pub(super) cols: Option<usize>,
 }
 
 impl Crowding {
-    pub(super) fn new(plan: &FigurePlan, data: &FigureData, problems: &[Problem]) -> Crowding {
+    /// What does not fit `plan`'s size. The problems are those of the grid the figure takes at
+    /// the smallest size that fits (its number of columns), so the message describes the
+    /// arrangement the user will get by growing the figure.
+    pub(super) fn new(plan: &FigurePlan, data: &FigureData) -> Crowding {
+        let size = (plan.width_mm, plan.height_mm);
+        let smallest = smallest_size(plan, data);
+        let cols = smallest.map(|s| super::page_at(plan, data, s, None).grid.cols);
+        let problems = super::page_at(plan, data, size, cols).problems;
         let mut words: Vec<String> = Vec::new();
         for p in problems {
             if !words.contains(&p.what) {
-                words.push(p.what.clone());
+                words.push(p.what);
             }
         }
         Crowding {
             problems: words,
-            smallest: smallest_size(plan, data),
+            smallest,
+            cols,
         }
     }
 
@@ -82,7 +90,7 @@ fn whole(v: f64) -> String {
 
 /// The smallest size, in whole millimetres, at which the figure's content fits.
 fn smallest_size(plan: &FigurePlan, data: &FigureData) -> Option<(f64, f64)> {
-    let fits = |w: f64, h: f64| super::fits(plan, data, (w, h)).is_empty();
+    let fits = |w: f64, h: f64| super::page_at(plan, data, (w, h), None).problems.is_empty();
     let (w0, h0) = (plan.width_mm.ceil(), plan.height_mm.ceil());
     let most = SIZE_LIMITS_MM.1;
     let top = (most / w0).min(most / h0);

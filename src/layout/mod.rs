@@ -136,7 +136,7 @@ pub struct Laid {
 pub fn layout(plan: &FigurePlan, data: &FigureData) -> Laid {
     let size = (plan.width_mm, plan.height_mm);
     if data.legend.is_some() {
-        let inside = solve::solve(plan, data, size, LegendSpace::Inside);
+        let inside = solve::solve(plan, data, size, LegendSpace::Inside, None);
         if inside.problems.is_empty() {
             if let Some(scene) = draw(plan, data, &inside, LegendAt::Corner) {
                 return Laid {
@@ -146,15 +146,24 @@ pub fn layout(plan: &FigurePlan, data: &FigureData) -> Laid {
             }
         }
     }
-    let page = solve::solve(plan, data, size, LegendSpace::Top);
+    let mut page = solve::solve(plan, data, size, LegendSpace::Top, None);
+    let crowding = (!page.problems.is_empty()).then(|| Crowding::new(plan, data));
+    if let Some(cols) = crowding.as_ref().and_then(|c| c.cols) {
+        // Crowded: drawn with the grid it would have at the size that fits.
+        page = solve::solve(plan, data, size, LegendSpace::Top, Some(cols));
+    }
     let scene = draw(plan, data, &page, LegendAt::Top).expect("a legend on top is always placed");
-    let crowding = (!page.problems.is_empty()).then(|| Crowding::new(plan, data, &page.problems));
     Laid { scene, crowding }
 }
 
-/// Whether the page's content fits at `size` (the legend on top).
-pub(crate) fn fits(plan: &FigurePlan, data: &FigureData, size: (f64, f64)) -> Vec<solve::Problem> {
-    solve::solve(plan, data, size, LegendSpace::Top).problems
+/// The page at `size` with the legend on top, its grid held at `cols` columns if given.
+pub(crate) fn page_at(
+    plan: &FigurePlan,
+    data: &FigureData,
+    size: (f64, f64),
+    cols: Option<usize>,
+) -> Page {
+    solve::solve(plan, data, size, LegendSpace::Top, cols)
 }
 
 /// Where the legend goes.

@@ -158,14 +158,18 @@ struct Content<'a> {
     width: f64,
     height: f64,
     legend: LegendSpace,
+    /// A number of columns to keep, instead of the best one.
+    cols: Option<usize>,
 }
 
-/// Lays out the page at `width` × `height` mm.
+/// Lays out the page at `width` × `height` mm; `cols` holds the grid at that many columns
+/// (how a crowded figure is described: with the grid it would have at the size that fits).
 pub fn solve(
     plan: &FigurePlan,
     data: &FigureData,
     (width, height): (f64, f64),
     legend: LegendSpace,
+    cols: Option<usize>,
 ) -> Page {
     let content = Content {
         plan,
@@ -173,6 +177,7 @@ pub fn solve(
         width,
         height,
         legend,
+        cols,
     };
     content.page()
 }
@@ -351,6 +356,9 @@ impl Content<'_> {
         let mut best: Option<(Grid, Vec<Problem>, f64)> = None;
         for cols in 1..=n {
             let rows = n.div_ceil(cols);
+            if self.cols.is_some_and(|c| c != cols) {
+                continue;
+            }
             if cols > 1 && (cols - 1) * rows >= n {
                 // The same number of rows with fewer columns: one column would stay empty.
                 continue;
