@@ -10,11 +10,13 @@ use std::fmt::Write as _;
 use std::path::Path;
 
 use figura::check::plan::FigurePlan;
+use figura::colour::difference::ciede2000;
 use figura::colour::ordered;
+use figura::colour::space::{Lab, Oklab};
 use figura::compute::{FigureData, StatValue};
 use figura::diag::Code;
 use figura::layout::Laid;
-use figura::scene::Scene;
+use figura::scene::{Mark, Scene};
 
 /// One figure, computed and laid out.
 struct Made {
@@ -374,12 +376,66 @@ figure filtered {
         colours("filtered"),
         ordered::sequential(4).unwrap()[1..].to_vec()
     );
+    // Along the levels, OKLab lightness falls and the CIEDE2000 difference from the first
+    // level grows (Ottosson 2020; Sharma, Wu & Dalal 2005), as the ordered palettes promise.
+    let levels = colours("by_rating");
+    let lightness: Vec<f64> = levels.iter().map(|c| Oklab::from_colour(*c).l).collect();
+    assert!(lightness.windows(2).all(|w| w[1] < w[0]), "{lightness:?}");
+    let first = Lab::from_colour(levels[0]);
+    let from_first: Vec<f64> = levels
+        .iter()
+        .map(|c| ciede2000(first, Lab::from_colour(*c)))
+        .collect();
+    assert!(from_first.windows(2).all(|w| w[1] > w[0]), "{from_first:?}");
     // The marks are drawn in those colours.
     let m = made.iter().find(|m| m.plan.name == "by_rating").unwrap();
     let drawn = figura::svg::to_svg(&m.laid.scene).unwrap();
     for c in ordered::sequential(4).unwrap() {
         assert!(drawn.contains(&c.to_string()), "{c} is not drawn");
     }
+}
+
+/// The marks drawn inside the panels (the clipped groups).
+fn data_marks(scene: &Scene) -> Vec<&Mark> {
+    scene
+        .marks
+        .iter()
+        .filter_map(|m| match m {
+            Mark::Clip { marks, .. } => Some(marks),
+            _ => None,
+        })
+        .flatten()
+        .collect()
+}
+
+#[test]
+fn overlapping_groups_never_mix_colours_and_many_bins_stay_solid() {
+    let made = make_all(&common::examples());
+    // Histograms and densities of several colour groups overlap: outlines only, no fill.
+    for name in ["temperature_spread", "response_density"] {
+        let m = made.iter().find(|m| m.plan.name == name).unwrap();
+        let marks = data_marks(&m.laid.scene);
+        assert!(!marks.is_empty());
+        assert!(
+            marks.iter().all(|m| matches!(m, Mark::Line { .. })),
+            "{name} fills an area that groups share"
+        );
+    }
+    // 400 bins of one group: one filled shape, and no white line between bins narrower
+    // than a millimetre.
+    let set = stress_set();
+    let made = make_all(set.path());
+    let m = made.iter().find(|m| m.plan.name == "many_bins").unwrap();
+    let marks = data_marks(&m.laid.scene);
+    let filled = marks
+        .iter()
+        .filter(|m| matches!(m, Mark::Polygon { fill: Some(_), .. }))
+        .count();
+    assert_eq!(filled, 1);
+    assert!(marks.iter().all(|m| match m {
+        Mark::Line { stroke, .. } => stroke.colour != figura::scene::Colour::WHITE,
+        _ => true,
+    }));
 }
 
 #[test]
