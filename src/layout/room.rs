@@ -44,19 +44,24 @@ fn blocks(mark: &Mark, r: &Rect) -> bool {
             2.0 * radius,
         )),
         Mark::Polygon { points, .. } => shape_hits(points, r),
-        Mark::Path { segments, .. } => shape_hits(&path_points(segments), r),
+        Mark::Path { segments, .. } => sub_paths(segments).iter().any(|p| shape_hits(p, r)),
         Mark::Text(t) => r.overlaps(&t.bbox()),
         Mark::Clip { marks, .. } => marks.iter().any(|m| blocks(m, r)),
     }
 }
 
-/// The points of a path with every control point (its hull holds the curve).
-fn path_points(segments: &[PathSegment]) -> Vec<Point> {
-    let mut out = Vec::new();
+/// The points of each sub-path of a path, with every control point (their hull holds the
+/// curve).
+fn sub_paths(segments: &[PathSegment]) -> Vec<Vec<Point>> {
+    let mut out: Vec<Vec<Point>> = Vec::new();
     for s in segments {
         match s {
-            PathSegment::MoveTo(p) | PathSegment::LineTo(p) => out.push(*p),
-            PathSegment::CubicTo { c1, c2, to } => out.extend([*c1, *c2, *to]),
+            PathSegment::MoveTo(p) => out.push(vec![*p]),
+            PathSegment::LineTo(p) => out.last_mut().into_iter().for_each(|v| v.push(*p)),
+            PathSegment::CubicTo { c1, c2, to } => out
+                .last_mut()
+                .into_iter()
+                .for_each(|v| v.extend([*c1, *c2, *to])),
             PathSegment::Close => {}
         }
     }
@@ -148,6 +153,28 @@ mod tests {
         let r = free_corner(panel, (10.0, 5.0), &[dot(45.0, 3.0)]).unwrap();
         assert!(r.x < 5.0 && r.y < 5.0);
         assert!(free_corner(panel, (60.0, 5.0), &[]).is_none());
+    }
+
+    #[test]
+    fn the_sub_paths_of_a_path_block_apart() {
+        let panel = Rect::new(0.0, 0.0, 50.0, 40.0);
+        // Two squares far apart, bottom left and top right: the top left stays free.
+        let square = |x: f64, y: f64| {
+            [
+                PathSegment::MoveTo(Point::new(x, y)),
+                PathSegment::LineTo(Point::new(x + 2.0, y)),
+                PathSegment::LineTo(Point::new(x + 2.0, y + 2.0)),
+                PathSegment::LineTo(Point::new(x, y + 2.0)),
+                PathSegment::Close,
+            ]
+        };
+        let path = Mark::Path {
+            segments: square(1.0, 37.0).into_iter().chain(square(47.0, 1.0)).collect(),
+            fill: Some(Fill::solid(Colour::BLACK)),
+            stroke: None,
+        };
+        let r = free_corner(panel, (10.0, 5.0), &[path]).unwrap();
+        assert!(r.x < 5.0 && r.y < 5.0);
     }
 
     #[test]
