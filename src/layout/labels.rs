@@ -144,9 +144,6 @@ pub fn fit_categories(labels: &[String], panel_w: f64, ordered: bool) -> Option<
     Some(set(style, Arrangement::Upright, one_line, shown, longest))
 }
 
-/// Clear space between upright labels side by side.
-const UPRIGHT_GAP_MM: f64 = 0.4;
-
 fn set(
     style: TextStyle,
     arrangement: Arrangement,

@@ -109,7 +109,7 @@ impl<'a> LegendBlock<'a> {
     /// (relative to the legend's top-left) and the total height.
     fn flow(&self, width: f64) -> (Vec<Item>, f64) {
         let lh = Self::line_height();
-        let mut x = text::width(&self.legend.title, &legend_title()) + 2.0 * GAP_MM;
+        let mut x = text::width(&self.legend.title, &legend_title()) + LEGEND_ITEM_GAP_MM;
         let (mut y, mut row_h) = (0.0, text::line_height(&legend_title()).max(lh));
         let mut items = Vec::new();
         for i in 0..self.labels.len() {
@@ -121,7 +121,7 @@ impl<'a> LegendBlock<'a> {
             }
             items.push(Item { x, y });
             row_h = row_h.max(self.item_height(i));
-            x += w + 3.0 * GAP_MM;
+            x += w + LEGEND_ITEM_GAP_MM;
         }
         (items, y + row_h)
     }

@@ -273,13 +273,13 @@ fn draw(plan: &FigurePlan, data: &FigureData, page: &Page, legend_at: LegendAt) 
         match legend_at {
             LegendAt::Top => {
                 let inner = page.width - 2.0 * MARGIN_MM;
-                let block = LegendBlock::new(legend, swatch, inner / 2.0);
+                let block = LegendBlock::new(legend, swatch, inner * LEGEND_LABEL_SHARE);
                 let top = page.legend_top.unwrap_or(MARGIN_MM);
                 marks.extend(block.rows_marks(MARGIN_MM, top, inner));
             }
             LegendAt::Corner => {
                 let (rect, drawn) = corner_panel?;
-                let label_w = rect.width / 2.0;
+                let label_w = rect.width * LEGEND_LABEL_SHARE;
                 let block = LegendBlock::new(legend, swatch, label_w);
                 if !block.fits(label_w) {
                     return None;

@@ -169,7 +169,10 @@ mod tests {
             ]
         };
         let path = Mark::Path {
-            segments: square(1.0, 37.0).into_iter().chain(square(47.0, 1.0)).collect(),
+            segments: square(1.0, 37.0)
+                .into_iter()
+                .chain(square(47.0, 1.0))
+                .collect(),
             fill: Some(Fill::solid(Colour::BLACK)),
             stroke: None,
         };

@@ -4,7 +4,7 @@
 //! top, then the y-axis title; the caption, the key and the x-axis title at the bottom; the
 //! y labels' column on the left; the rest is the grid of panels. Every text is measured before
 //! it is placed. The grid tries every number of columns and keeps the one whose panels are
-//! largest (about as wide as 1.3 times their height) among those where everything fits: each
+//! largest (about as wide as [`PANEL_ASPECT`] times their height) among those where everything fits: each
 //! panel at least [`MIN_PANEL_WIDTH_MM`] × [`MIN_PANEL_HEIGHT_MM`], category labels and n rows
 //! set without overlap ([`super::labels`]), tick labels apart, titles and labels wrapped onto
 //! at most [`MAX_LABEL_LINES`] lines with no word wider than its room.
@@ -199,7 +199,7 @@ impl Chrome {
             + self
                 .title
                 .as_ref()
-                .map_or(0.0, |t| t.height() + 1.5 * GAP_MM)
+                .map_or(0.0, |t| t.height() + TITLE_GAP_MM)
             + self.legend_h.map_or(0.0, |h| h + GAP_MM)
             + self
                 .y_title
@@ -230,7 +230,7 @@ impl Content<'_> {
         let mut top = MARGIN_MM;
         let title = chrome.title.map(|t| {
             let placed = Placed { top, text: t };
-            top += placed.text.height() + 1.5 * GAP_MM;
+            top += placed.text.height() + TITLE_GAP_MM;
             placed
         });
         let legend_top = chrome.legend_h.map(|h| {
@@ -287,7 +287,7 @@ impl Content<'_> {
             .map(|t| Paragraph::new(t, title(), inner));
         let legend_h = match (&data.legend, self.legend) {
             (Some(legend), LegendSpace::Top) => {
-                let label_w = inner / 2.0;
+                let label_w = inner * LEGEND_LABEL_SHARE;
                 let block =
                     LegendBlock::new(legend, Swatch::for_panel(data.panels.first()), label_w);
                 if !block.fits(label_w) {
@@ -364,7 +364,7 @@ impl Content<'_> {
                 continue;
             }
             let (grid, problems) = self.grid(cols, rows, top, bottom);
-            let score = grid.room.0.min(1.3 * grid.room.1);
+            let score = grid.room.0.min(PANEL_ASPECT * grid.room.1);
             // A grid that fits beats one that does not; among either, larger panels win.
             let better = match &best {
                 None => true,
@@ -625,7 +625,8 @@ impl Content<'_> {
             YScale::Numbers(s) => {
                 let style = tick_label();
                 let room = text::line_height(&style) + Y_LABEL_GAP_MM;
-                let target = ((panel_h / MM_PER_Y_TICK).floor() as usize + 1).clamp(3, 7);
+                let target =
+                    ((panel_h / MM_PER_Y_TICK).floor() as usize + 1).clamp(Y_TICKS.0, Y_TICKS.1);
                 let fitting = (2..=target)
                     .rev()
                     .map(|t| NumAxisMap::new(s, t))
@@ -691,9 +692,6 @@ pub fn n_swatch_side() -> f64 {
     text::line_height(&n_label()) * SWATCH_SHARE
 }
 
-/// Clear space kept between y tick labels one above the other.
-const Y_LABEL_GAP_MM: f64 = 0.6;
-
 fn x_title_text(data: &FigureData) -> String {
     match &data.x {
         XScale::Categories { title, .. } => title.clone(),
@@ -725,8 +723,8 @@ fn y_labels_width(y: &YAxis) -> f64 {
 /// The x ticks of a panel `panel_w` wide: about one per [`MM_PER_X_TICK`], fewer while their
 /// labels crowd.
 fn x_ticks(scale: &NumScale, panel_w: f64) -> NumAxisMap {
-    let target = ((panel_w / MM_PER_X_TICK).floor() as usize + 1).clamp(2, 7);
-    (2..=target)
+    let target = ((panel_w / MM_PER_X_TICK).floor() as usize + 1).clamp(X_TICKS.0, X_TICKS.1);
+    (X_TICKS.0..=target)
         .rev()
         .map(|t| NumAxisMap::new(scale, t))
         .find(|map| x_labels_apart(map, panel_w))

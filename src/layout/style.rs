@@ -57,10 +57,20 @@ pub const CLIP_GRACE_MM: f64 = 0.8;
 pub const PANEL_GAP_MM: f64 = 3.0;
 pub const AXIS_WIDTH_MM: f64 = 0.2;
 pub const GRID_WIDTH_MM: f64 = 0.15;
-/// Vertical room per y tick the axis aims for.
+/// Vertical room per y tick the axis aims for, and the fewest and most ticks it aims for.
 pub const MM_PER_Y_TICK: f64 = 9.0;
-/// Horizontal room per x tick a numeric x axis aims for.
+pub const Y_TICKS: (usize, usize) = (3, 7);
+/// Horizontal room per x tick a numeric x axis aims for, and the fewest and most ticks.
 pub const MM_PER_X_TICK: f64 = 16.0;
+pub const X_TICKS: (usize, usize) = (2, 7);
+/// Clear space between y labels one above the other, and between upright labels side by side.
+pub const Y_LABEL_GAP_MM: f64 = 0.6;
+pub const UPRIGHT_GAP_MM: f64 = 0.4;
+/// Space under a drawn title.
+pub const TITLE_GAP_MM: f64 = 1.5;
+/// The panels' shape the grid prefers: the score of a grid is the smaller of a panel's width
+/// and this times its height.
+pub const PANEL_ASPECT: f64 = 1.3;
 /// Share of a category's band that its groups use (the rest separates categories).
 pub const BAND_FILL: f64 = 0.8;
 /// Padding added beyond the data at each end of a numeric axis, as a share of its span.
@@ -128,6 +138,10 @@ pub const FLOW_RIBBON_OPACITY: f64 = 0.42;
 /// legend placed inside a panel and the data.
 pub const SWATCH_SHARE: f64 = 0.75;
 pub const LEGEND_CLEARANCE_MM: f64 = 1.0;
+/// A legend label wraps at this share of the room the legend has; items in a row keep this
+/// much apart.
+pub const LEGEND_LABEL_SHARE: f64 = 0.5;
+pub const LEGEND_ITEM_GAP_MM: f64 = 3.0;
 
 fn text(size_pt: f64, weight: Weight, colour: Colour) -> TextStyle {
     TextStyle {
