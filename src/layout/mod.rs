@@ -135,12 +135,15 @@ pub struct Laid {
 /// Lays out a figure at its size.
 pub fn layout(plan: &FigurePlan, data: &FigureData) -> Laid {
     let size = (plan.width_mm, plan.height_mm);
-    if data.legend.is_some() {
+    if let Some(legend) = &data.legend {
         let inside = solve::solve(plan, data, size, LegendSpace::Inside, None);
         if inside.problems.is_empty() {
-            if let Some(scene) = draw(plan, data, &inside, LegendAt::Corner) {
+            let drawn = draw(plan, data, &inside);
+            if let Some(legend_marks) = corner_legend(legend, data, &drawn.corner) {
+                let mut marks = drawn.marks;
+                marks.extend(legend_marks);
                 return Laid {
-                    scene,
+                    scene: scene(plan, &inside, marks),
                     crowding: None,
                 };
             }
@@ -152,8 +155,44 @@ pub fn layout(plan: &FigurePlan, data: &FigureData) -> Laid {
         // Crowded: drawn with the grid it would have at the size that fits.
         page = solve::solve(plan, data, size, LegendSpace::Top, Some(cols));
     }
-    let scene = draw(plan, data, &page, LegendAt::Top).expect("a legend on top is always placed");
-    Laid { scene, crowding }
+    let mut marks = draw(plan, data, &page).marks;
+    if let Some(legend) = &data.legend {
+        let inner = page.width - 2.0 * MARGIN_MM;
+        let swatch = Swatch::for_panel(data.panels.first());
+        let block = LegendBlock::new(legend, swatch, inner * LEGEND_LABEL_SHARE);
+        let top = page.legend_top.unwrap_or(MARGIN_MM);
+        marks.extend(block.rows_marks(MARGIN_MM, top, inner));
+    }
+    Laid {
+        scene: scene(plan, &page, marks),
+        crowding,
+    }
+}
+
+/// The legend as a column in a free corner of the top-right panel, if one is free.
+fn corner_legend(
+    legend: &crate::compute::Legend,
+    data: &FigureData,
+    corner: &Option<(Rect, Vec<Mark>)>,
+) -> Option<Vec<Mark>> {
+    let (rect, drawn) = corner.as_ref()?;
+    let label_w = rect.width * LEGEND_LABEL_SHARE;
+    let block = LegendBlock::new(legend, Swatch::for_panel(data.panels.first()), label_w);
+    if !block.fits(label_w) {
+        return None;
+    }
+    let place = room::free_corner(*rect, block.column_size(), drawn)?;
+    Some(block.column_marks(place))
+}
+
+fn scene(plan: &FigurePlan, page: &Page, marks: Vec<Mark>) -> Scene {
+    Scene {
+        width_mm: page.width,
+        height_mm: page.height,
+        title: plan.title.clone(),
+        description: plan.caption.clone(),
+        marks,
+    }
 }
 
 /// The page at `size` with the legend on top, its grid held at `cols` columns if given.
@@ -166,17 +205,15 @@ pub(crate) fn page_at(
     solve::solve(plan, data, size, LegendSpace::Top, cols)
 }
 
-/// Where the legend goes.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
-enum LegendAt {
-    /// In rows at the page's `legend_top`.
-    Top,
-    /// In a free corner of the top-right panel (the page reserved no room for it).
-    Corner,
+/// A page drawn without its legend, and the data area and marks of the top-right panel (where
+/// a legend may go into a free corner).
+struct Drawn {
+    marks: Vec<Mark>,
+    corner: Option<(Rect, Vec<Mark>)>,
 }
 
-/// Draws a solved page; `None` when the legend should go in a corner and none is free.
-fn draw(plan: &FigurePlan, data: &FigureData, page: &Page, legend_at: LegendAt) -> Option<Scene> {
+/// Draws a solved page, all but the legend.
+fn draw(plan: &FigurePlan, data: &FigureData, page: &Page) -> Drawn {
     let grid = &page.grid;
     let mut marks = vec![Mark::Rect {
         x: 0.0,
@@ -268,32 +305,8 @@ fn draw(plan: &FigurePlan, data: &FigureData, page: &Page, legend_at: LegendAt) 
             frame::n_row(&mut marks, rect, row, top, labelled.then_some(colours));
         }
     }
-    if let Some(legend) = &data.legend {
-        let swatch = Swatch::for_panel(data.panels.first());
-        match legend_at {
-            LegendAt::Top => {
-                let inner = page.width - 2.0 * MARGIN_MM;
-                let block = LegendBlock::new(legend, swatch, inner * LEGEND_LABEL_SHARE);
-                let top = page.legend_top.unwrap_or(MARGIN_MM);
-                marks.extend(block.rows_marks(MARGIN_MM, top, inner));
-            }
-            LegendAt::Corner => {
-                let (rect, drawn) = corner_panel?;
-                let label_w = rect.width * LEGEND_LABEL_SHARE;
-                let block = LegendBlock::new(legend, swatch, label_w);
-                if !block.fits(label_w) {
-                    return None;
-                }
-                let place = room::free_corner(rect, block.column_size(), &drawn)?;
-                marks.extend(block.column_marks(place));
-            }
-        }
-    }
-    Some(Scene {
-        width_mm: page.width,
-        height_mm: page.height,
-        title: plan.title.clone(),
-        description: plan.caption.clone(),
+    Drawn {
         marks,
-    })
+        corner: corner_panel,
+    }
 }

@@ -108,6 +108,8 @@ pub struct Grid {
     pub n_rows: Vec<NRow>,
     /// Each panel's label, wrapped.
     pub panel_labels: Vec<Vec<String>>,
+    /// The width the y labels' column was given.
+    pub y_labels_w: f64,
 }
 
 impl Grid {
@@ -312,8 +314,7 @@ impl Content<'_> {
             ("the y-axis title", y_title.as_ref()),
             ("the x-axis title", Some(&x_title)),
         ] {
-            if let Some(p) = p.filter(|p| p.lines.len() > MAX_LABEL_LINES || !p.fits(inner)) {
-                let _ = p;
+            if p.is_some_and(|p| p.lines.len() > MAX_LABEL_LINES || !p.fits(inner)) {
                 problems.push(problem(
                     Needs::Width,
                     format!("{what} needs more than {MAX_LABEL_LINES} lines"),
@@ -374,30 +375,28 @@ impl Content<'_> {
                 best = Some((grid, problems, score));
             }
         }
-        let (grid, problems, _) = best.expect("at least one column is tried");
-        (grid, problems)
+        match best {
+            Some((grid, problems, _)) => (grid, problems),
+            // Every count of columns was passed over (a held count that does not fit the
+            // panels): one column always does.
+            None => self.grid(1, n, top, bottom),
+        }
     }
 
     /// The grid with `cols` columns and `rows` rows between `top` and `bottom`.
     fn grid(&self, cols: usize, rows: usize, top: f64, bottom: f64) -> (Grid, Vec<Problem>) {
-        let mut problems = Vec::new();
         // The y labels' width depends on the ticks, which depend on the panels' height, which
         // depends on the labels under the x axis, which depend on the panels' width: settle
         // it in a few rounds.
-        let mut y_labels_w = 0.0;
-        let mut grid = None;
-        for _ in 0..3 {
-            let (g, p) = self.grid_with(cols, rows, top, bottom, y_labels_w);
-            let w = y_labels_width(&g.y);
-            let settled = (w - y_labels_w).abs() < 1e-9;
-            y_labels_w = w;
-            grid = Some(g);
-            problems = p;
-            if settled {
+        let (mut grid, mut problems) = self.grid_with(cols, rows, top, bottom, 0.0);
+        for _ in 0..2 {
+            let w = y_labels_width(&grid.y);
+            if (w - grid.y_labels_w).abs() < 1e-9 {
                 break;
             }
+            (grid, problems) = self.grid_with(cols, rows, top, bottom, w);
         }
-        (grid.expect("one round at least"), problems)
+        (grid, problems)
     }
 
     fn grid_with(
@@ -473,8 +472,9 @@ impl Content<'_> {
         }
         let raw_w = panel_w;
         let panel_w = panel_w.max(1.0);
-        let (x, labels_h) = match (&data.x, x_map) {
-            (XScale::Numbers(s), Some(map)) => {
+        let (x, labels_h) = match &data.x {
+            XScale::Numbers(s) => {
+                let map = x_map.unwrap_or_else(|| x_ticks(s, panel_w));
                 if !x_labels_apart(&map, panel_w) {
                     problems.push(problem(
                         Needs::Width,
@@ -493,7 +493,7 @@ impl Content<'_> {
                     h,
                 )
             }
-            (XScale::Categories { levels, title }, _) => {
+            XScale::Categories { levels, title } => {
                 let ordered = matches!(&self.plan.axes,
                     Axes::Cat { x } | Axes::CatNum { x, .. } | Axes::CatCat { x, .. } if x.var.ordered);
                 let fitted = labels::fit_categories(&levels.labels, panel_w, ordered);
@@ -511,7 +511,6 @@ impl Content<'_> {
                 let h = cats.height;
                 (XAxis::Categories(cats), h)
             }
-            (XScale::Numbers(_), None) => unreachable!("a numeric x always has its ticks"),
         };
         let n_rows: Vec<NRow> = if shows_n {
             data.panels
@@ -584,6 +583,7 @@ impl Content<'_> {
             x,
             n_rows,
             panel_labels,
+            y_labels_w,
         };
         (grid, problems)
     }
