@@ -14,7 +14,9 @@ use crate::check::plan::{Axes, Collapse};
 use super::cells::{repeated_subject, Cells, Placed};
 
 /// The key's sentences, in the order of the layers, each ending in a full stop.
-pub fn key(cells: &Cells, n_source: Option<usize>) -> Vec<String> {
+/// `groups_differ`: the colour groups of some category have different n (the n row then
+/// gives each group's).
+pub fn key(cells: &Cells, n_source: Option<usize>, groups_differ: bool) -> Vec<String> {
     let plan = cells.plan;
     let book = cells.book;
     let subject = book.subject.map(|s| words(&book.var(s).name));
@@ -40,10 +42,10 @@ pub fn key(cells: &Cells, n_source: Option<usize>) -> Vec<String> {
     }
     if let Some(i) = n_source {
         let complete = keys[i].as_ref().is_some_and(|k| k.complete_subjects);
-        let per_group = if plan.colour.is_some() {
-            " in each colour group"
-        } else {
-            ""
+        let per_group = match (&plan.colour, groups_differ) {
+            (Some(_), true) => " in each colour group, in the legend's order",
+            (Some(_), false) => " in each colour group",
+            (None, _) => "",
         };
         out.push(format!(
             "n: {}{per_group}.",

@@ -184,6 +184,15 @@ pub fn compute(
             coloured(Legend::new(var.title(), cells.groups.clone()), var)
         }),
     };
+    let groups_differ = panels
+        .iter()
+        .flat_map(|p| &p.n_by_x)
+        .any(|n| n.windows(2).any(|w| w[0] != w[1]));
+    let key = if plan.key {
+        key::key(&cells, n_source, groups_differ)
+    } else {
+        Vec::new()
+    };
     Ok(FigureData {
         x: x_scale(&cells, &merged),
         y: y_scale(&cells, &merged),
@@ -191,11 +200,7 @@ pub fn compute(
         panels,
         summary,
         width_peak: merged.width_peak,
-        key: if plan.key {
-            key::key(&cells, n_source)
-        } else {
-            Vec::new()
-        },
+        key,
         warnings: many_points(&cells),
     })
 }

@@ -161,7 +161,8 @@ fn set(
 }
 
 /// The n under a panel's categories, as set: one number per category on one line (staggered
-/// over two when they crowd) when the colour groups agree, else one line per colour group.
+/// over two when they crowd) when the colour groups agree; else the groups' numbers joined
+/// (`24/23`, in the legend's order) when that fits one line, else one line per colour group.
 #[derive(Debug, Clone)]
 pub struct NRow {
     pub items: Vec<NItem>,
@@ -186,8 +187,9 @@ pub fn groups_agree(n_by_x: &[Vec<usize>]) -> bool {
 }
 
 /// Sets the n row of one panel `panel_w` wide; `None` when the numbers crowd even staggered
-/// (or, one line per group, when a group's numbers crowd).
-pub fn fit_n_row(n_by_x: &[Vec<usize>], panel_w: f64) -> Option<NRow> {
+/// (or, one line per group, when a group's numbers crowd). Colour groups whose n differ get a
+/// line each, or with `compact` their numbers joined under each category when that fits.
+pub fn fit_n_row(n_by_x: &[Vec<usize>], panel_w: f64, compact: bool) -> Option<NRow> {
     let style = n_label();
     let lh = text::line_height(&style);
     let n = n_by_x.len();
@@ -217,6 +219,29 @@ pub fn fit_n_row(n_by_x: &[Vec<usize>], panel_w: f64) -> Option<NRow> {
             lines: rows,
             per_group: false,
             height: rows as f64 * lh,
+        });
+    }
+    // The groups' numbers joined under each category ("24/23"), in the legend's order, when
+    // asked and they fit one row; else a line per group, headed by the group's colour.
+    let joined: Vec<String> = n_by_x
+        .iter()
+        .map(|c| c.iter().map(usize::to_string).collect::<Vec<_>>().join("/"))
+        .collect();
+    if compact && fits(&joined, 1) {
+        let items = joined
+            .into_iter()
+            .enumerate()
+            .map(|(x, text)| NItem {
+                centre: centres[x],
+                text,
+                line: 0,
+            })
+            .collect();
+        return Some(NRow {
+            items,
+            lines: 1,
+            per_group: false,
+            height: lh,
         });
     }
     let groups = n_by_x.first().map_or(0, Vec::len);
@@ -283,18 +308,24 @@ mod tests {
 
     #[test]
     fn wide_numbers_stagger() {
-        let row = fit_n_row(&vec![vec![2046]; 10], 40.0).unwrap();
+        let row = fit_n_row(&vec![vec![2046]; 10], 40.0, false).unwrap();
         assert_eq!(row.lines, 2);
-        assert!(fit_n_row(&vec![vec![2046]; 40], 40.0).is_none());
+        assert!(fit_n_row(&vec![vec![2046]; 40], 40.0, false).is_none());
     }
 
     #[test]
-    fn groups_that_differ_get_a_line_each() {
-        let row = fit_n_row(&[vec![24, 23], vec![24, 24]], 60.0).unwrap();
+    fn groups_that_differ_are_joined_or_get_a_line_each() {
+        let n = [vec![24, 23], vec![24, 24]];
+        let joined = fit_n_row(&n, 60.0, true).unwrap();
+        assert!(!joined.per_group);
+        assert_eq!(joined.items[0].text, "24/23");
+        assert!(fit_n_row(&n, 60.0, false).unwrap().per_group);
+        let n = vec![vec![2046, 2047, 2048]; 6];
+        let row = fit_n_row(&n, 60.0, true).unwrap();
         assert!(row.per_group);
-        assert_eq!(row.lines, 2);
-        assert_eq!(row.items.len(), 4);
-        let same = fit_n_row(&[vec![24, 24], vec![23, 23]], 60.0).unwrap();
+        assert_eq!(row.lines, 3);
+        assert_eq!(row.items.len(), 18);
+        let same = fit_n_row(&[vec![24, 24], vec![23, 23]], 60.0, false).unwrap();
         assert!(!same.per_group && same.items.len() == 2);
     }
 }

@@ -512,36 +512,34 @@ impl Content<'_> {
                 (XAxis::Categories(cats), h)
             }
         };
-        let n_rows: Vec<NRow> = if shows_n {
-            data.panels
-                .iter()
-                .map(|p| {
-                    labels::fit_n_row(&p.n_by_x, panel_w).unwrap_or_else(|| {
-                        problems.push(problem(
-                            Needs::Width,
-                            format!("the n row does not fit under a panel {} wide", mm(panel_w)),
-                        ));
-                        crowded_n_row(&p.n_by_x, panel_w)
-                    })
-                })
-                .collect()
-        } else {
-            Vec::new()
-        };
-        let n_h = n_rows.iter().map(|r| r.height).fold(0.0, f64::max);
         let (panel_labels, strip_h) = self.panel_labels(panel_w, &mut problems);
         let head_room = if strip_h == 0.0 && y_shown {
             text::line_height(&tick_label()) / 2.0
         } else {
             0.0
         };
-        let below_h = AXIS_OFFSET_MM
-            + TICK_MM
-            + GAP_MM
-            + labels_h
-            + if n_h > 0.0 { GAP_MM / 2.0 + n_h } else { 0.0 };
         let avail = bottom - top - (rows - 1) as f64 * PANEL_GAP_MM;
-        let panel_h = avail / rows as f64 - strip_h - head_room - below_h;
+        let panel_height = |n_rows: &[NRow]| {
+            let n_h = n_rows.iter().map(|r| r.height).fold(0.0, f64::max);
+            let below_h = AXIS_OFFSET_MM
+                + TICK_MM
+                + GAP_MM
+                + labels_h
+                + if n_h > 0.0 { GAP_MM / 2.0 + n_h } else { 0.0 };
+            (avail / rows as f64 - strip_h - head_room - below_h, below_h)
+        };
+        // Colour groups' n on lines of their own, unless the panels then come out too short:
+        // then joined under each category.
+        let mut n_rows = self.n_rows(panel_w, false, &mut problems);
+        let (mut panel_h, mut below_h) = panel_height(&n_rows);
+        if panel_h < MIN_PANEL_HEIGHT_MM && n_rows.iter().any(|r| r.per_group) {
+            let mut compact_problems = Vec::new();
+            let compact = self.n_rows(panel_w, true, &mut compact_problems);
+            if compact_problems.is_empty() {
+                n_rows = compact;
+                (panel_h, below_h) = panel_height(&n_rows);
+            }
+        }
         let too_short = panel_h < MIN_PANEL_HEIGHT_MM;
         if too_short {
             let what = if rows == 1 && cols == 1 {
@@ -588,6 +586,27 @@ impl Content<'_> {
         (grid, problems)
     }
 
+    /// The n row of each panel (none when no n is shown); `compact` joins the colour groups'
+    /// numbers under each category rather than giving each group a line.
+    fn n_rows(&self, panel_w: f64, compact: bool, problems: &mut Vec<Problem>) -> Vec<NRow> {
+        if self.data.panels.iter().all(|p| p.n_by_x.is_empty()) {
+            return Vec::new();
+        }
+        self.data
+            .panels
+            .iter()
+            .map(|p| {
+                labels::fit_n_row(&p.n_by_x, panel_w, compact).unwrap_or_else(|| {
+                    problems.push(problem(
+                        Needs::Width,
+                        format!("the n row does not fit under a panel {} wide", mm(panel_w)),
+                    ));
+                    crowded_n_row(&p.n_by_x, panel_w)
+                })
+            })
+            .collect()
+    }
+
     /// Each panel's label wrapped to the panel's width, and the height of the strip they take.
     fn panel_labels(&self, panel_w: f64, problems: &mut Vec<Problem>) -> (Vec<Vec<String>>, f64) {
         if self.plan.panels.is_none() {
@@ -627,10 +646,15 @@ impl Content<'_> {
                 let room = text::line_height(&style) + Y_LABEL_GAP_MM;
                 let target =
                     ((panel_h / MM_PER_Y_TICK).floor() as usize + 1).clamp(Y_TICKS.0, Y_TICKS.1);
-                let fitting = (2..=target)
-                    .rev()
-                    .map(|t| NumAxisMap::new(s, t))
-                    .find(|map| tick_spacing(map, panel_h) >= room);
+                // Labels a little apart, else touching (never overlapping).
+                let fitting = [room, text::line_height(&style)]
+                    .into_iter()
+                    .find_map(|room| {
+                        (2..=target)
+                            .rev()
+                            .map(|t| NumAxisMap::new(s, t))
+                            .find(|map| tick_spacing(map, panel_h) >= room)
+                    });
                 let map = fitting.unwrap_or_else(|| {
                     problems.push(problem(
                         Needs::Height,
