@@ -63,6 +63,10 @@ struct CommonArgs {
     /// Treat warnings as errors (exit 1).
     #[arg(long)]
     deny_warnings: bool,
+    /// Build a figure whose content does not fit its size anyway, crowded, with a warning
+    /// (W0003) instead of an error (F0124).
+    #[arg(long)]
+    allow_crowding: bool,
     /// How diagnostics are printed.
     #[arg(long, value_enum, default_value = "human")]
     message_format: Format,
@@ -285,6 +289,7 @@ fn run_build(args: &BuildArgs) -> Result<i32, Exit> {
     let options = BuildOptions {
         force: args.force,
         jobs: args.jobs.jobs,
+        allow_crowding: common.allow_crowding,
         ..target.options(mode)
     };
     let started = Instant::now();
@@ -314,7 +319,11 @@ fn run_build(args: &BuildArgs) -> Result<i32, Exit> {
 fn run_check(args: &CommonArgs) -> Result<i32, Exit> {
     let target = resolve_target(&args.paths, None, args.message_format)?;
     let started = Instant::now();
-    let report = run_options(&target.options(Mode::Validate), &build::NoProgress)?;
+    let options = BuildOptions {
+        allow_crowding: args.allow_crowding,
+        ..target.options(Mode::Validate)
+    };
+    let report = run_options(&options, &build::NoProgress)?;
     print::report(&report, args.message_format);
     if args.message_format == Format::Human {
         print::check_line(&report, started.elapsed());

@@ -12,7 +12,9 @@
 //!
 //! [`Scene::validate`] states what a well-formed scene is (finite numbers, positive size,
 //! non-negative widths, opacities in range); the SVG writer refuses scenes that break it
-//! rather than writing a broken file.
+//! rather than writing a broken file. [`Scene::text_boxes`] gives the box every piece of text
+//! occupies on the page, measured with the bundled font, so layout and tests can check that no
+//! text overlaps other text or leaves the page.
 
 use std::fmt;
 
@@ -61,6 +63,51 @@ impl Rect {
             width,
             height,
         }
+    }
+
+    pub fn right(&self) -> f64 {
+        self.x + self.width
+    }
+
+    pub fn bottom(&self) -> f64 {
+        self.y + self.height
+    }
+
+    /// Whether the two rectangles share more than an edge (touching is not overlapping).
+    pub fn overlaps(&self, other: &Rect) -> bool {
+        self.x < other.right()
+            && other.x < self.right()
+            && self.y < other.bottom()
+            && other.y < self.bottom()
+    }
+
+    /// Whether `other` lies inside this rectangle (edges included).
+    pub fn contains(&self, other: &Rect) -> bool {
+        other.x >= self.x
+            && other.y >= self.y
+            && other.right() <= self.right()
+            && other.bottom() <= self.bottom()
+    }
+
+    /// The rectangle grown by `by` on every side (shrunk when negative).
+    pub fn grown(&self, by: f64) -> Rect {
+        Rect::new(
+            self.x - by,
+            self.y - by,
+            (self.width + 2.0 * by).max(0.0),
+            (self.height + 2.0 * by).max(0.0),
+        )
+    }
+
+    /// The smallest rectangle holding both.
+    pub fn union(&self, other: &Rect) -> Rect {
+        let (x, y) = (self.x.min(other.x), self.y.min(other.y));
+        Rect::new(
+            x,
+            y,
+            self.right().max(other.right()) - x,
+            self.bottom().max(other.bottom()) - y,
+        )
     }
 }
 
@@ -228,6 +275,46 @@ pub struct TextMark {
     pub rotation: TextRotation,
 }
 
+impl TextMark {
+    /// The box the text occupies on the page: its advance width along the reading direction,
+    /// and the font's ascent and descent across it, measured with the bundled font exactly as
+    /// the SVG writer places the text. Empty text has an empty box at its anchor.
+    pub fn bbox(&self) -> Rect {
+        let extent = crate::font::measure(&self.text, &self.style);
+        let (w, ascent, descent) = (extent.width_mm, extent.ascent_mm, extent.descent_mm);
+        // Along the reading direction: where the text starts, measured from the anchor.
+        let start = match self.align {
+            TextAlign::Start => 0.0,
+            TextAlign::Middle => -w / 2.0,
+            TextAlign::End => -w,
+        };
+        // Across it: the baseline lies this far below the anchor, in the text's own frame.
+        let baseline = crate::font::baseline_offset_mm(self.baseline, &self.style);
+        match self.rotation {
+            TextRotation::Horizontal => Rect::new(
+                self.at.x + start,
+                self.at.y + baseline - ascent,
+                w,
+                ascent + descent,
+            ),
+            // Turned counter-clockwise: the text runs upwards, and its "down" points right.
+            TextRotation::Up => Rect::new(
+                self.at.x + baseline - ascent,
+                self.at.y - start - w,
+                ascent + descent,
+                w,
+            ),
+        }
+    }
+}
+
+/// A piece of text and the box it occupies (see [`TextMark::bbox`]).
+#[derive(Debug, Clone, PartialEq)]
+pub struct TextBox {
+    pub text: String,
+    pub rect: Rect,
+}
+
 /// One drawn element.
 #[derive(Debug, Clone, PartialEq)]
 pub enum Mark {
@@ -344,6 +431,25 @@ impl Scene {
             }
         }
         walk(&self.marks, visit);
+    }
+
+    /// Every non-empty piece of text in drawing order (inside clips too), with its box.
+    pub fn text_boxes(&self) -> Vec<TextBox> {
+        let mut out = Vec::new();
+        self.for_each_text(&mut |t| {
+            if !crate::font::display_text(&t.text).is_empty() {
+                out.push(TextBox {
+                    text: t.text.clone(),
+                    rect: t.bbox(),
+                });
+            }
+        });
+        out
+    }
+
+    /// The page as a rectangle.
+    pub fn page(&self) -> Rect {
+        Rect::new(0.0, 0.0, self.width_mm, self.height_mm)
     }
 
     /// Checks the invariants listed in the module doc; returns the first violation found.
@@ -499,6 +605,56 @@ mod tests {
     fn colour_prints_as_lower_case_hex() {
         assert_eq!(Colour::from_hex(0xE69F00).to_string(), "#e69f00");
         assert_eq!(Colour::BLACK.to_string(), "#000000");
+    }
+
+    #[test]
+    fn text_boxes_follow_alignment_and_rotation() {
+        let style = TextStyle {
+            size_pt: 10.0,
+            weight: Weight::Regular,
+            colour: Colour::BLACK,
+        };
+        let text = |align, baseline, rotation| TextMark {
+            at: Point::new(50.0, 40.0),
+            text: "Reading".to_string(),
+            style,
+            align,
+            baseline,
+            rotation,
+        };
+        let m = crate::font::measure("Reading", &style);
+        let top = text(
+            TextAlign::Start,
+            TextBaseline::Top,
+            TextRotation::Horizontal,
+        )
+        .bbox();
+        assert!((top.x - 50.0).abs() < 1e-12 && (top.y - 40.0).abs() < 1e-9);
+        assert!((top.width - m.width_mm).abs() < 1e-12);
+        assert!((top.height - m.height_mm()).abs() < 1e-12);
+        let end = text(TextAlign::End, TextBaseline::Top, TextRotation::Horizontal).bbox();
+        assert!((end.right() - 50.0).abs() < 1e-12);
+        let middle = text(
+            TextAlign::Middle,
+            TextBaseline::Alphabetic,
+            TextRotation::Horizontal,
+        );
+        let b = middle.bbox();
+        assert!((b.x + b.width / 2.0 - 50.0).abs() < 1e-12);
+        assert!((b.bottom() - (40.0 + m.descent_mm)).abs() < 1e-12);
+        // Upright, ending at the anchor: the text lies below it, its ascent to the left.
+        let up = text(TextAlign::End, TextBaseline::Top, TextRotation::Up).bbox();
+        assert!((up.y - 40.0).abs() < 1e-12 && (up.height - m.width_mm).abs() < 1e-12);
+        assert!((up.x - 50.0).abs() < 1e-9 && (up.width - m.height_mm()).abs() < 1e-12);
+    }
+
+    #[test]
+    fn rectangles_overlap_only_when_they_share_area() {
+        let a = Rect::new(0.0, 0.0, 10.0, 5.0);
+        assert!(a.overlaps(&Rect::new(9.0, 4.0, 3.0, 3.0)));
+        assert!(!a.overlaps(&Rect::new(10.0, 0.0, 3.0, 3.0)));
+        assert!(a.contains(&Rect::new(0.0, 0.0, 10.0, 5.0)));
+        assert!(!a.contains(&Rect::new(-0.1, 0.0, 1.0, 1.0)));
     }
 
     #[test]

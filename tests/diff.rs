@@ -573,7 +573,7 @@ fn names_from_the_data_are_escaped_in_the_report_and_the_page() {
     std::fs::create_dir(&repo).unwrap();
     std::fs::write(
         repo.join("f.figura"),
-        "data d \"d.csv\" {\n  g: nominal\n  v: ratio\n}\n\nfigure f {\n  from d\n  x g\n  y v\n  mean\n  size 80mm x 60mm\n}\n",
+        "data d \"d.csv\" {\n  g: nominal\n  v: ratio\n}\n\nfigure f {\n  from d\n  x g\n  y v\n  mean\n  size 170mm x 100mm\n}\n",
     )
     .unwrap();
     let levels = [

@@ -520,7 +520,7 @@ fn flows_match_a_hand_counted_cross_tabulation() {
         panic!("no flows")
     };
     assert_eq!(data.width_peak, 7.0, "the most subjects at any visit");
-    assert_eq!(data.panels[0].n_by_x, [7, 5, 7]);
+    assert_eq!(data.panels[0].n_by_x, [[7], [5], [7]]);
 }
 
 #[test]

@@ -340,7 +340,7 @@ fn make_figures(spec: &str, data: &str) -> Made {
             spec: String::new(),
             data: String::new(),
         });
-        match build::render_figure(plan, book, &table, &purpose) {
+        match build::render_figure(plan, book, &table, &purpose, true) {
             Ok(_) => made.drawn += 1,
             Err(FigureError::Build(build::BuildError::Limit(_))) => {}
             Err(FigureError::Data(diags)) => render(&diags, &sources),

@@ -47,8 +47,13 @@ fn every_format(text: TextForm) -> BTreeMap<String, BTreeMap<String, Vec<u8>>> {
             tiff: true,
             text,
         };
-        let Ok(made) = render_figure(&plan, book, table, &Purpose::Files(provenance.clone()))
-        else {
+        let Ok(made) = render_figure(
+            &plan,
+            book,
+            table,
+            &Purpose::Files(provenance.clone()),
+            false,
+        ) else {
             panic!("{} was not made", plan.name);
         };
         out.insert(plan.name.clone(), made.files.into_iter().collect());
@@ -286,6 +291,7 @@ fn chromium_draws_the_svg_with_the_embedded_font() {
             spec: String::new(),
             data: String::new(),
         }),
+        false,
     ) else {
         panic!("not made")
     };

@@ -116,6 +116,9 @@ pub struct BuildOptions {
     pub work_tree: Option<PathBuf>,
     /// The manuscript numbers files written in each output folder (none by default).
     pub numbers: Vec<NumbersFormat>,
+    /// Build a figure whose content does not fit its size anyway, crowded, with a warning
+    /// (W0003) instead of an error (F0124).
+    pub allow_crowding: bool,
 }
 
 impl Default for BuildOptions {
@@ -130,6 +133,7 @@ impl Default for BuildOptions {
             tool_version: TOOL_VERSION.to_string(),
             work_tree: None,
             numbers: Vec::new(),
+            allow_crowding: false,
         }
     }
 }
@@ -299,6 +303,7 @@ impl Outcome {
 struct Made {
     result: Result<(BTreeMap<String, String>, Vec<SummaryRow>), FigureError>,
     written: Vec<PathBuf>,
+    warnings: Vec<Diagnostic>,
 }
 
 /// Runs a build, a validation or a status check over the given paths.
@@ -455,13 +460,15 @@ fn make_all(
                                 message: message.clone(),
                             })),
                             written: Vec::new(),
+                            warnings: Vec::new(),
                         },
-                        None => make(job, program, table, mode, &tool),
+                        None => make(job, program, table, options, &tool),
                     },
                     // The table's errors were reported when it was read.
                     _ => Made {
                         result: Err(FigureError::Data(Vec::new())),
                         written: Vec::new(),
+                        warnings: Vec::new(),
                     },
                 };
                 progress.done(&job.plan.name, made.result.is_ok());
@@ -472,6 +479,7 @@ fn make_all(
     let mut outcomes: Vec<Outcome> = jobs.iter().map(|_| Outcome::Kept).collect();
     for (i, made) in todo.into_iter().zip(made) {
         report.written.extend(made.written);
+        report.diagnostics.extend(made.warnings);
         outcomes[i] = match made.result {
             Ok((hashes, summary)) => Outcome::Made(hashes, summary),
             Err(FigureError::Data(diags)) => {
@@ -546,8 +554,9 @@ fn design_checked(book: &check::Codebook, table: Table, report: &mut BuildReport
 
 /// Makes one figure and, in a build, writes each output whose bytes changed (its folder
 /// exists: [`create_folders`]).
-fn make(job: &Job, program: &Program, table: &Table, mode: Mode, tool: &str) -> Made {
+fn make(job: &Job, program: &Program, table: &Table, options: &BuildOptions, tool: &str) -> Made {
     let book = &program.codebooks[job.plan.data];
+    let mode = options.mode;
     let purpose = match mode {
         Mode::Validate => Purpose::Validate,
         _ => Purpose::Files(export::Provenance {
@@ -559,15 +568,17 @@ fn make(job: &Job, program: &Program, table: &Table, mode: Mode, tool: &str) -> 
                 .map_or_else(String::new, |d| d.to_hex().to_string()),
         }),
     };
-    let outputs = match render_figure(job.plan, book, table, &purpose) {
+    let outputs = match render_figure(job.plan, book, table, &purpose, options.allow_crowding) {
         Ok(o) => o,
         Err(e) => {
             return Made {
                 result: Err(e),
                 written: Vec::new(),
+                warnings: Vec::new(),
             }
         }
     };
+    let warnings = outputs.warnings;
     let mut hashes = BTreeMap::new();
     let mut written = Vec::new();
     for (name, bytes) in outputs.files {
@@ -580,6 +591,7 @@ fn make(job: &Job, program: &Program, table: &Table, mode: Mode, tool: &str) -> 
                     return Made {
                         result: Err(FigureError::Build(e)),
                         written,
+                        warnings,
                     }
                 }
             }
@@ -589,6 +601,7 @@ fn make(job: &Job, program: &Program, table: &Table, mode: Mode, tool: &str) -> 
     Made {
         result: Ok((hashes, outputs.summary)),
         written,
+        warnings,
     }
 }
 

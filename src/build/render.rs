@@ -24,6 +24,8 @@ pub struct FigureOutputs {
     pub files: Vec<(String, Vec<u8>)>,
     /// The summary rows, for the manuscript numbers.
     pub summary: Vec<compute::SummaryRow>,
+    /// Warnings found while making it (too many dots, a crowded figure built anyway).
+    pub warnings: Vec<Diagnostic>,
 }
 
 /// Why one figure could not be made.
@@ -97,7 +99,8 @@ pub enum Purpose {
 }
 
 /// Computes and lays out one figure and, unless validating, renders its output files (in
-/// memory).
+/// memory). A figure whose content does not fit its size fails (F0124), unless
+/// `allow_crowding` builds it crowded with a warning (W0003).
 ///
 /// A panic while making the figure (a bug) is caught and returned as that figure's
 /// [`BuildError::Internal`] failure, naming the figure, so the other figures of the run are
@@ -107,11 +110,12 @@ pub fn render_figure(
     book: &Codebook,
     table: &Table,
     purpose: &Purpose,
+    allow_crowding: bool,
 ) -> Result<FigureOutputs, FigureError> {
     let caught = IN_FIGURE.with(|inside| {
         let was = inside.replace(true);
         let result = panic::catch_unwind(AssertUnwindSafe(|| {
-            make_outputs(plan, book, table, purpose)
+            make_outputs(plan, book, table, purpose, allow_crowding)
         }));
         inside.set(was);
         result
@@ -167,6 +171,7 @@ fn make_outputs(
     book: &Codebook,
     table: &Table,
     purpose: &Purpose,
+    allow_crowding: bool,
 ) -> Result<FigureOutputs, FigureError> {
     let numbers = compute::compute(plan, book, table).map_err(|e| match e {
         ComputeError::Data(d) => {
@@ -174,7 +179,17 @@ fn make_outputs(
         }
         ComputeError::Internal(m) => FigureError::Build(BuildError::Internal(m)),
     })?;
-    let mut scene = layout::layout(plan, &numbers);
+    let mut warnings = numbers.warnings.clone();
+    let laid = layout::layout(plan, &numbers);
+    if let Some(crowding) = &laid.crowding {
+        let diagnostic = crowding.diagnostic(plan, allow_crowding);
+        if !allow_crowding {
+            warnings.push(diagnostic);
+            return Err(FigureError::Data(warnings));
+        }
+        warnings.push(diagnostic);
+    }
+    let mut scene = laid.scene;
     // Files without a title still tell readers which figure they are.
     scene.title.get_or_insert_with(|| plan.name.clone());
     let provenance = match purpose {
@@ -189,6 +204,7 @@ fn make_outputs(
             return Ok(FigureOutputs {
                 files: Vec::new(),
                 summary: numbers.summary,
+                warnings,
             });
         }
     };
@@ -211,6 +227,7 @@ fn make_outputs(
     Ok(FigureOutputs {
         files,
         summary: numbers.summary,
+        warnings,
     })
 }
 

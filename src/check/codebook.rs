@@ -9,8 +9,8 @@ use super::plan::{Codebook, Collapse, Replicates, Scale, VarId, Variable};
 use super::terms::{self, Accepts};
 
 /// The options of a variable declaration, in canonical order (`levels` and `labels` only for
-/// nominal and ordinal variables).
-pub const VARIABLE_OPTIONS: &[&str] = &["levels", "labels", "label", "unit", "column"];
+/// nominal and ordinal variables, `midpoint` only for ordinal ones).
+pub const VARIABLE_OPTIONS: &[&str] = &["levels", "labels", "midpoint", "label", "unit", "column"];
 /// The options of `replicates VAR`.
 pub const REPLICATES_OPTIONS: &[&str] = &["collapse"];
 
@@ -145,7 +145,11 @@ fn declare(book: &mut Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) {
     let calls: Vec<&str> = VARIABLE_OPTIONS
         .iter()
         .copied()
-        .filter(|o| scale.is_categorical() || !matches!(*o, "levels" | "labels"))
+        .filter(|o| match *o {
+            "levels" | "labels" => scale.is_categorical(),
+            "midpoint" => scale == Scale::Ordinal,
+            _ => true,
+        })
         .collect();
     let what = format!("a {} variable", scale.as_str());
     let opts = terms::options(&p.terms, &Accepts::calls(&what, &calls), diags);
@@ -155,6 +159,7 @@ fn declare(book: &mut Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) {
         scale,
         levels: None,
         labels: None,
+        midpoint: None,
         label: None,
         unit: None,
         span: p.span,
@@ -180,6 +185,9 @@ fn declare(book: &mut Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) {
             opts.call("levels").map(|l| l.span),
             diags,
         );
+    }
+    if let (Some(c), Some(levels)) = (opts.call("midpoint"), &var.levels) {
+        var.midpoint = midpoint(c, levels, diags);
     }
     if scale == Scale::Ordinal && opts.call("levels").is_none() {
         diags.push(
@@ -254,6 +262,47 @@ fn checked_levels(
         }
     }
     Some(list.into_iter().map(|(n, _)| n).collect())
+}
+
+/// `midpoint(LEVEL)`: one of the declared levels, the neutral middle of an ordinal scale.
+fn midpoint(
+    c: &crate::syntax::ast::Call,
+    levels: &[String],
+    diags: &mut Vec<Diagnostic>,
+) -> Option<usize> {
+    let shape = "midpoint(\"neutral\")";
+    let (name, span) = match terms::single(c, shape, diags)? {
+        Term::Str(s) => (s.value.clone(), s.span),
+        Term::Num(n) => (n.text.clone(), n.span),
+        Term::Word(w) => (w.name.clone(), w.span),
+        other => {
+            terms::expect_str(other, shape, diags);
+            return None;
+        }
+    };
+    if let Some(i) = levels.iter().position(|l| *l == name) {
+        return Some(i);
+    }
+    let help = match did_you_mean(&name, levels.iter().map(String::as_str)) {
+        Some(s) => format!("did you mean \"{s}\"? the midpoint is one of the declared levels"),
+        None => format!(
+            "the midpoint is one of the declared levels: {}",
+            levels
+                .iter()
+                .map(|l| format!("\"{l}\""))
+                .collect::<Vec<_>>()
+                .join(", ")
+        ),
+    };
+    diags.push(
+        Diagnostic::new(
+            Code::BadArgument,
+            format!("\"{name}\" is not a level, so it cannot be the midpoint"),
+        )
+        .with_label(span, "not a declared level")
+        .with_help(help),
+    );
+    None
 }
 
 fn checked_labels(

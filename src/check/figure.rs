@@ -45,8 +45,9 @@ pub const SIZE_LIMITS_MM: (f64, f64) = (20.0, 600.0);
 /// Accepted raster resolutions.
 pub const DPI_LIMITS: (u32, u32) = (50, 2400);
 
-const FIGURE_STATEMENTS: [&str; 11] = [
-    "from", "title", "caption", "x", "y", "colour", "panels", "size", "formats", "dpi", "where",
+const FIGURE_STATEMENTS: [&str; 13] = [
+    "from", "title", "caption", "x", "y", "colour", "panels", "size", "formats", "dpi", "key",
+    "grid", "where",
 ];
 
 /// The statements of a figure, sorted by kind before they are interpreted.
@@ -62,6 +63,8 @@ struct Parts<'a> {
     size: Option<&'a Plain>,
     formats: Option<&'a Plain>,
     dpi: Option<&'a Plain>,
+    key: Option<&'a Plain>,
+    grid: Option<&'a Plain>,
     filter: Option<&'a Where>,
     layers: Vec<(&'static layer::LayerDecl, &'a Plain)>,
 }
@@ -92,10 +95,16 @@ pub fn check_figure(
         return None;
     };
     let (data_idx, book) = resolve_data(from, visible, diags)?;
-    let title = parts
-        .title
-        .and_then(|p| terms::one_string(p, "title \"...\"", diags))
-        .map(|s| s.value.clone());
+    let (title, show_title) = match parts.title.and_then(|p| title(p, diags)) {
+        Some((t, show)) => (Some(t), show),
+        None => (None, false),
+    };
+    let key = parts
+        .key
+        .is_none_or(|p| switch(p, "key off", diags).unwrap_or(true));
+    let grid = parts
+        .grid
+        .is_some_and(|p| p.terms.is_empty() || switch(p, "grid", diags).unwrap_or(false));
     let caption = parts
         .caption
         .and_then(|p| terms::one_string(p, "caption \"...\"", diags))
@@ -110,6 +119,7 @@ pub fn check_figure(
         .size
         .and_then(|p| size(p, diags))
         .unwrap_or(DEFAULT_SIZE_MM);
+    let size_span = parts.size.map_or(block.name.span, |p| p.span);
     let formats = parts
         .formats
         .and_then(|p| formats(p, diags))
@@ -193,7 +203,10 @@ pub fn check_figure(
         spec_path: spec_path.to_path_buf(),
         data: data_idx,
         title,
+        show_title,
         caption,
+        key,
+        grid,
         axes: plan_axes?,
         layers,
         colour,
@@ -202,6 +215,7 @@ pub fn check_figure(
         filter_span: parts.filter.map(|w| w.span),
         width_mm,
         height_mm,
+        size_span,
         formats,
         dpi,
     })
@@ -321,6 +335,8 @@ fn sort_statements<'a>(block: &'a Block, diags: &mut Vec<Diagnostic>) -> Parts<'
             "size" => &mut parts.size,
             "formats" => &mut parts.formats,
             "dpi" => &mut parts.dpi,
+            "key" => &mut parts.key,
+            "grid" => &mut parts.grid,
             name if layer::find(name).is_some() => {
                 parts.layers.extend(layer::find(name).map(|decl| (decl, p)));
                 continue;
@@ -419,6 +435,35 @@ fn grouping(book: &Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) -> Option<C
         ordered: var.scale == Scale::Ordinal,
         span: name.span,
     })
+}
+
+/// `title "..."`, drawn in the figure only with `show`: the text, and whether it is drawn.
+fn title(p: &Plain, diags: &mut Vec<Diagnostic>) -> Option<(String, bool)> {
+    let shape = "title \"...\" show";
+    match p.terms.as_slice() {
+        [Term::Str(s), Term::Word(w)] if w.name == "show" => Some((s.value.clone(), true)),
+        [Term::Str(_), other] => {
+            terms::expect_choice(other, &["show"], shape, diags);
+            None
+        }
+        _ => terms::one_string(p, shape, diags).map(|s| (s.value.clone(), false)),
+    }
+}
+
+/// `on` or `off` after a statement's word (`key off`, `grid on`).
+fn switch(p: &Plain, shape: &str, diags: &mut Vec<Diagnostic>) -> Option<bool> {
+    let [term] = p.terms.as_slice() else {
+        diags.push(
+            Diagnostic::new(
+                Code::BadArgument,
+                format!("`{}` takes `on` or `off`", p.head.name),
+            )
+            .with_label(p.span, "here")
+            .with_help(format!("write `{shape}`")),
+        );
+        return None;
+    };
+    terms::expect_choice(term, &["on", "off"], shape, diags).map(|w| w.name == "on")
 }
 
 fn size(p: &Plain, diags: &mut Vec<Diagnostic>) -> Option<(f64, f64)> {

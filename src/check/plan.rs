@@ -64,6 +64,9 @@ pub struct Variable {
     pub levels: Option<Vec<String>>,
     /// Display text per declared level.
     pub labels: Option<Vec<String>>,
+    /// The neutral middle level of an ordinal scale (`midpoint("neutral")`), as an index into
+    /// `levels`: its colours diverge around it.
+    pub midpoint: Option<usize>,
     /// Axis title.
     pub label: Option<String>,
     pub unit: Option<String>,
@@ -348,7 +351,14 @@ pub struct FigurePlan {
     /// Index into [`Program::codebooks`].
     pub data: usize,
     pub title: Option<String>,
+    /// The title is drawn in the figure (`title "..." show`); otherwise it only names the
+    /// figure in the SVG's `<title>`.
+    pub show_title: bool,
     pub caption: Option<String>,
+    /// The key naming each summary mark is drawn (`key off` leaves it out).
+    pub key: bool,
+    /// Faint reference lines at the y ticks (`grid`).
+    pub grid: bool,
     pub axes: Axes,
     /// The layers in the order written (and drawn).
     pub layers: Vec<LayerPlan>,
@@ -359,6 +369,9 @@ pub struct FigurePlan {
     pub filter_span: Option<Span>,
     pub width_mm: f64,
     pub height_mm: f64,
+    /// The `size` statement, for a figure whose content does not fit (the figure's name when
+    /// the size is the default).
+    pub size_span: Span,
     pub formats: Formats,
     pub dpi: u32,
 }

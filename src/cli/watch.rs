@@ -122,6 +122,7 @@ fn round(args: &WatchArgs) -> Watched {
     }
     let options = BuildOptions {
         jobs: args.jobs.jobs,
+        allow_crowding: args.common.allow_crowding,
         ..target.options(Mode::Build)
     };
     let started = Instant::now();

@@ -9,6 +9,7 @@
 //! | [`distinct`] | Whether colours that must be told apart can be, under every vision; thresholds |
 //! | [`palette`] | The qualitative Okabe–Ito palette for groups |
 //! | [`ordered`] | Sequential and diverging palettes for ordinal variables, designed in OKLCh |
+//! | [`scheme`] | Which palette levels take from their level of measurement (nominal, ordinal, midpoint) |
 //! | [`hex`] | `#rrggbb` / `#rgb` parsing with errors that say what is wrong |
 //!
 //! Every colour that reaches a figure is an 8-bit sRGB [`crate::scene::Colour`]; the
@@ -24,6 +25,7 @@ pub mod distinct;
 pub mod hex;
 pub mod ordered;
 pub mod palette;
+pub mod scheme;
 pub mod space;
 pub mod vision;
 

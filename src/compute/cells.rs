@@ -18,6 +18,7 @@
 
 use std::collections::BTreeMap;
 
+use crate::check::layer::Shows;
 use crate::check::plan::{
     Axes, AxisScale, CatAxis, CatVar, Codebook, Collapse, FigurePlan, LevelOrder, NumAxis, VarId,
 };
@@ -25,7 +26,9 @@ use crate::data::Table;
 use crate::diag::{Code, Diagnostic, Span};
 
 use super::filter::filter_rows;
+use super::layer::Stat;
 use super::levels::{self, axis_levels, codes, numbers, shown_levels, Levels};
+use super::summary::{StatValue, SummaryRow};
 use super::ComputeError;
 
 /// A cell: panel slot, x slot (0 when x is numeric) and colour group slot.
@@ -142,6 +145,9 @@ pub struct Cells<'a> {
     pub placed: Placed,
     /// The figure's jitter (set by `points`), which `lines` follow.
     pub jitter: f64,
+    /// The fewest and most trials a subject had in one cell, when `replicates` collapsed them
+    /// (for the key: "each participant's mean of 6 trials").
+    pub trials: Option<(usize, usize)>,
     subjects: Option<&'a [String]>,
 }
 
@@ -265,6 +271,7 @@ impl<'a> Cells<'a> {
                 .iter()
                 .find_map(|l| l.traits.jitter)
                 .unwrap_or(0.0),
+            trials: None,
             subjects: subjects.map(|(_, names)| names),
         };
         let sorter = Sorter {
@@ -274,32 +281,48 @@ impl<'a> Cells<'a> {
             group: group_codes.map(|c| (c, &cells.groups)),
             subject: subjects.map(|(c, _)| c),
         };
-        let placed = match &plan.axes {
-            Axes::Cat { .. } => Placed::Rows(sorter.place_rows()),
-            Axes::CatNum { y, .. } => Placed::Values(cells.measured(&sorter, y)?),
-            Axes::Num { x } => Placed::Values(cells.measured(&sorter, x)?),
-            Axes::CatCat { y, .. } => Placed::Levels(cells.level_slots(&sorter, y)?),
-            Axes::NumNum { x, y } => Placed::Pairs(cells.pairs(&sorter, x, y)?),
+        let (placed, trials) = match &plan.axes {
+            Axes::Cat { .. } => (Placed::Rows(sorter.place_rows()), None),
+            Axes::CatNum { y, .. } => {
+                let (values, trials) = cells.measured(&sorter, y)?;
+                (Placed::Values(values), trials)
+            }
+            Axes::Num { x } => {
+                let (values, trials) = cells.measured(&sorter, x)?;
+                (Placed::Values(values), trials)
+            }
+            Axes::CatCat { y, .. } => {
+                let (levels, trials) = cells.level_slots(&sorter, y)?;
+                (Placed::Levels(levels), trials)
+            }
+            Axes::NumNum { x, y } => {
+                let (pairs, trials) = cells.pairs(&sorter, x, y)?;
+                (Placed::Pairs(pairs), trials)
+            }
         };
         cells.placed = placed;
+        cells.trials = trials;
         Ok(cells)
     }
 
     /// The values of a numeric axis, collapsed or checked for repeated subjects, and checked
-    /// against a log scale.
-    fn measured(&self, sorter: &Sorter, axis: &NumAxis) -> Result<Values, ComputeError> {
+    /// against a log scale; with the trials per collapsed value.
+    fn measured(&self, sorter: &Sorter, axis: &NumAxis) -> Result<(Values, Trials), ComputeError> {
         let column = numbers(self.table, self.book, axis.var.var)?;
         let mut placed = sorter.place(|row| column[row]);
-        match &self.book.replicates {
+        let trials = match &self.book.replicates {
             Some(rep) => collapse(&mut placed, numeric_collapse(rep.collapse)),
-            None => self.check_one_value_per_subject(&placed)?,
-        }
+            None => {
+                self.check_one_value_per_subject(&placed)?;
+                None
+            }
+        };
         self.check_log(axis, placed.obs.iter().map(|o| (o.row, o.value)))?;
-        Ok(Values::new(placed))
+        Ok((Values::new(placed), trials))
     }
 
     /// The slot of each row's level among the y levels.
-    fn level_slots(&self, sorter: &Sorter, y: &CatAxis) -> Result<Values, ComputeError> {
+    fn level_slots(&self, sorter: &Sorter, y: &CatAxis) -> Result<(Values, Trials), ComputeError> {
         let (y_codes, _) = codes(self.table, self.book, y.var.var)?;
         let y_levels = self
             .y_levels
@@ -314,10 +337,12 @@ impl<'a> Cells<'a> {
         // block's `collapse` says (a mean of levels is not defined); a layer that follows each
         // trial's state (flows) keeps them as they are.
         let follows_trials = self.plan.layers.iter().any(|l| l.traits.keeps_trials);
-        if self.book.replicates.is_some() && y.var.ordered && !follows_trials {
-            collapse(&mut placed, level_median);
-        }
-        Ok(Values::new(placed))
+        let trials = if self.book.replicates.is_some() && y.var.ordered && !follows_trials {
+            collapse(&mut placed, level_median)
+        } else {
+            None
+        };
+        Ok((Values::new(placed), trials))
     }
 
     /// Complete (x, y) pairs; with `replicates`, x and y collapsed alike per subject and cell.
@@ -326,16 +351,16 @@ impl<'a> Cells<'a> {
         sorter: &Sorter,
         x: &NumAxis,
         y: &NumAxis,
-    ) -> Result<Placement<Pair>, ComputeError> {
+    ) -> Result<(Placement<Pair>, Trials), ComputeError> {
         let xs = numbers(self.table, self.book, x.var.var)?;
         let ys = numbers(self.table, self.book, y.var.var)?;
         let complete = |own: &[Option<f64>], row: usize| xs[row].and(ys[row]).and(own[row]);
         let mut placed_x = sorter.place(|row| complete(xs, row));
         let mut placed_y = sorter.place(|row| complete(ys, row));
-        if let Some(rep) = &self.book.replicates {
-            collapse(&mut placed_x, numeric_collapse(rep.collapse));
+        let trials = self.book.replicates.as_ref().and_then(|rep| {
             collapse(&mut placed_y, numeric_collapse(rep.collapse));
-        }
+            collapse(&mut placed_x, numeric_collapse(rep.collapse))
+        });
         // Both placements saw the same rows, so their observations pair up one to one.
         let obs = placed_x
             .obs
@@ -358,7 +383,7 @@ impl<'a> Cells<'a> {
         };
         self.check_log(x, pairs.obs.iter().map(|o| (o.row, o.value.x)))?;
         self.check_log(y, pairs.obs.iter().map(|o| (o.row, o.value.y)))?;
-        Ok(pairs)
+        Ok((pairs, trials))
     }
 
     /// Rule F0109 in the data: a subject with two values in one cell, under a layer that joins
@@ -455,22 +480,52 @@ impl<'a> Cells<'a> {
             .flat_map(move |x| (0..self.groups.len()).map(move |group| Cell { panel, x, group }))
     }
 
-    /// How many observational units each x level of a panel shows, for the `n =` labels:
-    /// distinct subjects when the data declare one (a subject seen in two colour groups counts
-    /// once), else values; rows for `counts`. Empty over a numeric x.
-    pub fn n_by_x(&self, panel: usize) -> Vec<usize> {
-        let n_x = self.x_levels.len();
-        match &self.placed {
-            Placed::Rows(rows) => {
-                let mut n = vec![0; n_x];
-                rows.in_panel(panel).for_each(|o| n[o.cell.x] += 1);
-                n
-            }
-            Placed::Values(v) | Placed::Levels(v) if self.x_is_categorical() => (0..n_x)
-                .map(|x| units(v.placed.in_panel(panel).filter(|o| o.cell.x == x).collect()))
-                .collect(),
-            Placed::Values(_) | Placed::Levels(_) | Placed::Pairs(_) => Vec::new(),
+    /// Which layer's `n` the figure shows under its x levels, so that every n shown is an n of
+    /// the summary: the first layer (in the order written) that reports an `n` per cell among
+    /// the summary marks (mean, median), else the distributions (box, violin, flows), else the
+    /// values (points), else the counts (their `count` per cell). `rows[i]` are the summary
+    /// rows of layer `i`, every panel together. `None` over a numeric x.
+    pub fn n_source(&self, rows: &[Vec<SummaryRow>]) -> Option<usize> {
+        if !self.x_is_categorical() {
+            return None;
         }
+        let rank = |shows: Shows| match shows {
+            Shows::Estimate => 0,
+            Shows::Distribution => 1,
+            Shows::Values => 2,
+            Shows::Counts => 3,
+        };
+        let reports_cells = |i: usize| {
+            let stat = n_stat(self.plan.layers[i].decl.shows);
+            rows[i].iter().any(|r| r.stat == stat && !r.x.is_empty())
+        };
+        (0..self.plan.layers.len())
+            .filter(|&i| reports_cells(i))
+            .min_by_key(|&i| (rank(self.plan.layers[i].decl.shows), i))
+    }
+
+    /// The n shown under each x slot of a panel, per colour group (`n[x][group]`): the `n` (or,
+    /// for counts, the `count`) that layer `source` reports for that cell in its summary rows
+    /// `rows`; 0 for a cell it reports nothing for.
+    pub fn n_by_x(&self, panel: usize, source: usize, rows: &[SummaryRow]) -> Vec<Vec<usize>> {
+        let mut n = vec![vec![0; self.groups.len()]; self.x_levels.len()];
+        let stat = n_stat(self.plan.layers[source].decl.shows);
+        let panel_name = self.panel_name(panel);
+        for r in rows
+            .iter()
+            .filter(|r| r.stat == stat && r.panel == panel_name)
+        {
+            let x = self.x_levels.names.iter().position(|name| *name == r.x);
+            let group = if self.plan.colour.is_some() {
+                self.groups.names.iter().position(|name| *name == r.group)
+            } else {
+                Some(0)
+            };
+            if let (Some(x), Some(g), StatValue::Number(v)) = (x, group, &r.value) {
+                n[x][g] = *v as usize;
+            }
+        }
+        n
     }
 
     fn x_is_categorical(&self) -> bool {
@@ -481,20 +536,21 @@ impl<'a> Cells<'a> {
     }
 }
 
-/// Distinct subjects among `obs`, plus the observations without a subject.
-fn units(obs: Vec<&Obs<f64>>) -> usize {
-    let mut subjects: Vec<u32> = obs.iter().filter_map(|o| o.subject).collect();
-    if subjects.is_empty() {
-        return obs.len();
+/// The statistic that counts a cell's values in a layer's summary: `count` for counts, `n`
+/// for every other layer.
+fn n_stat(shows: Shows) -> Stat {
+    match shows {
+        Shows::Counts => Stat::Count,
+        _ => Stat::N,
     }
-    subjects.sort_unstable();
-    subjects.dedup();
-    subjects.len() + obs.iter().filter(|o| o.subject.is_none()).count()
 }
 
+/// The fewest and most trials collapsed into one value, when any were.
+type Trials = Option<(usize, usize)>;
+
 /// Collapses repeated trials: one value per subject per cell, `reduce` of its trials' values
-/// (in row order, at least one).
-fn collapse(placed: &mut Placement<f64>, reduce: fn(&mut [f64]) -> f64) {
+/// (in row order, at least one). Returns the fewest and most trials a collapsed value had.
+fn collapse(placed: &mut Placement<f64>, reduce: fn(&mut [f64]) -> f64) -> Trials {
     let mut by_key: BTreeMap<(Cell, u32), Vec<Obs<f64>>> = BTreeMap::new();
     let mut without_subject = Vec::new();
     for o in placed.obs.drain(..) {
@@ -503,6 +559,13 @@ fn collapse(placed: &mut Placement<f64>, reduce: fn(&mut [f64]) -> f64) {
             None => without_subject.push(o),
         }
     }
+    let trials = by_key
+        .values()
+        .map(Vec::len)
+        .fold(None, |acc, n| match acc {
+            None => Some((n, n)),
+            Some((lo, hi)) => Some((n.min(lo), n.max(hi))),
+        });
     let mut out: Vec<Obs<f64>> = by_key
         .into_values()
         .map(|trials| {
@@ -516,6 +579,7 @@ fn collapse(placed: &mut Placement<f64>, reduce: fn(&mut [f64]) -> f64) {
     out.extend(without_subject);
     out.sort_by_key(|o| o.row);
     placed.obs = out;
+    trials
 }
 
 /// The reduction of numeric trials a data block asks for: their mean or median (definition 7).

@@ -20,13 +20,18 @@ pub mod cells;
 mod design;
 mod extent;
 mod filter;
+pub mod key;
 pub mod layer;
 mod levels;
 pub mod summary;
 
-use crate::check::plan::{Axes, AxisScale, Codebook, FigurePlan, LayerPlan, NumAxis};
+use crate::check::plan::{
+    Axes, AxisScale, Codebook, FigurePlan, LayerPlan, NumAxis, Scale, Variable,
+};
+use crate::colour::scheme::{self, Scheme};
 use crate::data::Table;
 use crate::diag::{Code, Diagnostic};
+use crate::scene::Colour;
 
 use cells::{Cells, Placed};
 use extent::Extent;
@@ -89,7 +94,27 @@ pub enum YScale {
 pub struct Legend {
     pub title: String,
     pub levels: Levels,
+    /// One colour per shown level, from the palette its level of measurement calls for
+    /// ([`crate::colour::scheme`]).
+    pub colours: Vec<Colour>,
 }
+
+impl Legend {
+    /// A legend of unordered groups (the figure gives it its palette once it is complete).
+    pub fn new(title: String, levels: Levels) -> Legend {
+        let colours = scheme::colours(Scheme::Groups, levels.len()).unwrap_or_default();
+        Legend {
+            title,
+            levels,
+            colours,
+        }
+    }
+}
+
+/// Beyond this many values in one cell, `points` warn (W0004): so many dots hide each other,
+/// and a box, violin or density shows them better. Layout draws the dots of such a cell as one
+/// shape.
+pub const POINTS_PER_CELL_CAP: usize = 5_000;
 
 /// One panel.
 #[derive(Debug, Clone, PartialEq)]
@@ -97,8 +122,10 @@ pub struct PanelData {
     /// Empty when the figure has no panels.
     pub label: String,
     pub layers: Vec<LayerMarks>,
-    /// Number of values per x slot (categorical x), all groups together, for `n =` labels.
-    pub n_by_x: Vec<usize>,
+    /// The n shown under each x slot (categorical x), per colour group: always an `n` (or a
+    /// count) of the summary, of the layer [`cells::Cells::n_source`] chooses. Empty over a
+    /// numeric x.
+    pub n_by_x: Vec<Vec<usize>>,
 }
 
 /// A figure's numbers, ready for layout.
@@ -112,6 +139,10 @@ pub struct FigureData {
     /// The largest width quantity any layer draws (a violin's density, a flow's subjects): every
     /// such mark of the figure is drawn on one scale.
     pub width_peak: f64,
+    /// The key's sentences: what each summary mark is, how trials were averaged, what n counts.
+    pub key: Vec<String>,
+    /// Warnings found in the data (too many dots to show apart).
+    pub warnings: Vec<Diagnostic>,
 }
 
 /// Computes a figure's numbers from its data table.
@@ -128,26 +159,47 @@ pub fn compute(
     }
     let mut panels = Vec::with_capacity(cells.panels.len());
     let mut summary = Vec::new();
+    let mut rows_by_layer = vec![Vec::new(); plan.layers.len()];
     for p in 0..cells.panels.len() {
         let mut marks = Vec::with_capacity(plan.layers.len());
-        for l in &plan.layers {
+        for (i, l) in plan.layers.iter().enumerate() {
             let out = layer::compute(l, &cells, p)?;
             check_finite(&out, l)?;
             summary.extend_from_slice(&out.rows);
+            rows_by_layer[i].extend_from_slice(&out.rows);
             marks.push(merged.add(out));
         }
         panels.push(PanelData {
             label: cells.panels.labels[p].clone(),
             layers: marks,
-            n_by_x: cells.n_by_x(p),
+            n_by_x: Vec::new(),
         });
     }
-    let legend = merged.legend.take().or_else(|| {
-        plan.colour.as_ref().map(|c| Legend {
-            title: book.var(c.var).title(),
-            levels: cells.groups.clone(),
-        })
-    });
+    let n_source = cells.n_source(&rows_by_layer);
+    if let Some(source) = n_source {
+        for (p, panel) in panels.iter_mut().enumerate() {
+            panel.n_by_x = cells.n_by_x(p, source, &rows_by_layer[source]);
+        }
+    }
+    let legend = match merged.legend.take() {
+        Some(states) => match &plan.axes {
+            Axes::CatCat { y, .. } => Some(coloured(states, book.var(y.var.var))),
+            _ => Some(states),
+        },
+        None => plan.colour.as_ref().map(|c| {
+            let var = book.var(c.var);
+            coloured(Legend::new(var.title(), cells.groups.clone()), var)
+        }),
+    };
+    let groups_differ = panels
+        .iter()
+        .flat_map(|p| &p.n_by_x)
+        .any(|n| n.windows(2).any(|w| w[0] != w[1]));
+    let key = if plan.key {
+        key::key(&cells, n_source, groups_differ)
+    } else {
+        Vec::new()
+    };
     Ok(FigureData {
         x: x_scale(&cells, &merged),
         y: y_scale(&cells, &merged),
@@ -155,6 +207,8 @@ pub fn compute(
         panels,
         summary,
         width_peak: merged.width_peak,
+        key,
+        warnings: many_points(&cells),
     })
 }
 
@@ -178,6 +232,68 @@ fn check_finite(out: &layer::LayerOutput, l: &LayerPlan) -> Result<(), ComputeEr
     .with_label(l.span, "overflows")
     .with_help("the values are too large in magnitude for this statistic: measure the variable in a larger unit (and say so in its `unit`)")
     .into())
+}
+
+/// The legend with the palette its variable's level of measurement calls for: unordered groups
+/// take distinct hues; ordinal levels the ordered palette (diverging around a declared
+/// midpoint), built over every declared level so a filter never changes a level's colour.
+fn coloured(mut legend: Legend, var: &Variable) -> Legend {
+    let scheme = match (var.scale, var.midpoint) {
+        (Scale::Ordinal, Some(midpoint)) => Scheme::Diverging { midpoint },
+        (Scale::Ordinal, None) => Scheme::Ordered,
+        _ => return legend,
+    };
+    let declared = var.levels.as_deref().unwrap_or_default();
+    let slots: Option<Vec<usize>> = legend
+        .levels
+        .names
+        .iter()
+        .map(|name| declared.iter().position(|d| d == name))
+        .collect();
+    let colours = slots.and_then(|slots| {
+        let palette = scheme::colours(scheme, declared.len())?;
+        Some(slots.iter().map(|&s| palette[s]).collect())
+    });
+    if let Some(colours) = colours.or_else(|| scheme::colours(Scheme::Ordered, legend.levels.len()))
+    {
+        legend.colours = colours;
+    }
+    legend
+}
+
+/// W0004: a `points` layer with more values in one cell than dots can show apart.
+fn many_points(cells: &Cells) -> Vec<Diagnostic> {
+    let Some(layer) = cells
+        .plan
+        .layers
+        .iter()
+        .find(|l| l.decl.shows == crate::check::layer::Shows::Values)
+    else {
+        return Vec::new();
+    };
+    let mut per_cell: std::collections::BTreeMap<cells::Cell, usize> = Default::default();
+    let mut count = |cell| *per_cell.entry(cell).or_default() += 1;
+    match &cells.placed {
+        Placed::Values(v) => v.placed.obs.iter().for_each(|o| count(o.cell)),
+        Placed::Pairs(p) => p.obs.iter().for_each(|o| count(o.cell)),
+        Placed::Rows(_) | Placed::Levels(_) => {}
+    }
+    let Some(most) = per_cell.values().copied().max() else {
+        return Vec::new();
+    };
+    if most <= POINTS_PER_CELL_CAP {
+        return Vec::new();
+    }
+    vec![Diagnostic::new(
+        Code::ManyPoints,
+        format!(
+            "`points` draws {most} dots in one cell, more than the {POINTS_PER_CELL_CAP} that can be told apart"
+        ),
+    )
+    .with_label(layer.head, "one dot per value")
+    .with_help(
+        "show so many values with `box`, `violin` or `density` (or `histogram`); beyond the limit a cell's dots are drawn as one shape",
+    )]
 }
 
 /// What every layer's output adds up to for the figure.

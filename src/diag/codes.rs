@@ -94,6 +94,7 @@ code_table! {
     BetweenVariesWithinSubject = "F0121", Error, "A subject listed at two levels of a `between` factor (found in the data).";
     WithinNeverRepeated = "F0122", Error, "A `within` factor at which no subject was measured at two levels (found in the data).";
     BeyondDoubleRange = "F0123", Error, "A statistic of the data beyond the range of double-precision numbers (found in the data).";
+    FigureCrowded = "F0124", Error, "The figure's content does not fit its size: text would overlap, shrink below 6 pt or leave the page (found when it is laid out).";
 
     // Form of statements and files.
     UnknownStatement = "F0201", Error, "A statement word that does not exist in this kind of block.";
@@ -120,6 +121,8 @@ code_table! {
     // Warnings.
     MeanAlone = "W0001", Warning, "A `mean` with no layer that shows the values or their spread.";
     BarWithoutPoints = "W0002", Warning, "`mean bar` without `points`.";
+    CrowdingAllowed = "W0003", Warning, "The figure's content does not fit its size, and `--allow-crowding` built it anyway.";
+    ManyPoints = "W0004", Warning, "`points` with more values in one cell than dots can show apart (found in the data).";
 
     // Data files.
     Unreadable = "D0001", Error, "The data file is missing, a folder, or cannot be read.";

@@ -1,24 +1,43 @@
-//! Layout: a figure's numbers → a scene of marks in millimetres.
+//! Layout: a figure's numbers → a scene of marks in millimetres, or why they do not fit.
 //!
-//! The page is built from the outside in: title and legend at the top, caption and x-axis
-//! title at the bottom, the y-axis title and tick labels on the left, then a grid of panels
-//! that share the y axis. Every piece of text is measured with the bundled font before it is
-//! placed, so text never overlaps the plot or runs off the page; long category labels wrap,
-//! then shrink, then turn upright.
+//! The page is solved from the outside in ([`solve`]): every piece of text is measured with the
+//! bundled font before it is placed; long category labels wrap, stagger, shrink to 6 pt or turn
+//! upright, ordered ones thin; the panel grid takes the arrangement that leaves the largest
+//! panels. Nothing is shrunk below a legible size (see [`style`]): when the content cannot fit
+//! the figure's size, [`layout`] still draws it, and says what does not fit and the smallest
+//! size that would ([`Crowding`]); the build turns that into F0124, or W0003 under
+//! `--allow-crowding`.
+//!
+//! The legend goes into a corner of a panel that the data leave empty ([`room`]), else across
+//! the top. The key under the plot names every summary mark.
+//!
+//! Guarantee: in a figure without [`Crowding`], no two pieces of text overlap and every piece
+//! of text lies inside the page ([`crate::scene::Scene::text_boxes`]; `tests/layout.rs` checks
+//! it on every example and a stress set).
 //!
 //! Invariant: no I/O and no statistics here — positions only.
 
 mod axis;
+mod crowding;
+mod frame;
+mod labels;
 mod layer;
 mod legend;
+mod room;
+mod solve;
 mod style;
 mod text;
 
 use crate::check::plan::FigurePlan;
-use crate::compute::{FigureData, Levels, XScale, YScale};
-use crate::scene::{Fill, Mark, Point, Rect, Scene, Stroke, TextAlign, TextBaseline, TextStyle};
+use crate::compute::{FigureData, XScale};
+use crate::scene::{Colour, Fill, Mark, Rect, Scene, TextAlign};
 
 pub use axis::{format_tick, NumAxisMap};
+pub use crowding::Crowding;
+pub use style::MIN_TEXT_PT;
+
+use legend::{LegendBlock, Swatch};
+use solve::{LegendSpace, Page, XAxis, YAxis};
 use style::*;
 
 /// How a figure maps data to one panel's rectangle.
@@ -27,6 +46,8 @@ pub(crate) struct PanelFrame<'a> {
     pub x: XMap<'a>,
     pub y: YMap<'a>,
     pub n_groups: usize,
+    /// One colour per colour group (empty without groups).
+    pub colours: &'a [Colour],
     /// The figure shows every value as a dot (bars under them are pale; box outliers are not
     /// drawn twice).
     pub shows_points: bool,
@@ -71,472 +92,23 @@ impl PanelFrame<'_> {
         };
         self.rect.y + self.rect.height * (1.0 - frac)
     }
-}
 
-/// How category labels under the x axis are set.
-struct CategoryLabels {
-    lines: Vec<Vec<String>>,
-    style: TextStyle,
-    upright: bool,
-    height: f64,
-}
-
-/// Lays out a figure.
-pub fn layout(plan: &FigurePlan, data: &FigureData) -> Scene {
-    let (w, h) = (plan.width_mm, plan.height_mm);
-    let mut marks = vec![Mark::Rect {
-        x: 0.0,
-        y: 0.0,
-        width: w,
-        height: h,
-        fill: Some(Fill::solid(crate::scene::Colour::WHITE)),
-        stroke: None,
-    }];
-    let inner_w = w - 2.0 * MARGIN_MM;
-    let mut top = MARGIN_MM;
-    if let Some(t) = &plan.title {
-        top = stacked_text(&mut marks, t, title(), inner_w, top) + GAP_MM * 1.5;
-    }
-    if let Some(legend) = &data.legend {
-        top = legend::draw(&mut marks, legend, inner_w, top) + GAP_MM;
-    }
-    let mut bottom = h - MARGIN_MM;
-    if let Some(c) = &plan.caption {
-        let lines = text::wrap(c, &caption(), inner_w);
-        bottom -= lines.len() as f64 * text::line_height(&caption());
-        stacked_lines(&mut marks, &lines, caption(), bottom);
-        bottom -= GAP_MM * 1.5;
-    }
-    let x_title = match &data.x {
-        XScale::Categories { title, .. } => title,
-        XScale::Numbers(s) => &s.title,
-    };
-    let x_title_baseline = bottom - font_descent(&axis_title());
-    bottom -= text::line_height(&axis_title()) + GAP_MM;
-
-    // Plan the grid twice: the number of y ticks depends on the panels' height, and the left
-    // margin on the width of the tick labels.
-    let area = Area {
-        top,
-        bottom,
-        width: w,
-    };
-    let first = Grid::plan(plan, data, &area, 5);
-    let grid = Grid::plan(plan, data, &area, first.y_tick_target());
-    let y_map = match &grid.y_axis {
-        Some(a) => YMap::Numbers(a),
-        None => YMap::Levels {
-            n: grid.y_labels.len(),
-        },
-    };
-    let shows_points = plan
-        .layers
-        .iter()
-        .any(|l| l.decl.shows == crate::check::layer::Shows::Values);
-    for (i, panel) in data.panels.iter().enumerate() {
-        let rect = grid.panel_rect(i);
-        let frame = PanelFrame {
-            rect,
-            x: match (&grid.x_axis, &data.x) {
-                (Some(a), _) => XMap::Numbers(a),
-                (None, XScale::Categories { levels, .. }) => XMap::Bands { n: levels.len() },
-                (None, XScale::Numbers(_)) => XMap::Bands { n: 1 },
-            },
-            y: match &y_map {
-                YMap::Numbers(a) => YMap::Numbers(a),
-                YMap::Levels { n } => YMap::Levels { n: *n },
-            },
-            n_groups: data.legend.as_ref().map_or(1, |l| l.levels.len()),
-            shows_points,
-            width_peak: data.width_peak,
-        };
-        if plan.panels.is_some() {
-            let at = Point::new(
-                rect.x + rect.width / 2.0,
-                rect.y - GAP_MM - font_descent(&panel_label()),
-            );
-            marks.push(text::label(
-                &panel.label,
-                at,
-                panel_label(),
-                TextAlign::Middle,
-                TextBaseline::Alphabetic,
-            ));
-        }
-        if !grid.y_hidden {
-            draw_y_grid(
-                &mut marks,
-                &frame,
-                &y_map,
-                &grid.y_labels,
-                i % grid.cols == 0,
-            );
-        }
-        marks.push(Mark::Clip {
-            rect: frame.rect,
-            marks: layer::draw(&frame, panel),
-        });
-        let n_by_x = grid.shows_n.then_some(&panel.n_by_x);
-        draw_x_axis(
-            &mut marks,
-            &frame,
-            &grid.x_axis,
-            grid.cat_labels.as_ref(),
-            XAxisExtras {
-                n_by_x,
-                axis_line: !grid.y_hidden,
-            },
-        );
-    }
-    let (plot_top, plot_bottom) = grid.plot_span();
-    if !grid.y_hidden {
-        marks.push(text::upward(
-            &grid.y_title,
-            Point::new(MARGIN_MM, (plot_top + plot_bottom) / 2.0),
-            axis_title(),
-        ));
-    }
-    let x_centre = (grid.left + grid.right) / 2.0;
-    marks.push(text::label(
-        x_title,
-        Point::new(x_centre, x_title_baseline),
-        axis_title(),
-        TextAlign::Middle,
-        TextBaseline::Alphabetic,
-    ));
-    Scene {
-        width_mm: w,
-        height_mm: h,
-        title: plan.title.clone(),
-        description: plan.caption.clone(),
-        marks,
-    }
-}
-
-/// The page area left for the panels and their axes.
-struct Area {
-    top: f64,
-    bottom: f64,
-    width: f64,
-}
-
-/// Where the panels go, and the axes they share.
-struct Grid {
-    y_axis: Option<NumAxisMap>,
-    /// No y axis at all (flows): no ticks, grid, axis lines or y title.
-    y_hidden: bool,
-    x_axis: Option<NumAxisMap>,
-    y_title: String,
-    y_labels: Vec<String>,
-    cat_labels: Option<CategoryLabels>,
-    shows_n: bool,
-    left: f64,
-    right: f64,
-    top: f64,
-    cols: usize,
-    rows: usize,
-    panel_w: f64,
-    panel_h: f64,
-    strip_h: f64,
-    x_labels_h: f64,
-}
-
-/// Narrowest panel worth drawing before the grid wraps onto another row.
-const MIN_PANEL_MM: f64 = 24.0;
-/// Vertical room per y tick the axis aims for.
-const MM_PER_Y_TICK: f64 = 9.0;
-
-impl Grid {
-    fn plan(plan: &FigurePlan, data: &FigureData, area: &Area, y_ticks: usize) -> Grid {
-        let y_axis = match &data.y {
-            YScale::Numbers(s) => Some(NumAxisMap::new(s, y_ticks)),
-            YScale::Categories { .. } | YScale::Hidden => None,
-        };
-        let x_axis = match &data.x {
-            XScale::Numbers(s) => Some(NumAxisMap::new(s, 5)),
-            XScale::Categories { .. } => None,
-        };
-        let (y_title, y_labels) = match (&data.y, &y_axis) {
-            (YScale::Numbers(s), Some(a)) => (s.title.clone(), a.labels.clone()),
-            (YScale::Categories { title, levels }, _) => (title.clone(), levels.labels.clone()),
-            _ => (String::new(), Vec::new()),
-        };
-        let tick_w = y_labels
-            .iter()
-            .map(|l| text::width(l, &tick_label()))
-            .fold(0.0, f64::max);
-        let y_hidden = data.y == YScale::Hidden;
-        let left = if y_hidden {
-            MARGIN_MM
+    /// The colour of the data marks of group `g`: the group's colour, or the one data colour
+    /// of a figure without groups.
+    pub fn colour(&self, g: usize) -> Colour {
+        if self.n_groups > 1 || !self.colours.is_empty() {
+            self.colours.get(g).copied().unwrap_or(INK)
         } else {
-            MARGIN_MM + text::line_height(&axis_title()) + GAP_MM * 1.5 + tick_w + GAP_MM + TICK_MM
-        };
-        let right = area.width - MARGIN_MM - right_overhang(&x_axis);
-        let n_panels = data.panels.len().max(1);
-        let width_for =
-            |cols: usize| (right - left - PANEL_GAP_MM * (cols - 1) as f64) / cols as f64;
-        let cols = (1..=n_panels)
-            .rev()
-            .find(|&c| width_for(c) >= MIN_PANEL_MM)
-            .unwrap_or(1);
-        let rows = n_panels.div_ceil(cols);
-        let panel_w = width_for(cols);
-        let strip_h = if plan.panels.is_some() {
-            text::line_height(&panel_label()) + GAP_MM
+            DATA_COLOUR
+        }
+    }
+
+    /// Summary marks are ink when there is one group, and the group's colour otherwise.
+    pub fn summary_colour(&self, g: usize) -> Colour {
+        if self.n_groups > 1 {
+            self.colour(g)
         } else {
-            0.0
-        };
-        let cat_labels = match &data.x {
-            XScale::Categories { levels, .. } => Some(category_labels(levels, panel_w)),
-            XScale::Numbers(_) => None,
-        };
-        let shows_n = cat_labels.is_some() && data.panels.iter().any(|p| !p.n_by_x.is_empty());
-        let x_labels_h = TICK_MM
-            + GAP_MM
-            + match &cat_labels {
-                Some(c) => {
-                    c.height
-                        + if shows_n {
-                            text::line_height(&n_label()) + 0.3
-                        } else {
-                            0.0
-                        }
-                }
-                None => text::line_height(&tick_label()),
-            };
-        let top = area.top + text::line_height(&tick_label()) / 2.0;
-        let avail = area.bottom - top - (rows - 1) as f64 * PANEL_GAP_MM;
-        let panel_h = (avail / rows as f64 - strip_h - x_labels_h).max(5.0);
-        Grid {
-            y_axis,
-            y_hidden,
-            x_axis,
-            y_title,
-            y_labels,
-            cat_labels,
-            shows_n,
-            left,
-            right,
-            top,
-            cols,
-            rows,
-            panel_w,
-            panel_h,
-            strip_h,
-            x_labels_h,
-        }
-    }
-
-    /// Ticks the y axis should aim for, given the panels' height.
-    fn y_tick_target(&self) -> usize {
-        ((self.panel_h / MM_PER_Y_TICK).floor() as usize + 1).clamp(3, 7)
-    }
-
-    fn row_height(&self) -> f64 {
-        self.strip_h + self.panel_h + self.x_labels_h + PANEL_GAP_MM
-    }
-
-    fn panel_rect(&self, i: usize) -> Rect {
-        let (row, col) = (i / self.cols, i % self.cols);
-        let x0 = self.left + col as f64 * (self.panel_w + PANEL_GAP_MM);
-        let y0 = self.top + row as f64 * self.row_height() + self.strip_h;
-        Rect::new(x0, y0, self.panel_w, self.panel_h)
-    }
-
-    /// Top of the first row of plots and bottom of the last.
-    fn plot_span(&self) -> (f64, f64) {
-        let first = self.top + self.strip_h;
-        let last =
-            self.top + (self.rows - 1) as f64 * self.row_height() + self.strip_h + self.panel_h;
-        (first, last)
-    }
-}
-
-fn font_descent(style: &TextStyle) -> f64 {
-    crate::font::measure("g", style).descent_mm
-}
-
-/// Room a numeric x axis's last tick label needs beyond the plot's right edge.
-fn right_overhang(x_axis: &Option<NumAxisMap>) -> f64 {
-    x_axis
-        .as_ref()
-        .and_then(|a| a.labels.last())
-        .map_or(0.0, |l| text::width(l, &tick_label()) / 2.0)
-}
-
-/// Wrapped lines starting at `top`; returns the new top.
-fn stacked_text(marks: &mut Vec<Mark>, t: &str, style: TextStyle, width: f64, top: f64) -> f64 {
-    let lines = text::wrap(t, &style, width);
-    stacked_lines(marks, &lines, style, top);
-    top + lines.len() as f64 * text::line_height(&style)
-}
-
-fn stacked_lines(marks: &mut Vec<Mark>, lines: &[String], style: TextStyle, top: f64) {
-    let lh = text::line_height(&style);
-    for (i, line) in lines.iter().enumerate() {
-        marks.push(text::label(
-            line,
-            Point::new(MARGIN_MM, top + i as f64 * lh),
-            style,
-            TextAlign::Start,
-            TextBaseline::Top,
-        ));
-    }
-}
-
-/// Chooses how category labels fit their bands: one line, wrapped, smaller, or upright.
-fn category_labels(levels: &Levels, panel_w: f64) -> CategoryLabels {
-    let band = panel_w / levels.len().max(1) as f64 - 0.8;
-    for style in [tick_label(), small_tick_label()] {
-        let lines: Vec<Vec<String>> = levels
-            .labels
-            .iter()
-            .map(|l| text::wrap(l, &style, band))
-            .collect();
-        let fits = lines
-            .iter()
-            .flatten()
-            .all(|l| text::width(l, &style) <= band);
-        let max_lines = lines.iter().map(Vec::len).max().unwrap_or(1);
-        if fits && max_lines <= 2 {
-            return CategoryLabels {
-                height: max_lines as f64 * text::line_height(&style),
-                lines,
-                style,
-                upright: false,
-            };
-        }
-    }
-    let style = small_tick_label();
-    let longest = levels
-        .labels
-        .iter()
-        .map(|l| text::width(l, &style))
-        .fold(0.0, f64::max);
-    CategoryLabels {
-        lines: levels.labels.iter().map(|l| vec![l.clone()]).collect(),
-        style,
-        upright: true,
-        height: longest,
-    }
-}
-
-fn draw_y_grid(
-    marks: &mut Vec<Mark>,
-    frame: &PanelFrame,
-    y_map: &YMap,
-    labels: &[String],
-    with_labels: bool,
-) {
-    let r = frame.rect;
-    let positions: Vec<f64> = match y_map {
-        YMap::Numbers(a) => a.ticks.iter().map(|t| frame.y(*t)).collect(),
-        YMap::Levels { n } => (0..*n).map(|i| frame.y(i as f64)).collect(),
-    };
-    for (pos, label) in positions.iter().zip(labels) {
-        marks.push(Mark::Line {
-            points: vec![Point::new(r.x, *pos), Point::new(r.x + r.width, *pos)],
-            stroke: Stroke::solid(GRID, GRID_WIDTH_MM),
-        });
-        marks.push(Mark::Line {
-            points: vec![Point::new(r.x - TICK_MM, *pos), Point::new(r.x, *pos)],
-            stroke: Stroke::solid(INK, AXIS_WIDTH_MM),
-        });
-        if with_labels {
-            marks.push(text::label(
-                label,
-                Point::new(r.x - TICK_MM - GAP_MM, *pos),
-                tick_label(),
-                TextAlign::End,
-                TextBaseline::Middle,
-            ));
-        }
-    }
-    marks.push(Mark::Line {
-        points: vec![Point::new(r.x, r.y), Point::new(r.x, r.y + r.height)],
-        stroke: Stroke::solid(INK, AXIS_WIDTH_MM),
-    });
-}
-
-/// What the x axis shows besides its labels.
-struct XAxisExtras<'a> {
-    /// `n = ` under each category.
-    n_by_x: Option<&'a Vec<usize>>,
-    /// The axis line and ticks (left out when there is no y axis either).
-    axis_line: bool,
-}
-
-fn draw_x_axis(
-    marks: &mut Vec<Mark>,
-    frame: &PanelFrame,
-    x_axis: &Option<NumAxisMap>,
-    cats: Option<&CategoryLabels>,
-    extras: XAxisExtras,
-) {
-    let r = frame.rect;
-    let base = r.y + r.height;
-    if extras.axis_line {
-        marks.push(Mark::Line {
-            points: vec![Point::new(r.x, base), Point::new(r.x + r.width, base)],
-            stroke: Stroke::solid(INK, AXIS_WIDTH_MM),
-        });
-    }
-    let label_top = base + TICK_MM + GAP_MM;
-    if let Some(a) = x_axis {
-        for (t, l) in a.ticks.iter().zip(&a.labels) {
-            let x = frame.x_num(*t);
-            marks.push(Mark::Line {
-                points: vec![Point::new(x, base), Point::new(x, base + TICK_MM)],
-                stroke: Stroke::solid(INK, AXIS_WIDTH_MM),
-            });
-            marks.push(text::label(
-                l,
-                Point::new(x, label_top),
-                tick_label(),
-                TextAlign::Middle,
-                TextBaseline::Top,
-            ));
-        }
-        return;
-    }
-    let Some(cats) = cats else { return };
-    let lh = text::line_height(&cats.style);
-    for (slot, lines) in cats.lines.iter().enumerate() {
-        let (centre, _) = band_slot(r, cats.lines.len(), 1, slot, 0);
-        if extras.axis_line {
-            marks.push(Mark::Line {
-                points: vec![Point::new(centre, base), Point::new(centre, base + TICK_MM)],
-                stroke: Stroke::solid(INK, AXIS_WIDTH_MM),
-            });
-        }
-        if cats.upright {
-            marks.push(Mark::Text(crate::scene::TextMark {
-                at: Point::new(centre, label_top),
-                text: lines.join(" "),
-                style: cats.style,
-                align: TextAlign::End,
-                baseline: TextBaseline::Middle,
-                rotation: crate::scene::TextRotation::Up,
-            }));
-        } else {
-            for (i, line) in lines.iter().enumerate() {
-                marks.push(text::label(
-                    line,
-                    Point::new(centre, label_top + i as f64 * lh),
-                    cats.style,
-                    TextAlign::Middle,
-                    TextBaseline::Top,
-                ));
-            }
-        }
-        if let Some(n) = extras.n_by_x.and_then(|n| n.get(slot)) {
-            marks.push(text::label(
-                &format!("n = {n}"),
-                Point::new(centre, label_top + cats.height + 0.3),
-                n_label(),
-                TextAlign::Middle,
-                TextBaseline::Top,
-            ));
+            INK
         }
     }
 }
@@ -550,4 +122,191 @@ fn band_slot(rect: Rect, n: usize, n_groups: usize, slot: usize, g: usize) -> (f
         rect.x + band * slot as f64 + (band - used) / 2.0 + gw * (g as f64 + 0.5),
         gw,
     )
+}
+
+/// A laid-out figure: its scene, and what did not fit when its content is too much for its
+/// size (the scene is then drawn anyway, crowded).
+#[derive(Debug, Clone)]
+pub struct Laid {
+    pub scene: Scene,
+    pub crowding: Option<Crowding>,
+}
+
+/// Lays out a figure at its size.
+pub fn layout(plan: &FigurePlan, data: &FigureData) -> Laid {
+    let size = (plan.width_mm, plan.height_mm);
+    if let Some(legend) = &data.legend {
+        let inside = solve::solve(plan, data, size, LegendSpace::Inside, None);
+        if inside.problems.is_empty() {
+            let drawn = draw(plan, data, &inside);
+            if let Some(legend_marks) = corner_legend(legend, data, &drawn.corner) {
+                let mut marks = drawn.marks;
+                marks.extend(legend_marks);
+                return Laid {
+                    scene: scene(plan, &inside, marks),
+                    crowding: None,
+                };
+            }
+        }
+    }
+    let mut page = solve::solve(plan, data, size, LegendSpace::Top, None);
+    let crowding = (!page.problems.is_empty()).then(|| Crowding::new(plan, data));
+    if let Some(cols) = crowding.as_ref().and_then(|c| c.cols) {
+        // Crowded: drawn with the grid it would have at the size that fits.
+        page = solve::solve(plan, data, size, LegendSpace::Top, Some(cols));
+    }
+    let mut marks = draw(plan, data, &page).marks;
+    if let Some(legend) = &data.legend {
+        let inner = page.width - 2.0 * MARGIN_MM;
+        let swatch = Swatch::for_panel(data.panels.first());
+        let block = LegendBlock::new(legend, swatch, inner * LEGEND_LABEL_SHARE);
+        let top = page.legend_top.unwrap_or(MARGIN_MM);
+        marks.extend(block.rows_marks(MARGIN_MM, top, inner));
+    }
+    Laid {
+        scene: scene(plan, &page, marks),
+        crowding,
+    }
+}
+
+/// The legend as a column in a free corner of the top-right panel, if one is free.
+fn corner_legend(
+    legend: &crate::compute::Legend,
+    data: &FigureData,
+    corner: &Option<(Rect, Vec<Mark>)>,
+) -> Option<Vec<Mark>> {
+    let (rect, drawn) = corner.as_ref()?;
+    let label_w = rect.width * LEGEND_LABEL_SHARE;
+    let block = LegendBlock::new(legend, Swatch::for_panel(data.panels.first()), label_w);
+    if !block.fits(label_w) {
+        return None;
+    }
+    let place = room::free_corner(*rect, block.column_size(), drawn)?;
+    Some(block.column_marks(place))
+}
+
+fn scene(plan: &FigurePlan, page: &Page, marks: Vec<Mark>) -> Scene {
+    Scene {
+        width_mm: page.width,
+        height_mm: page.height,
+        title: plan.title.clone(),
+        description: plan.caption.clone(),
+        marks,
+    }
+}
+
+/// The page at `size` with the legend on top, its grid held at `cols` columns if given.
+pub(crate) fn page_at(
+    plan: &FigurePlan,
+    data: &FigureData,
+    size: (f64, f64),
+    cols: Option<usize>,
+) -> Page {
+    solve::solve(plan, data, size, LegendSpace::Top, cols)
+}
+
+/// A page drawn without its legend, and the data area and marks of the top-right panel (where
+/// a legend may go into a free corner).
+struct Drawn {
+    marks: Vec<Mark>,
+    corner: Option<(Rect, Vec<Mark>)>,
+}
+
+/// Draws a solved page, all but the legend.
+fn draw(plan: &FigurePlan, data: &FigureData, page: &Page) -> Drawn {
+    let grid = &page.grid;
+    let mut marks = vec![Mark::Rect {
+        x: 0.0,
+        y: 0.0,
+        width: page.width,
+        height: page.height,
+        fill: Some(Fill::solid(Colour::WHITE)),
+        stroke: None,
+    }];
+    for placed in [&page.title, &page.y_title, &page.key, &page.caption]
+        .into_iter()
+        .flatten()
+    {
+        marks.extend(placed.text.marks(MARGIN_MM, placed.top));
+    }
+    // The x-axis title is centred under the panels, but never runs off the page.
+    let (plot_left, plot_right) = grid.span_x();
+    let x_title = &page.x_title;
+    let half = text::widest(&x_title.text.lines, &x_title.text.style) / 2.0;
+    let centre = ((plot_left + plot_right) / 2.0)
+        .min(page.width - MARGIN_MM - half)
+        .max(MARGIN_MM + half);
+    marks.extend(x_title.text.aligned(centre, x_title.top, TextAlign::Middle));
+    let y_map = match &grid.y {
+        YAxis::Numbers { map, .. } => YMap::Numbers(map),
+        YAxis::Levels { labels, .. } => YMap::Levels { n: labels.len() },
+        YAxis::Hidden => YMap::Levels { n: 1 },
+    };
+    let colours: &[Colour] = data.legend.as_ref().map_or(&[], |l| &l.colours);
+    let shows_points = plan
+        .layers
+        .iter()
+        .any(|l| l.decl.shows == crate::check::layer::Shows::Values);
+    let mut corner_panel: Option<(Rect, Vec<Mark>)> = None;
+    let corner_index = grid.cols.min(data.panels.len()).saturating_sub(1);
+    for (i, panel) in data.panels.iter().enumerate() {
+        let rect = grid.panel_rect(i);
+        let frame = PanelFrame {
+            rect,
+            x: match (&grid.x, &data.x) {
+                (XAxis::Numbers { map, .. }, _) => XMap::Numbers(map),
+                (XAxis::Categories(_), XScale::Categories { levels, .. }) => {
+                    XMap::Bands { n: levels.len() }
+                }
+                (XAxis::Categories(_), XScale::Numbers(_)) => XMap::Bands { n: 1 },
+            },
+            y: match &y_map {
+                YMap::Numbers(a) => YMap::Numbers(a),
+                YMap::Levels { n } => YMap::Levels { n: *n },
+            },
+            n_groups: data.legend.as_ref().map_or(1, |l| l.levels.len()),
+            colours,
+            shows_points,
+            width_peak: data.width_peak,
+        };
+        let labelled = i % grid.cols == 0;
+        if let Some(lines) = grid.panel_labels.get(i).filter(|l| !l.is_empty()) {
+            let label = text::Paragraph {
+                lines: lines.clone(),
+                style: panel_label(),
+            };
+            marks.extend(label.marks(rect.x, rect.y - grid.head_room - grid.strip_h));
+        }
+        if plan.grid {
+            frame::grid_lines(&mut marks, &frame, &grid.y);
+        }
+        frame::y_axis(&mut marks, &frame, &grid.y, labelled);
+        let drawn = layer::draw(&frame, panel);
+        if i == corner_index {
+            corner_panel = Some((rect, drawn.clone()));
+        }
+        // Marks are cut off just outside the data area, so a dot on its edge stays whole.
+        marks.push(Mark::Clip {
+            rect: rect.grown(CLIP_GRACE_MM),
+            marks: drawn,
+        });
+        frame::x_axis(
+            &mut marks,
+            &frame,
+            &grid.x,
+            !matches!(grid.y, YAxis::Hidden),
+        );
+        if let Some(row) = grid.n_rows.get(i) {
+            let labels_h = match &grid.x {
+                XAxis::Categories(c) => c.height,
+                XAxis::Numbers { .. } => 0.0,
+            };
+            let top = frame::labels_top(rect) + labels_h + GAP_MM / 2.0;
+            frame::n_row(&mut marks, rect, row, top, labelled.then_some(colours));
+        }
+    }
+    Drawn {
+        marks,
+        corner: corner_panel,
+    }
 }

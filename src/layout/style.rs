@@ -1,29 +1,90 @@
-//! The figure's look in one place: type sizes, line widths, spacing and colours.
+//! The figure's look in one place: type sizes, line widths, spacing, colours and the smallest
+//! sizes layout may use.
 //!
-//! Sizes are for the final printed figure (text 6.5–9 pt, the range journals ask for).
-//! Colours of groups come from the Okabe–Ito palette (see [`crate::colour::palette`]).
+//! The house style, from these principles (the reference's §10 states them for users):
+//! - **Ink for data.** No background, no panel border, no grid lines unless asked for (`grid`,
+//!   faint); axes are thin, grey and set apart from the data.
+//! - **Range frames** (Tufte 1983, *The Visual Display of Quantitative Information*): an axis
+//!   line spans only the range of the data it shows, so the frame itself reports the minimum and
+//!   maximum; ticks point outwards, away from the data; each axis stands a small offset away from
+//!   the data area, so no mark sits on an axis line.
+//! - **Titles that read horizontally.** The y-axis title is a short heading above the y axis,
+//!   read without turning the page; panel labels sit at the panel's left edge, like headings.
+//! - **No title inside the figure by default.** Journals print the title in the caption; a
+//!   `title` names the figure in the SVG (for screen readers) and is drawn only on request.
+//! - **n as a table row.** The n of each category is a row of numbers under the axis, with `n`
+//!   as the row's heading, not a repeated `n = ` under every label.
+//! - **Marks explain themselves**: a key under the plot names every summary mark.
+//!
+//! Sizes are for the final printed figure: text from [`MIN_TEXT_PT`] (6 pt) to 9 pt, the range
+//! journals ask for. Layout never sets text smaller than [`MIN_TEXT_PT`], a panel narrower than
+//! [`MIN_PANEL_WIDTH_MM`] or shorter than [`MIN_PANEL_HEIGHT_MM`]: when a figure cannot hold its
+//! content at its size, it says so (F0124) instead of shrinking it further.
 
-use crate::colour::palette;
 use crate::scene::{Colour, TextStyle, Weight};
 
-/// Ink for text, axes and summary marks.
-pub const INK: Colour = Colour::from_hex(0x222222);
-/// Secondary text (n labels, caption).
-pub const MUTED: Colour = Colour::from_hex(0x666666);
-/// Reference lines at the y ticks.
-pub const GRID: Colour = Colour::from_hex(0xE8E8E8);
+/// Ink for text and summary marks.
+pub const INK: Colour = Colour::from_hex(0x1A1A1A);
+/// Axis lines and ticks.
+pub const AXIS_INK: Colour = Colour::from_hex(0x5C5C5C);
+/// Secondary text (n, key, caption).
+pub const MUTED: Colour = Colour::from_hex(0x595959);
+/// Reference lines at the y ticks, drawn only on request (`grid`).
+pub const GRID: Colour = Colour::from_hex(0xEBEBEB);
+/// Data marks of a figure without colour groups.
+pub const DATA_COLOUR: Colour = Colour::from_hex(0x0072B2);
 
-pub const MARGIN_MM: f64 = 2.5;
-pub const GAP_MM: f64 = 1.2;
+/// Smallest text layout may set.
+pub const MIN_TEXT_PT: f64 = 6.0;
+/// Narrowest and shortest data area of a panel.
+pub const MIN_PANEL_WIDTH_MM: f64 = 12.0;
+pub const MIN_PANEL_HEIGHT_MM: f64 = 10.0;
+/// Most lines a category label, a panel label or a legend label may wrap onto.
+pub const MAX_LABEL_LINES: usize = 2;
+
+pub const MARGIN_MM: f64 = 2.0;
+pub const GAP_MM: f64 = 1.0;
+/// Smallest clear space between two pieces of text side by side.
+pub const TEXT_GAP_MM: f64 = 1.2;
+/// Length of a tick, outside the axis line.
 pub const TICK_MM: f64 = 1.0;
-pub const PANEL_GAP_MM: f64 = 4.0;
-pub const AXIS_WIDTH_MM: f64 = 0.25;
-pub const GRID_WIDTH_MM: f64 = 0.2;
+/// Clear space between the data area and an axis line.
+pub const AXIS_OFFSET_MM: f64 = 1.5;
+/// How far beyond the data area marks are still drawn (a dot on the edge stays whole); less
+/// than [`AXIS_OFFSET_MM`], so no mark reaches an axis.
+pub const CLIP_GRACE_MM: f64 = 0.8;
+/// Clear space between panels side by side (besides the next panel's y ticks) and between rows.
+pub const PANEL_GAP_MM: f64 = 3.0;
+pub const AXIS_WIDTH_MM: f64 = 0.2;
+pub const GRID_WIDTH_MM: f64 = 0.15;
+/// Vertical room per y tick the axis aims for, and the fewest and most ticks it aims for.
+pub const MM_PER_Y_TICK: f64 = 9.0;
+pub const Y_TICKS: (usize, usize) = (3, 7);
+/// Horizontal room per x tick a numeric x axis aims for, and the fewest and most ticks.
+pub const MM_PER_X_TICK: f64 = 16.0;
+pub const X_TICKS: (usize, usize) = (2, 7);
+/// Clear space between y labels one above the other, and between upright labels side by side.
+pub const Y_LABEL_GAP_MM: f64 = 0.6;
+pub const UPRIGHT_GAP_MM: f64 = 0.4;
+/// Space under a drawn title.
+pub const TITLE_GAP_MM: f64 = 1.5;
+/// The panels' shape the grid prefers: the score of a grid is the smaller of a panel's width
+/// and this times its height.
+pub const PANEL_ASPECT: f64 = 1.3;
+/// Share of a category's band that its groups use (the rest separates categories).
+pub const BAND_FILL: f64 = 0.8;
+/// Padding added beyond the data at each end of a numeric axis, as a share of its span.
+pub const AXIS_PAD: f64 = 0.04;
+
 pub const POINT_RADIUS_MM: f64 = 0.55;
 pub const POINT_OPACITY: f64 = 0.6;
+/// A cell with more dots than [`crate::compute::POINTS_PER_CELL_CAP`] (where `points` warn)
+/// is drawn as one shape: overlapping dots no longer darken, and dots closer than this are
+/// drawn once. This keeps files small and fast to draw.
+pub const MERGED_DOT_GRID_MM: f64 = 0.25;
 pub const LINE_OPACITY: f64 = 0.4;
 /// Bars (counts, means) alone, and under points.
-pub const BAR_OPACITY: f64 = 0.75;
+pub const BAR_OPACITY: f64 = 0.8;
 pub const BAR_UNDER_POINTS_OPACITY: f64 = 0.25;
 pub const LINE_WIDTH_MM: f64 = 0.25;
 pub const BOX_LINE_MM: f64 = 0.3;
@@ -33,18 +94,15 @@ pub const ERROR_LINE_MM: f64 = 0.35;
 pub const CAP_MM: f64 = 2.2;
 /// Extra width of the white line drawn under an interval so it stands out from the points.
 pub const HALO_MM: f64 = 0.5;
-/// Share of a category's band that its groups use (the rest separates categories).
-pub const BAND_FILL: f64 = 0.8;
-/// Padding added beyond the data at each end of a numeric axis, as a share of its span.
-pub const AXIS_PAD: f64 = 0.04;
 /// Share of a group's band a bar (counts, means) takes.
 pub const BAR_SHARE: f64 = 0.85;
-/// Histogram bars alone, and overlapping colour groups (outlined in their colour).
+/// Histogram bars of one group; hairline separators between bins are drawn only when bins
+/// are at least [`BIN_SEPARATOR_MIN_MM`] wide, so many narrow bins never turn white.
 pub const BIN_OPACITY: f64 = 0.8;
-pub const BIN_OVERLAY_OPACITY: f64 = 0.45;
-pub const BIN_EDGE_MM: f64 = 0.2;
+pub const BIN_SEPARATOR_MM: f64 = 0.12;
+pub const BIN_SEPARATOR_MIN_MM: f64 = 1.0;
 pub const DENSITY_AREA_OPACITY: f64 = 0.15;
-/// Lines of distribution curves (density, cumulative distribution).
+/// Lines of distribution curves (density, cumulative distribution, outlined histograms).
 pub const CURVE_LINE_MM: f64 = 0.4;
 /// A box's width as a share of its group's band, and at most this.
 pub const BOX_WIDTH_SHARE: f64 = 0.5;
@@ -64,7 +122,8 @@ pub const FIT_BAND_OPACITY: f64 = 0.18;
 pub const VIOLIN_HALF_SHARE: f64 = 0.45;
 pub const VIOLIN_HALF_MAX_MM: f64 = 9.0;
 pub const VIOLIN_FILL_OPACITY: f64 = 0.25;
-/// Dashes (on, off) of the quartile lines of a violin.
+/// Dashes (on, off) of the quartile lines of a violin, and of a confidence band's edges when
+/// colour groups overlap.
 pub const QUARTILE_DASH_MM: [f64; 2] = [0.8, 0.5];
 /// Flows: share of an occasion's band taken by its stacked bar, and the bar's widest and
 /// narrowest; the gap between stacked states, and the most of the panel's height the gaps may
@@ -75,72 +134,94 @@ pub const FLOW_BAR_MIN_MM: f64 = 1.6;
 pub const FLOW_STATE_GAP_MM: f64 = 1.6;
 pub const FLOW_GAPS_MAX_SHARE: f64 = 0.25;
 pub const FLOW_RIBBON_OPACITY: f64 = 0.42;
-/// Legend: a swatch's side as a share of the line height; the gap between wrapped rows as a
-/// share of the gap.
-pub const SWATCH_SHARE: f64 = 0.7;
+/// Legend: a swatch's side as a share of the line height; the clear space kept between a
+/// legend placed inside a panel and the data.
+pub const SWATCH_SHARE: f64 = 0.75;
+pub const LEGEND_CLEARANCE_MM: f64 = 1.0;
+/// A legend label wraps at this share of the room the legend has; items in a row keep this
+/// much apart.
+pub const LEGEND_LABEL_SHARE: f64 = 0.5;
+pub const LEGEND_ITEM_GAP_MM: f64 = 3.0;
 
-pub fn title() -> TextStyle {
+fn text(size_pt: f64, weight: Weight, colour: Colour) -> TextStyle {
     TextStyle {
-        size_pt: 9.0,
-        weight: Weight::Bold,
-        colour: INK,
+        size_pt,
+        weight,
+        colour,
     }
 }
 
+/// The figure's title, when drawn (`title "..." show`).
+pub fn title() -> TextStyle {
+    text(9.0, Weight::Bold, INK)
+}
+
+/// A panel's label, above it at its left edge.
 pub fn panel_label() -> TextStyle {
-    TextStyle {
-        size_pt: 8.0,
-        weight: Weight::Bold,
-        colour: INK,
-    }
+    text(7.5, Weight::Bold, INK)
 }
 
 pub fn axis_title() -> TextStyle {
-    TextStyle {
-        size_pt: 8.0,
-        weight: Weight::Regular,
-        colour: INK,
-    }
+    text(7.5, Weight::Regular, INK)
 }
 
 pub fn tick_label() -> TextStyle {
-    TextStyle {
-        size_pt: 7.0,
-        weight: Weight::Regular,
-        colour: INK,
-    }
+    text(7.0, Weight::Regular, INK)
 }
 
 pub fn small_tick_label() -> TextStyle {
     TextStyle {
-        size_pt: 6.0,
+        size_pt: MIN_TEXT_PT,
         ..tick_label()
     }
 }
 
 pub fn n_label() -> TextStyle {
-    TextStyle {
-        size_pt: 6.0,
-        weight: Weight::Regular,
-        colour: MUTED,
-    }
+    text(MIN_TEXT_PT, Weight::Regular, MUTED)
+}
+
+/// The heading of the n row (`n`), in the y labels' column.
+pub fn n_heading() -> TextStyle {
+    text(MIN_TEXT_PT, Weight::Bold, MUTED)
+}
+
+pub fn legend_title() -> TextStyle {
+    text(7.0, Weight::Bold, INK)
 }
 
 pub fn legend_label() -> TextStyle {
     tick_label()
 }
 
-pub fn caption() -> TextStyle {
-    TextStyle {
-        size_pt: 7.0,
-        weight: Weight::Regular,
-        colour: MUTED,
-    }
+/// The key under the plot that names every summary mark.
+pub fn key_text() -> TextStyle {
+    text(6.5, Weight::Regular, MUTED)
 }
 
-/// Colour of group `g` of `n`; a figure without colour groups uses the palette's first colour.
-pub fn group_colour(g: usize, n: usize) -> Colour {
-    palette::group_colours(n.max(1))
-        .and_then(|c| c.get(g).copied())
-        .unwrap_or(INK)
+pub fn caption() -> TextStyle {
+    text(7.0, Weight::Regular, MUTED)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn no_text_style_is_below_the_minimum() {
+        for style in [
+            title(),
+            panel_label(),
+            axis_title(),
+            tick_label(),
+            small_tick_label(),
+            n_label(),
+            n_heading(),
+            legend_title(),
+            legend_label(),
+            key_text(),
+            caption(),
+        ] {
+            assert!(style.size_pt >= MIN_TEXT_PT, "{style:?}");
+        }
+    }
 }

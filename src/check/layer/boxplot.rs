@@ -5,6 +5,7 @@ use crate::syntax::ast::Term;
 
 use super::super::plan::Whiskers;
 use super::super::terms;
+use super::key::{KeyContext, MarkKey};
 use super::{Layer, LayerDecl, OptionDecl, ReadInput, Refusal, Shows, Traits, XNeed, YNeed};
 
 pub static DECL: LayerDecl = LayerDecl {
@@ -48,4 +49,19 @@ fn read(input: &ReadInput, diags: &mut Vec<Diagnostic>) -> Option<(Layer, Traits
     };
     let notch = input.opts.flag("notch").is_some();
     Some((Layer::Box(BoxOpts { whiskers, notch }), Traits::default()))
+}
+
+/// The box, its whiskers and (when no points show them) the outliers.
+pub fn key(opts: &BoxOpts, ctx: &KeyContext) -> Option<MarkKey> {
+    let meaning = match opts.whiskers {
+        Whiskers::Tukey if ctx.shows_points => "median and quartiles, whiskers to 1.5 IQR",
+        Whiskers::Tukey => "median and quartiles, whiskers to 1.5 IQR, circles beyond",
+        Whiskers::Range => "median and quartiles, whiskers to the extremes",
+    };
+    let meaning = if opts.notch {
+        format!("{meaning}; notches: median ± 1.58 IQR / sqrt(n)")
+    } else {
+        meaning.to_string()
+    };
+    Some(MarkKey::new("Boxes", meaning))
 }

@@ -4,6 +4,7 @@
 use crate::diag::{Code, Diagnostic};
 
 use super::super::plan::{ErrorBar, Heights};
+use super::key::{KeyContext, MarkKey};
 use super::{options, Layer, LayerDecl, OptionDecl, ReadInput, Shows, Traits, XNeed, YNeed};
 
 pub static DECL: LayerDecl = LayerDecl {
@@ -60,4 +61,16 @@ fn read(input: &ReadInput, diags: &mut Vec<Diagnostic>) -> Option<(Layer, Traits
         }
     };
     Some((Layer::Counts(CountsOpts { heights, ci }), Traits::default()))
+}
+
+/// Bars of counts are read off the y axis: nothing to add.
+pub fn key(opts: &CountsOpts, _ctx: &KeyContext) -> Option<MarkKey> {
+    let level = opts.ci?;
+    Some(MarkKey::new(
+        "Lines on bars",
+        format!(
+            "{} CI of each percentage (Wilson)",
+            super::key::percent(level)
+        ),
+    ))
 }

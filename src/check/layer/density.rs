@@ -3,6 +3,7 @@
 use crate::diag::Diagnostic;
 
 use super::super::plan::{Bandwidth, SummaryDetail};
+use super::key::{self, KeyContext, MarkKey};
 use super::{options, Layer, LayerDecl, OptionDecl, ReadInput, Shows, Traits, XNeed, YNeed};
 
 pub static DECL: LayerDecl = LayerDecl {
@@ -34,4 +35,12 @@ fn read(input: &ReadInput, diags: &mut Vec<Diagnostic>) -> Option<(Layer, Traits
     let (bandwidth, summary) = options::kernel(input.opts, diags)?;
     let opts = DensityOpts { bandwidth, summary };
     Some((Layer::Density(opts), Traits::default()))
+}
+
+/// The curve and its bandwidth.
+pub fn key(opts: &DensityOpts, _ctx: &KeyContext) -> Option<MarkKey> {
+    Some(MarkKey::new(
+        "Curves",
+        format!("kernel density ({})", key::bandwidth(opts.bandwidth)),
+    ))
 }

@@ -2,6 +2,7 @@
 
 use crate::diag::Diagnostic;
 
+use super::key::{KeyContext, MarkKey};
 use super::{Layer, LayerDecl, ReadInput, Shows, Traits, XNeed, YNeed};
 
 pub static DECL: LayerDecl = LayerDecl {
@@ -24,4 +25,12 @@ pub struct EcdfOpts;
 
 fn read(_input: &ReadInput, _diags: &mut Vec<Diagnostic>) -> Option<(Layer, Traits)> {
     Some((Layer::Ecdf(EcdfOpts), Traits::default()))
+}
+
+/// The steps of the empirical distribution.
+pub fn key(_opts: &EcdfOpts, _ctx: &KeyContext) -> Option<MarkKey> {
+    Some(MarkKey::new(
+        "Steps",
+        "proportion of values at or below each x",
+    ))
 }

@@ -3,7 +3,8 @@
 
 use crate::diag::Diagnostic;
 
-use super::super::plan::{Band, SummaryDetail};
+use super::super::plan::{Band, BandKind, SummaryDetail};
+use super::key::{self, KeyContext, MarkKey};
 use super::{
     options, Layer, LayerDecl, OptionDecl, ReadInput, Refusal, Shows, Traits, XNeed, YNeed,
 };
@@ -47,4 +48,25 @@ fn read(input: &ReadInput, diags: &mut Vec<Diagnostic>) -> Option<(Layer, Traits
         summary: summary?,
     };
     Some((Layer::Fit(opts), Traits::default()))
+}
+
+/// The fitted line and its band.
+pub fn key(opts: &FitOpts, ctx: &KeyContext) -> Option<MarkKey> {
+    let line = match (ctx.x_log, ctx.y_log) {
+        (true, true) => "least squares line of log y on log x (a power law)",
+        (false, true) => "least squares line of log y on x",
+        (true, false) => "least squares line of y on log x",
+        (false, false) => "least squares line",
+    };
+    let meaning = match opts.band {
+        Some(Band { level, kind }) => {
+            let of = match kind {
+                BandKind::Mean => "CI of the mean",
+                BandKind::Prediction => "prediction interval for one new value",
+            };
+            format!("{line}, band: {} {of}", key::percent(level))
+        }
+        None => line.to_string(),
+    };
+    Some(MarkKey::new("Lines", meaning))
 }

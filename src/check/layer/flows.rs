@@ -3,6 +3,7 @@
 use crate::diag::{Code, Diagnostic};
 
 use super::super::plan::{Scale, VarId};
+use super::key::{KeyContext, MarkKey};
 use super::{options, Layer, LayerDecl, OptionDecl, ReadInput, Shows, Traits, XNeed, YNeed};
 
 pub static DECL: LayerDecl = LayerDecl {
@@ -51,4 +52,13 @@ fn read(input: &ReadInput, diags: &mut Vec<Diagnostic>) -> Option<(Layer, Traits
         ..Traits::default()
     };
     Some((Layer::Flows(FlowsOpts { by }), traits))
+}
+
+/// Stacked bars of states and ribbons of moves.
+pub fn key(_opts: &FlowsOpts, ctx: &KeyContext) -> Option<MarkKey> {
+    let subjects = ctx.subjects();
+    Some(MarkKey::new(
+        "Bars",
+        format!("{subjects} in each state; ribbons: {subjects} moving between states from one occasion to the next"),
+    ))
 }

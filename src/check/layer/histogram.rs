@@ -3,6 +3,7 @@
 use crate::diag::Diagnostic;
 
 use super::super::plan::{BinRule, Heights};
+use super::key::{KeyContext, MarkKey};
 use super::{options, Layer, LayerDecl, OptionDecl, ReadInput, Shows, Traits, XNeed, YNeed};
 
 pub static DECL: LayerDecl = LayerDecl {
@@ -42,4 +43,9 @@ fn read(input: &ReadInput, diags: &mut Vec<Diagnostic>) -> Option<(Layer, Traits
         heights: heights.unwrap_or(Heights::Count),
     };
     Some((Layer::Histogram(opts), Traits::default()))
+}
+
+/// Bars of a histogram are read off the y axis: nothing to add.
+pub fn key(_opts: &HistogramOpts, _ctx: &KeyContext) -> Option<MarkKey> {
+    None
 }

@@ -3,6 +3,7 @@
 use crate::diag::{Code, Diagnostic};
 
 use super::super::plan::{Scale, VarId};
+use super::key::{KeyContext, MarkKey};
 use super::{
     options, Layer, LayerDecl, OptionDecl, ReadInput, Refusal, Shows, Traits, XNeed, YNeed,
 };
@@ -56,4 +57,12 @@ fn read(input: &ReadInput, diags: &mut Vec<Diagnostic>) -> Option<(Layer, Traits
         ..Traits::default()
     };
     Some((Layer::Lines(LinesOpts { by }), traits))
+}
+
+/// One line per subject.
+pub fn key(_opts: &LinesOpts, ctx: &KeyContext) -> Option<MarkKey> {
+    Some(MarkKey::new(
+        "Thin lines",
+        format!("join each {}'s values", ctx.subject()),
+    ))
 }

@@ -4,6 +4,7 @@
 use crate::diag::{Code, Diagnostic, Span};
 
 use super::super::plan::{ErrorBar, Scale};
+use super::key::{self, KeyContext, MarkKey};
 use super::{
     options, Fitted, Layer, LayerDecl, OptionDecl, ReadInput, Refusal, Shows, Traits, XNeed, YNeed,
 };
@@ -118,4 +119,26 @@ fn check_within(
                 .with_help("add `subject ID` to the data block"),
         );
     }
+}
+
+/// The mean's dot (and bar), with its error bar; a within-subject interval uses complete
+/// subjects only.
+pub fn key(opts: &MeanOpts, ctx: &KeyContext) -> Option<MarkKey> {
+    let marks = if opts.bar {
+        "Bars and large dots"
+    } else {
+        "Large dots"
+    };
+    // On a log axis the mean is geometric: computed on the logs, intervals back-transformed.
+    let mut key = if ctx.y_log {
+        let mut meaning = key::with_error("geometric mean", opts.error);
+        if opts.error.is_some() {
+            meaning.push_str(", from the logs");
+        }
+        MarkKey::new(marks, meaning)
+    } else {
+        MarkKey::new(marks, key::with_error("mean", opts.error))
+    };
+    key.complete_subjects = matches!(opts.error, Some(ErrorBar::CiWithin { .. }));
+    Some(key)
 }

@@ -4,6 +4,7 @@
 use crate::diag::{Code, Diagnostic};
 
 use super::super::plan::{ErrorBar, Scale};
+use super::key::{self, KeyContext, MarkKey};
 use super::{
     options, Layer, LayerDecl, OptionDecl, ReadInput, Refusal, Shows, Traits, XNeed, YNeed,
 };
@@ -64,4 +65,21 @@ fn read(input: &ReadInput, diags: &mut Vec<Diagnostic>) -> Option<(Layer, Traits
         error: error.map(|(e, _)| e),
     };
     Some((Layer::Median(opts), Traits::default()))
+}
+
+/// A numeric median's diamond with its interval, or an ordinal median level with the
+/// quartile levels.
+pub fn key(opts: &MedianOpts, ctx: &KeyContext) -> Option<MarkKey> {
+    Some(if ctx.y_ordinal {
+        MarkKey::new("Dots and thick lines", "median level, interquartile range")
+    } else {
+        let meaning = match opts.error {
+            // The interval between two order statistics, from the binomial distribution.
+            Some(ErrorBar::Ci { level }) => {
+                format!("median, {} CI (distribution-free)", key::percent(level))
+            }
+            error => key::with_error("median", error),
+        };
+        MarkKey::new("Diamonds", meaning)
+    })
 }

@@ -11,8 +11,9 @@
 //! Guarantee: a [`LayerPlan`] holds options of the right type and in range, for a layer that
 //! fits the figure's axes ([`crate::check::Axes`]).
 //!
-//! Adding a layer: a file here with its `DECL`, its options struct and its `read` function; a
-//! variant of [`Layer`]; its declaration in [`LAYERS`]. See DEVELOPERS.md, "How to add a layer".
+//! Adding a layer: a file here with its `DECL`, its options struct, its `read` function and its
+//! `key` function (what its marks mean, for the key under the figure); a variant of [`Layer`]
+//! and its arm in [`Layer::key`]; its declaration in [`LAYERS`]. See DEVELOPERS.md, "How to add a layer".
 
 mod boxplot;
 mod counts;
@@ -21,6 +22,7 @@ mod ecdf;
 mod fit;
 mod flows;
 mod histogram;
+pub mod key;
 mod lines;
 mod mean;
 mod median;
@@ -43,6 +45,7 @@ pub use ecdf::EcdfOpts;
 pub use fit::FitOpts;
 pub use flows::FlowsOpts;
 pub use histogram::HistogramOpts;
+pub use key::{KeyContext, MarkKey};
 pub use lines::LinesOpts;
 pub use mean::MeanOpts;
 pub use median::MedianOpts;
@@ -85,6 +88,27 @@ pub enum Layer {
     Ecdf(EcdfOpts),
     Fit(FitOpts),
     Flows(FlowsOpts),
+}
+
+impl Layer {
+    /// What the layer's marks mean, for the key under the figure; `None` when the axes say it
+    /// all (bars of counts).
+    pub fn key(&self, ctx: &KeyContext) -> Option<MarkKey> {
+        match self {
+            Layer::Points(o) => points::key(o, ctx),
+            Layer::Box(o) => boxplot::key(o, ctx),
+            Layer::Violin(o) => violin::key(o, ctx),
+            Layer::Mean(o) => mean::key(o, ctx),
+            Layer::Median(o) => median::key(o, ctx),
+            Layer::Lines(o) => lines::key(o, ctx),
+            Layer::Counts(o) => counts::key(o, ctx),
+            Layer::Histogram(o) => histogram::key(o, ctx),
+            Layer::Density(o) => density::key(o, ctx),
+            Layer::Ecdf(o) => ecdf::key(o, ctx),
+            Layer::Fit(o) => fit::key(o, ctx),
+            Layer::Flows(o) => flows::key(o, ctx),
+        }
+    }
 }
 
 /// One checked layer of a figure.

@@ -2,6 +2,7 @@
 
 use crate::diag::Diagnostic;
 
+use super::key::{KeyContext, MarkKey};
 use super::{
     options, Layer, LayerDecl, OptionDecl, ReadInput, Refusal, Shows, Traits, XNeed, YNeed,
 };
@@ -34,4 +35,10 @@ fn read(input: &ReadInput, diags: &mut Vec<Diagnostic>) -> Option<(Layer, Traits
         ..Traits::default()
     };
     Some((Layer::Points(PointsOpts { jitter }), traits))
+}
+
+/// Dots are the values themselves: nothing to explain (the figure's key says how trials were
+/// averaged, when they were).
+pub fn key(_opts: &PointsOpts, _ctx: &KeyContext) -> Option<MarkKey> {
+    None
 }

@@ -3,6 +3,7 @@
 use crate::diag::Diagnostic;
 
 use super::super::plan::{Bandwidth, SummaryDetail};
+use super::key::{self, KeyContext, MarkKey};
 use super::{
     options, Layer, LayerDecl, OptionDecl, ReadInput, Refusal, Shows, Traits, XNeed, YNeed,
 };
@@ -36,4 +37,15 @@ fn read(input: &ReadInput, diags: &mut Vec<Diagnostic>) -> Option<(Layer, Traits
     let (bandwidth, summary) = options::kernel(input.opts, diags)?;
     let opts = ViolinOpts { bandwidth, summary };
     Some((Layer::Violin(opts), Traits::default()))
+}
+
+/// The density outline, with its quartile and median lines.
+pub fn key(opts: &ViolinOpts, _ctx: &KeyContext) -> Option<MarkKey> {
+    Some(MarkKey::new(
+        "Violins",
+        format!(
+            "kernel density ({}), dashed quartiles, solid median",
+            key::bandwidth(opts.bandwidth)
+        ),
+    ))
 }

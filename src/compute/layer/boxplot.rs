@@ -3,8 +3,8 @@
 //! √n` ([`stats::notch`]) under `box notch`.
 //!
 //! Summary rows per cell: `n`, `n_missing`, and when the cell has values `q1`, `median`, `q3`,
-//! (`notch_low`, `notch_high`), `whisker_low`, `whisker_high`, one `outliers` row per outlier,
-//! `min` and `max`.
+//! (`notch_low`, `notch_high`), `whisker_low`, `whisker_high`, one `outliers` row per outlier
+//! (or one `n_outliers` row beyond [`OUTLIER_ROWS_CAP`]), `min` and `max`.
 
 use crate::check::layer::BoxOpts;
 use crate::check::plan::Whiskers;
@@ -12,8 +12,27 @@ use crate::stats;
 
 use super::super::cells::Values;
 use super::super::extent::Extent;
+use super::super::summary::{RowKey, SummaryRow};
 use super::super::ComputeError;
 use super::{At, LayerMarks, LayerOutput, Stat};
+
+/// Most outliers a box lists one per row in the summary; beyond this, one `n_outliers` row
+/// counts them (the extremes are the box's `min` and `max`), unless the figure asks for the
+/// full summary.
+pub const OUTLIER_ROWS_CAP: usize = 30;
+
+/// The summary rows of a box's outliers: one per outlier up to [`OUTLIER_ROWS_CAP`] (or all,
+/// with `full`), else their count.
+pub fn outlier_rows(key: &RowKey, outliers: &[f64], full: bool) -> Vec<SummaryRow> {
+    if full || outliers.len() <= OUTLIER_ROWS_CAP {
+        outliers
+            .iter()
+            .map(|o| key.number(Stat::Outliers, *o))
+            .collect()
+    } else {
+        vec![key.count(Stat::NOutliers, outliers.len())]
+    }
+}
 
 /// A box of a box plot.
 #[derive(Debug, Clone, PartialEq)]
@@ -56,7 +75,7 @@ pub fn compute(opts: &BoxOpts, at: &At, values: &Values) -> Result<LayerOutput, 
             });
         rows.push(k.number(Stat::WhiskerLow, b.whisker_low));
         rows.push(k.number(Stat::WhiskerHigh, b.whisker_high));
-        rows.extend(b.outliers.iter().map(|o| k.number(Stat::Outliers, *o)));
+        rows.extend(outlier_rows(k, &b.outliers, false));
         rows.push(k.number(Stat::Min, b.min));
         rows.push(k.number(Stat::Max, b.max));
         y.add(b.whisker_low);

@@ -53,10 +53,7 @@ pub fn compute(_opts: &FlowsOpts, at: &At, span: Span) -> Result<LayerOutput, Co
         .map(|s| s.iter().sum::<usize>())
         .max()
         .unwrap_or(0) as f64;
-    let legend = Legend {
-        title: cells.title(y.var.var, &y.title),
-        levels: states.clone(),
-    };
+    let legend = Legend::new(cells.title(y.var.var, &y.title), states.clone());
     Ok(LayerOutput {
         width_peak,
         y_use: YUse::Hidden,

@@ -379,7 +379,8 @@ stat_table! {
     NotchHigh = "notch_high", "Upper end of the notch, `median + 1.58 · IQR / √n`: `box notch`.";
     WhiskerLow = "whisker_low", "Lower whisker end: `box`.";
     WhiskerHigh = "whisker_high", "Upper whisker end: `box`.";
-    Outliers = "outliers", "One row per outlier, ascending: `box` with `whiskers(tukey)`.";
+    Outliers = "outliers", "One row per outlier, ascending: `box` with `whiskers(tukey)`, when a box has at most 30 outliers.";
+    NOutliers = "n_outliers", "The number of outliers, in place of the `outliers` rows when a box has more than 30 (its extremes are `min` and `max`).";
     Min = "min", "Smallest value: `box`.";
     Max = "max", "Largest value: `box`.";
 }

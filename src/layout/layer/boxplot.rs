@@ -8,7 +8,6 @@ use crate::scene::{Colour, Fill, Mark, Point, Stroke};
 
 use super::super::style::*;
 use super::super::PanelFrame;
-use super::summary_colour;
 
 pub fn draw(out: &mut Vec<Mark>, frame: &PanelFrame, boxes: &[BoxMark]) {
     for b in boxes {
@@ -24,7 +23,7 @@ pub fn draw(out: &mut Vec<Mark>, frame: &PanelFrame, boxes: &[BoxMark]) {
 /// A box with its median line and whiskers.
 fn draw_box(out: &mut Vec<Mark>, frame: &PanelFrame, b: &BoxMark) {
     let (cx, gw) = frame.group_slot(b.x, b.group);
-    let colour = summary_colour(b.group, frame.n_groups);
+    let colour = frame.summary_colour(b.group);
     let half = (gw * BOX_WIDTH_SHARE).min(BOX_MAX_WIDTH_MM) / 2.0;
     let (y1, y3, ym) = (frame.y(b.q1), frame.y(b.q3), frame.y(b.median));
     let line = Stroke::solid(colour, BOX_LINE_MM);
@@ -106,7 +105,7 @@ fn notched_outline(
 /// A box's outliers, as open circles on its centre line.
 fn draw_outliers(out: &mut Vec<Mark>, frame: &PanelFrame, b: &BoxMark) {
     let (cx, _) = frame.group_slot(b.x, b.group);
-    let colour = summary_colour(b.group, frame.n_groups);
+    let colour = frame.summary_colour(b.group);
     for o in &b.outliers {
         out.push(Mark::Circle {
             centre: Point::new(cx, frame.y(*o)),

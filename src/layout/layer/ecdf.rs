@@ -19,7 +19,7 @@ pub fn draw(out: &mut Vec<Mark>, frame: &PanelFrame, marks: &[EcdfMark]) {
             level = *p;
         }
         points.push(Point::new(r.x + r.width, frame.y(level)));
-        let colour = group_colour(m.group, frame.n_groups);
+        let colour = frame.colour(m.group);
         out.push(Mark::Line {
             points,
             stroke: Stroke::solid(colour, CURVE_LINE_MM),

@@ -5,7 +5,6 @@ use crate::scene::{Fill, Mark, Point, Stroke};
 
 use super::super::style::*;
 use super::super::PanelFrame;
-use super::summary_colour;
 
 pub fn draw(out: &mut Vec<Mark>, frame: &PanelFrame, fits: &[FitMark]) {
     for f in fits {
@@ -15,7 +14,7 @@ pub fn draw(out: &mut Vec<Mark>, frame: &PanelFrame, fits: &[FitMark]) {
 
 /// A fitted line over its band.
 fn draw_fit(out: &mut Vec<Mark>, frame: &PanelFrame, f: &FitMark) {
-    let colour = summary_colour(f.group, frame.n_groups);
+    let colour = frame.summary_colour(f.group);
     if !f.band.is_empty() {
         let upper = f
             .band

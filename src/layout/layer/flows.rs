@@ -49,7 +49,7 @@ fn flow_marks(frame: &PanelFrame, flows: &FlowMarks) -> Vec<Mark> {
         .iter()
         .map(|column| stack(column, r.y, r.height, gap, per_subject))
         .collect();
-    let colour = |s: usize| group_colour(s, n_states);
+    let colour = |s: usize| frame.colour(s);
     let mut out = Vec::new();
     for (o, moves) in flows.moves.iter().enumerate() {
         let (x0, x1) = (centre(o) + bar / 2.0, centre(o + 1) - bar / 2.0);

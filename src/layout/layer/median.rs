@@ -18,7 +18,7 @@ pub fn draw(out: &mut Vec<Mark>, frame: &PanelFrame, medians: &MedianMarks) {
         MedianMarks::Levels(levels) => {
             for l in levels {
                 let (cx, _) = frame.group_slot(l.x, l.group);
-                let colour = group_colour(l.group, frame.n_groups);
+                let colour = frame.colour(l.group);
                 out.push(Mark::Line {
                     points: vec![
                         Point::new(cx, frame.y(l.q1 as f64)),

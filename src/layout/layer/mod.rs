@@ -19,7 +19,7 @@ mod violin;
 
 use crate::compute::layer::{Bar, Estimate};
 use crate::compute::{LayerMarks, PanelData};
-use crate::scene::{Colour, Fill, Mark, Point, Stroke};
+use crate::scene::{Colour, Fill, Mark, PathSegment, Point, Stroke};
 
 use super::style::*;
 use super::PanelFrame;
@@ -57,7 +57,7 @@ fn draw_bars(out: &mut Vec<Mark>, frame: &PanelFrame, bars: &[Bar]) {
     };
     for b in bars {
         let (cx, gw) = frame.group_slot(b.x, b.group);
-        let colour = group_colour(b.group, frame.n_groups);
+        let colour = frame.colour(b.group);
         let (y_top, y_zero) = (frame.y(b.height), frame.y(0.0));
         let width = gw * BAR_SHARE;
         out.push(Mark::Rect {
@@ -90,19 +90,47 @@ fn dot(centre: Point, colour: Colour) -> Mark {
     }
 }
 
-/// Summary marks use ink when there is one group, and the group's colour otherwise.
-fn summary_colour(group: usize, n_groups: usize) -> Colour {
-    if n_groups > 1 {
-        group_colour(group, n_groups)
-    } else {
-        INK
+/// Many circles of one radius as one shape: each a closed sub-path of four cubic arcs
+/// (the usual quarter-circle constant 0.5523, common practice). Centres closer than
+/// [`MERGED_DOT_GRID_MM`] (on a grid of that step) are drawn once; the shape's inside is
+/// their union, so overlaps do not darken.
+fn circles(centres: impl Iterator<Item = Point>, radius: f64) -> Vec<PathSegment> {
+    let mut cells: std::collections::BTreeSet<(i64, i64)> = std::collections::BTreeSet::new();
+    for c in centres {
+        cells.insert((
+            (c.x / MERGED_DOT_GRID_MM).round() as i64,
+            (c.y / MERGED_DOT_GRID_MM).round() as i64,
+        ));
     }
+    let k = 0.5523 * radius;
+    let mut out = Vec::with_capacity(cells.len() * 6);
+    for (i, j) in cells {
+        let (x, y) = (i as f64 * MERGED_DOT_GRID_MM, j as f64 * MERGED_DOT_GRID_MM);
+        let r = radius;
+        out.push(PathSegment::MoveTo(Point::new(x + r, y)));
+        for (c1, c2, to) in [
+            ((x + r, y + k), (x + k, y + r), (x, y + r)),
+            ((x - k, y + r), (x - r, y + k), (x - r, y)),
+            ((x - r, y - k), (x - k, y - r), (x, y - r)),
+            ((x + k, y - r), (x + r, y - k), (x + r, y)),
+        ] {
+            out.push(PathSegment::CubicTo {
+                c1: Point::new(c1.0, c1.1),
+                c2: Point::new(c2.0, c2.1),
+                to: Point::new(to.0, to.1),
+            });
+        }
+        out.push(PathSegment::Close);
+    }
+    out
 }
 
 /// An estimate's interval as an error bar with caps, over a white halo (nothing without one).
 fn draw_interval(out: &mut Vec<Mark>, frame: &PanelFrame, e: &Estimate) {
     let (cx, gw) = frame.group_slot(e.x, e.group);
-    let colour = summary_colour(e.group, frame.n_groups);
+    let colour = frame.summary_colour(e.group);
+    // A summary mark sits on top of the values it summarises: a white halo under the interval
+    // keeps it readable over points of its own colour.
     if let Some((lo, hi)) = e.interval {
         let cap = CAP_MM.min(gw * CAP_SHARE) / 2.0;
         let (ylo, yhi) = (frame.y(lo), frame.y(hi));
@@ -127,9 +155,8 @@ fn draw_interval(out: &mut Vec<Mark>, frame: &PanelFrame, e: &Estimate) {
 
 fn draw_estimate(out: &mut Vec<Mark>, frame: &PanelFrame, e: &Estimate, centre_shape: Centre) {
     let (cx, _) = frame.group_slot(e.x, e.group);
-    let colour = summary_colour(e.group, frame.n_groups);
-    // A summary mark sits on top of the values it summarises: a white halo under the interval
-    // and, with colour groups, an ink outline keep it readable over points of its own colour.
+    let colour = frame.summary_colour(e.group);
+    // With colour groups, an ink outline keeps the centre readable over points of its colour.
     let outline = if frame.n_groups > 1 {
         INK
     } else {

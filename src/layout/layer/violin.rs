@@ -5,7 +5,6 @@ use crate::scene::{Fill, Mark, Point, Stroke};
 
 use super::super::style::*;
 use super::super::PanelFrame;
-use super::summary_colour;
 
 pub fn draw(out: &mut Vec<Mark>, frame: &PanelFrame, violins: &[ViolinMark]) {
     for v in violins {
@@ -20,8 +19,8 @@ fn draw_violin(out: &mut Vec<Mark>, frame: &PanelFrame, v: &ViolinMark, peak: f6
         return;
     }
     let (cx, gw) = frame.group_slot(v.x, v.group);
-    let colour = group_colour(v.group, frame.n_groups);
-    let ink = summary_colour(v.group, frame.n_groups);
+    let colour = frame.colour(v.group);
+    let ink = frame.summary_colour(v.group);
     let half_max = (gw * VIOLIN_HALF_SHARE).min(VIOLIN_HALF_MAX_MM);
     let half = |d: f64| half_max * d / peak;
     let right = v
