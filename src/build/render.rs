@@ -105,6 +105,7 @@ pub fn table_spec(book: &Codebook) -> TableSpec {
     TableSpec {
         path: book.path.clone(),
         path_span: book.path_span,
+        format: book.format.clone(),
         missing: book.missing.clone(),
         columns: book
             .vars
@@ -113,6 +114,7 @@ pub fn table_spec(book: &Codebook) -> TableSpec {
                 name: v.name.clone(),
                 header: v.column.clone(),
                 decl_span: v.span,
+                read: true,
                 kind: match v.scale {
                     Scale::Id => ColumnKind::Id,
                     Scale::Nominal | Scale::Ordinal => ColumnKind::Categorical {

@@ -2,6 +2,7 @@
 
 use std::path::Path;
 
+use crate::data::FileFormat;
 use crate::diag::{did_you_mean, Diagnostic, Span};
 use crate::syntax::ast::{Block, Ident, Plain, Statement, Term};
 
@@ -36,6 +37,7 @@ pub fn check_data_block(
         name: block.name.name.clone(),
         path: spec_dir.join(&path.value),
         path_span: path.span,
+        format: FileFormat::for_path(Path::new(&path.value)),
         missing: vec![String::new(), "NA".to_string()],
         vars: Vec::new(),
         subject: None,

@@ -100,6 +100,8 @@ pub struct Codebook {
     /// The data file, resolved against the spec's folder.
     pub path: PathBuf,
     pub path_span: Span,
+    /// How the file is written: its extension and the block's reading statements.
+    pub format: crate::data::FileFormat,
     pub missing: Vec<String>,
     pub vars: Vec<Variable>,
     pub subject: Option<VarId>,

@@ -1,7 +1,8 @@
 //! The typed table the data stage produces.
 //!
 //! Guarantees of a [`Table`] returned by [`crate::data::read_table`]:
-//! - it holds exactly the declared columns, in declaration order, each `n_rows()` long;
+//! - it holds exactly the declared columns that are read, in declaration order, each
+//!   `n_rows()` long;
 //! - every code of a categorical or id column indexes its `levels`/`values`; `None` is missing;
 //! - categorical cells are declared levels (when levels were declared); numeric cells are
 //!   finite, `-0.0` is stored as `0.0`, and ratio cells are `>= 0`; id cells are never missing;
@@ -11,7 +12,7 @@
 use std::fmt::Write as _;
 use std::path::{Path, PathBuf};
 
-use crate::diag::{SourceId, Span};
+use super::cells::Built;
 
 /// One column's cells.
 #[derive(Debug, Clone, PartialEq)]
@@ -31,6 +32,21 @@ pub enum Column {
 }
 
 impl Column {
+    /// The column the data stage built.
+    pub(super) fn from_built(built: Built) -> Column {
+        match built {
+            Built::Id { codes, values } => Column::Id {
+                codes: codes.iter().collect(),
+                values: values.to_vec(),
+            },
+            Built::Categorical { codes, levels } => Column::Categorical {
+                codes: codes.iter().collect(),
+                levels: levels.to_vec(),
+            },
+            Built::Numeric(numbers) => Column::Numeric(numbers.iter().collect()),
+        }
+    }
+
     /// Number of cells (the table's row count).
     pub fn len(&self) -> usize {
         match self {
@@ -88,20 +104,59 @@ impl Column {
 /// Where a data row is in its file, for later stages' messages.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub struct RowPlace {
-    /// 1-based row of the file as a spreadsheet shows it: the header is row 1, blank lines
-    /// count as rows, a line break inside quotes does not start a new row.
+    /// 1-based row of the file as a spreadsheet shows it: in a text file the header is row 1,
+    /// blank lines count as rows, a line break inside quotes does not start a new row; in a
+    /// workbook the sheet's row; in a Parquet file the data row.
     pub file_row: usize,
-    /// 1-based line where the row starts.
+    /// 1-based line where the row starts (the row itself in workbooks and Parquet files).
     pub line: usize,
-    /// The row's bytes, without its line ending.
-    pub span: Span,
+}
+
+/// The place of every data row, stored as runs: a new entry only where the row or line number
+/// does not follow on from the previous row's (after blank lines, skipped rows, quoted line
+/// breaks), so a plain file costs a few bytes whatever its length.
+#[derive(Debug, Clone, Default, PartialEq, Eq)]
+pub(super) struct RowPlaces {
+    n_rows: usize,
+    /// (first data row of the run, its place).
+    runs: Vec<(usize, RowPlace)>,
+}
+
+impl RowPlaces {
+    pub(super) fn push(&mut self, place: RowPlace) {
+        let follows = self
+            .n_rows
+            .checked_sub(1)
+            .and_then(|last| self.get(last))
+            .is_some_and(|p| p.file_row + 1 == place.file_row && p.line + 1 == place.line);
+        if !follows {
+            self.runs.push((self.n_rows, place));
+        }
+        self.n_rows += 1;
+    }
+
+    pub(super) fn len(&self) -> usize {
+        self.n_rows
+    }
+
+    pub(super) fn get(&self, row: usize) -> Option<RowPlace> {
+        if row >= self.n_rows {
+            return None;
+        }
+        let run = self.runs.partition_point(|(first, _)| *first <= row);
+        let (first, place) = self.runs.get(run.checked_sub(1)?)?;
+        let ahead = row - first;
+        Some(RowPlace {
+            file_row: place.file_row + ahead,
+            line: place.line + ahead,
+        })
+    }
 }
 
 /// A declared column of a [`Table`].
 #[derive(Debug, Clone, PartialEq)]
 pub(super) struct NamedColumn {
     pub(super) name: String,
-    pub(super) header_span: Span,
     pub(super) column: Column,
 }
 
@@ -109,9 +164,8 @@ pub(super) struct NamedColumn {
 #[derive(Debug, Clone, PartialEq)]
 pub struct Table {
     pub(super) path: PathBuf,
-    pub(super) source: SourceId,
     pub(super) columns: Vec<NamedColumn>,
-    pub(super) rows: Vec<RowPlace>,
+    pub(super) rows: RowPlaces,
 }
 
 impl Table {
@@ -123,11 +177,6 @@ impl Table {
     /// The file the table was read from.
     pub fn path(&self) -> &Path {
         &self.path
-    }
-
-    /// The file's text in the [`crate::diag::SourceMap`] it was read with.
-    pub fn source(&self) -> SourceId {
-        self.source
     }
 
     /// The column of a declared variable.
@@ -164,17 +213,9 @@ impl Table {
         }
     }
 
-    /// The header cell a declared variable was read from.
-    pub fn header_span(&self, name: &str) -> Option<Span> {
-        self.columns
-            .iter()
-            .find(|c| c.name == name)
-            .map(|c| c.header_span)
-    }
-
     /// Where data row `row` (0-based) is in the file.
     pub fn row_place(&self, row: usize) -> Option<RowPlace> {
-        self.rows.get(row).copied()
+        self.rows.get(row)
     }
 
     /// `speeds.csv row 14` (with `(line L)` when the line differs), for messages of later stages.
@@ -242,5 +283,25 @@ fn write_codes(out: &mut String, codes: &[Option<u32>], names: &[String]) {
             }
             None => out.push_str(" ."),
         }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn row_places_are_stored_as_runs() {
+        let places = [(2, 2), (3, 3), (5, 5), (6, 7), (7, 8), (8, 9)];
+        let mut rows = RowPlaces::default();
+        for (file_row, line) in places {
+            rows.push(RowPlace { file_row, line });
+        }
+        assert_eq!(rows.len(), 6);
+        assert_eq!(rows.runs.len(), 3);
+        for (i, (file_row, line)) in places.into_iter().enumerate() {
+            assert_eq!(rows.get(i), Some(RowPlace { file_row, line }));
+        }
+        assert_eq!(rows.get(6), None);
     }
 }

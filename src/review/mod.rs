@@ -274,7 +274,7 @@ fn build_side(side: &Side, which: &str, out: &Path) -> Result<Built, ReviewError
     }
     Ok(Built {
         figures: compare::read_outputs(out)?,
-        sources: sources::collect(&report.sources, &side.root),
+        sources: sources::collect(&report.sources, &report.inputs, &side.root),
     })
 }
 
