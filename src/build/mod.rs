@@ -26,6 +26,7 @@ use std::path::{Path, PathBuf};
 
 use rayon::prelude::*;
 
+use crate::check::plan::VarId;
 use crate::check::{self, FigureDefaults, FigurePlan, Program};
 use crate::data::{self, Table};
 use crate::diag::{Diagnostic, SourceMap, Span};
@@ -34,7 +35,8 @@ use inputs::InputHasher;
 use manifest::{Freshness, Manifest};
 
 pub use render::{
-    output_kinds, output_names, render_figure, table_spec, FigureError, FigureOutputs, OutputKind,
+    output_kinds, output_names, render_figure, table_spec, table_spec_reading, FigureError,
+    FigureOutputs, OutputKind,
 };
 pub use write::{write_atomic, write_if_changed, TEMP_SUFFIX};
 
@@ -344,7 +346,15 @@ fn make_all(
     let todo: Vec<usize> = (0..jobs.len())
         .filter(|&i| jobs[i].freshness != Freshness::UpToDate)
         .collect();
-    let needed: BTreeSet<usize> = todo.iter().map(|&i| jobs[i].plan.data).collect();
+    let mut needed: BTreeMap<usize, BTreeSet<VarId>> = BTreeMap::new();
+    for &i in &todo {
+        let plan = jobs[i].plan;
+        let book = &program.codebooks[plan.data];
+        needed
+            .entry(plan.data)
+            .or_default()
+            .extend(plan.variables(book));
+    }
     let tables = read_tables(program, &needed, report);
     progress.start(todo.len());
     let made: Vec<Made> = pool.install(|| {
@@ -392,16 +402,17 @@ fn thread_pool(jobs: Option<NonZeroUsize>) -> Result<rayon::ThreadPool, BuildErr
         .map_err(|e| BuildError::Internal(format!("cannot start the worker threads: {e}")))
 }
 
-/// Reads the tables of the codebooks in `needed`, once each; `None` for a table with errors.
+/// Reads the tables of the codebooks in `needed`, once each, with the columns of the
+/// variables listed (the figures being made use no others); `None` for a table with errors.
 fn read_tables(
     program: &Program,
-    needed: &BTreeSet<usize>,
+    needed: &BTreeMap<usize, BTreeSet<VarId>>,
     report: &mut BuildReport,
 ) -> BTreeMap<usize, Option<Table>> {
     needed
         .iter()
-        .map(|&idx| {
-            let spec = table_spec(&program.codebooks[idx]);
+        .map(|(&idx, vars)| {
+            let spec = table_spec_reading(&program.codebooks[idx], vars);
             let table = match data::read_table(&spec, &mut report.sources) {
                 Ok(t) => Some(t),
                 Err(diags) => {

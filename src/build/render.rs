@@ -3,6 +3,9 @@
 //! Pure apart from the CPU: nothing here touches the file system, so figures can be made on
 //! any thread in any order and give the same bytes.
 
+use std::collections::BTreeSet;
+
+use crate::check::plan::VarId;
 use crate::check::{Codebook, FigurePlan, Scale};
 use crate::compute::{self, ComputeError};
 use crate::data::{ColumnKind, ColumnSpec, Table, TableSpec};
@@ -100,8 +103,14 @@ pub fn render_figure(
     Ok(FigureOutputs { files })
 }
 
-/// The data stage's view of a codebook.
+/// The data stage's view of a codebook, reading every declared column.
 pub fn table_spec(book: &Codebook) -> TableSpec {
+    table_spec_reading(book, &(0..book.vars.len()).map(VarId).collect())
+}
+
+/// The data stage's view of a codebook, reading the cells of the variables in `read` only
+/// (the others are only looked for in the header).
+pub fn table_spec_reading(book: &Codebook, read: &BTreeSet<VarId>) -> TableSpec {
     TableSpec {
         path: book.path.clone(),
         path_span: book.path_span,
@@ -110,11 +119,12 @@ pub fn table_spec(book: &Codebook) -> TableSpec {
         columns: book
             .vars
             .iter()
-            .map(|v| ColumnSpec {
+            .enumerate()
+            .map(|(i, v)| ColumnSpec {
                 name: v.name.clone(),
                 header: v.column.clone(),
                 decl_span: v.span,
-                read: true,
+                read: read.contains(&VarId(i)),
                 kind: match v.scale {
                     Scale::Id => ColumnKind::Id,
                     Scale::Nominal | Scale::Ordinal => ColumnKind::Categorical {

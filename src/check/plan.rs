@@ -378,6 +378,39 @@ pub struct FigurePlan {
     pub dpi: u32,
 }
 
+impl FigurePlan {
+    /// The variables computing this figure reads: its axes, `lines by` and the subjects of
+    /// `flows`, `colour`, `panels`, the filter's variables, and the data block's subject (every
+    /// figure counts subjects and checks repeated ones). The build reads only these columns.
+    pub fn variables(&self, book: &Codebook) -> std::collections::BTreeSet<VarId> {
+        let mut vars: Vec<VarId> = book.subject.into_iter().collect();
+        match &self.frame {
+            Frame::Counts { x, .. } => vars.push(x.var.var),
+            Frame::CatNum { x, y, layers } => {
+                vars.extend([x.var.var, y.var.var]);
+                vars.extend(layers.iter().filter_map(|layer| match layer {
+                    CatNumLayer::Lines { by, .. } => Some(*by),
+                    _ => None,
+                }));
+            }
+            Frame::CatOrd { x, y, .. } => vars.extend([x.var.var, y.var.var]),
+            Frame::Dist { x, .. } => vars.push(x.var.var),
+            Frame::Xy { x, y, .. } => vars.extend([x.var.var, y.var.var]),
+            Frame::Flows { x, y, by, .. } => vars.extend([x.var.var, y.var.var, *by]),
+        }
+        vars.extend(self.colour.iter().chain(&self.panels).map(|c| c.var));
+        let mut filters: Vec<&Filter> = self.filter.iter().collect();
+        while let Some(filter) = filters.pop() {
+            match filter {
+                Filter::Levels { var, .. } | Filter::Numeric { var, .. } => vars.push(*var),
+                Filter::Not(inner) => filters.push(inner),
+                Filter::And(a, b) | Filter::Or(a, b) => filters.extend([&**a, &**b]),
+            }
+        }
+        vars.into_iter().collect()
+    }
+}
+
 /// All checked data blocks and figures of one build.
 #[derive(Debug, Clone, Default, PartialEq)]
 pub struct Program {
