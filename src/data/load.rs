@@ -30,6 +30,9 @@ pub const MAX_ROW_BYTES: usize = 16 << 20;
 /// Most distinct values of a nominal variable without `levels(...)` (D0021).
 pub const MAX_LEVELS: usize = 10_000;
 
+/// Most bytes the parts of a workbook may unpack to, in all (D0023).
+pub const MAX_UNPACKED_BYTES: u64 = 2 << 30;
+
 /// Resource limits for reading one data file.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub struct ReadLimits {
@@ -43,6 +46,8 @@ pub struct ReadLimits {
     pub max_row_bytes: usize,
     /// Distinct values of a categorical column without declared levels (D0021).
     pub max_levels: usize,
+    /// Bytes the parts of a workbook may unpack to, as its zip directory declares them (D0023).
+    pub max_unpacked_bytes: u64,
 }
 
 impl Default for ReadLimits {
@@ -53,6 +58,7 @@ impl Default for ReadLimits {
             max_rows: MAX_ROWS,
             max_row_bytes: MAX_ROW_BYTES,
             max_levels: MAX_LEVELS,
+            max_unpacked_bytes: MAX_UNPACKED_BYTES,
         }
     }
 }

@@ -36,7 +36,10 @@ mod text;
 mod workbook;
 
 pub use column::{Codes, MissingMask, Names, Numbers};
-pub use load::{ReadLimits, MAX_DIAGNOSTICS, MAX_FILE_BYTES, MAX_LEVELS, MAX_ROWS, MAX_ROW_BYTES};
+pub use load::{
+    ReadLimits, MAX_DIAGNOSTICS, MAX_FILE_BYTES, MAX_LEVELS, MAX_ROWS, MAX_ROW_BYTES,
+    MAX_UNPACKED_BYTES,
+};
 pub use spec::{
     column_letters, CellRange, ColumnKind, ColumnSpec, DecimalMark, FileFormat, Separator,
     TableSpec, TextFormat, WorkbookFormat,

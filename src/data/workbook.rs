@@ -13,8 +13,8 @@
 //! reference (`C14`).
 //!
 //! Before the workbook is opened, its zip directory is checked: parts that unpack to more than
-//! [`MAX_UNPACKED_BYTES`] in all are refused (`D0023`), so a small file cannot unpack into
-//! gigabytes.
+//! [`ReadLimits::max_unpacked_bytes`] in all are refused (`D0023`), so a small file cannot
+//! unpack into gigabytes (the unpacking itself stops at the declared sizes).
 
 use std::io::{Read, Seek};
 
@@ -29,10 +29,6 @@ use super::reading::{CellPlace, Reading};
 use super::report::Report;
 use super::spec::{CellRange, DecimalMark, TableSpec, WorkbookFormat};
 use super::table::{RowPlace, Table};
-
-/// Most bytes the parts of a workbook may unpack to, in all (as its zip directory declares
-/// them; the unpacking stops at the declared size).
-pub const MAX_UNPACKED_BYTES: u64 = 2 << 30;
 
 /// A cell's value, owned (shared strings are borrowed from the workbook otherwise).
 #[derive(Debug, Clone, PartialEq)]
@@ -120,7 +116,7 @@ fn read_from<R: Read + Seek>(
     limits: &ReadLimits,
     report: &mut Report,
 ) -> Result<Option<Table>, crate::diag::Diagnostic> {
-    check_unpacked_size(spec, &mut reader)?;
+    check_unpacked_size(spec, &mut reader, limits.max_unpacked_bytes)?;
     let mut workbook: Xlsx<R> =
         Xlsx::new(reader).map_err(|e| messages::not_a_workbook(spec, &e.to_string()))?;
     let sheets = workbook.sheet_names();
@@ -139,6 +135,7 @@ fn read_from<R: Read + Seek>(
         cells: &mut cells,
         range: format.cells,
         pending: None,
+        done: false,
     };
     let sheet_error = |e: calamine::XlsxError| messages::not_a_workbook(spec, &e.to_string());
     let Some((header_row, header_cells)) = rows.next_row().map_err(sheet_error)? else {
@@ -204,6 +201,8 @@ struct SheetRows<'c, 'a, RS: Read + Seek> {
     range: Option<CellRange>,
     /// The first cell of the next row, read while finishing the previous one.
     pending: Option<(u32, u32, Value)>,
+    /// The sheet (or the range) has no more cells.
+    done: bool,
 }
 
 impl<RS: Read + Seek> SheetRows<'_, '_, RS> {
@@ -212,10 +211,15 @@ impl<RS: Read + Seek> SheetRows<'_, '_, RS> {
         if let Some(cell) = self.pending.take() {
             return Ok(Some(cell));
         }
-        while let Some(cell) = self.cells.next_cell()? {
+        while !self.done {
+            let Some(cell) = self.cells.next_cell()? else {
+                self.done = true;
+                break;
+            };
             let (row, column) = cell.get_position();
             if self.range.is_some_and(|r| row > r.last_row) {
-                return Ok(None);
+                self.done = true;
+                break;
             }
             let inside = self.range.is_none_or(|r| r.contains(row, column));
             if let (true, Some(value)) = (inside, Value::of(cell.get_value())) {
@@ -249,10 +253,11 @@ impl<RS: Read + Seek> SheetRows<'_, '_, RS> {
     }
 }
 
-/// Refuses a workbook whose parts would unpack to more than [`MAX_UNPACKED_BYTES`].
+/// Refuses a workbook whose parts would unpack to more than `most` bytes.
 fn check_unpacked_size<R: Read + Seek>(
     spec: &TableSpec,
     reader: &mut R,
+    most: u64,
 ) -> Result<(), crate::diag::Diagnostic> {
     let mut archive = zip::ZipArchive::new(&mut *reader)
         .map_err(|e| messages::not_a_workbook(spec, &e.to_string()))?;
@@ -263,12 +268,10 @@ fn check_unpacked_size<R: Read + Seek>(
     reader
         .rewind()
         .map_err(|e| messages::not_a_workbook(spec, &e.to_string()))?;
-    if unpacked > MAX_UNPACKED_BYTES {
+    if unpacked > most {
         return Err(messages::not_a_workbook(
             spec,
-            &format!(
-                "its parts unpack to {unpacked} bytes, more than the limit of {MAX_UNPACKED_BYTES}"
-            ),
+            &format!("its parts unpack to {unpacked} bytes, more than the limit of {most}"),
         ));
     }
     Ok(())
