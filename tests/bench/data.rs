@@ -176,6 +176,10 @@ struct Run {
 
 /// Builds the folder's figures with the release binary (`--force --jobs 1`), checking that
 /// exactly `figures` were built.
+#[expect(
+    clippy::zombie_processes,
+    reason = "the child is waited for with wait4, which gives its peak memory"
+)]
 fn build(folder: &Path, figures: usize) -> Run {
     let started = Instant::now();
     let mut child = Command::new(env!("CARGO_BIN_EXE_figura"))
