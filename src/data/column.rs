@@ -52,23 +52,22 @@ impl MissingMask {
     }
 }
 
-/// A numeric column: values with their missing cells.
+/// One column's values with their missing cells: [`Numbers`] or [`Codes`].
 #[derive(Debug, Clone, Default, PartialEq)]
-pub struct Numbers {
-    values: Vec<f64>,
+pub struct Cells<T> {
+    values: Vec<T>,
     missing: MissingMask,
 }
 
-impl Numbers {
-    pub(super) fn with_capacity(n: usize) -> Self {
-        Numbers {
-            values: Vec::with_capacity(n),
-            missing: MissingMask::with_capacity(n),
-        }
-    }
+/// A numeric column; a missing cell holds `0.0` in [`Cells::values`].
+pub type Numbers = Cells<f64>;
 
-    pub(super) fn push(&mut self, value: Option<f64>) {
-        self.values.push(value.unwrap_or(0.0));
+/// The codes of a categorical or id column; a missing cell holds `0` in [`Cells::values`].
+pub type Codes = Cells<u32>;
+
+impl<T: Copy + Default> Cells<T> {
+    pub(super) fn push(&mut self, value: Option<T>) {
+        self.values.push(value.unwrap_or_default());
         self.missing.push(value.is_none());
     }
 
@@ -78,10 +77,13 @@ impl Numbers {
     }
 
     /// Builds a column from optional values (for tests and small tables).
-    pub fn from_options(values: &[Option<f64>]) -> Self {
-        let mut numbers = Numbers::with_capacity(values.len());
-        values.iter().for_each(|v| numbers.push(*v));
-        numbers
+    pub fn from_options(values: &[Option<T>]) -> Self {
+        let mut cells = Cells {
+            values: Vec::with_capacity(values.len()),
+            missing: MissingMask::with_capacity(values.len()),
+        };
+        values.iter().for_each(|v| cells.push(*v));
+        cells
     }
 
     pub fn len(&self) -> usize {
@@ -93,77 +95,19 @@ impl Numbers {
     }
 
     /// The value of row `i`; `None` when it is missing or past the end.
-    pub fn get(&self, i: usize) -> Option<f64> {
+    pub fn get(&self, i: usize) -> Option<T> {
         let value = *self.values.get(i)?;
         (!self.missing.is_missing(i)).then_some(value)
     }
 
     /// Every row's value, `None` where missing.
-    pub fn iter(&self) -> impl ExactSizeIterator<Item = Option<f64>> + '_ {
+    pub fn iter(&self) -> impl ExactSizeIterator<Item = Option<T>> + '_ {
         (0..self.values.len()).map(|i| self.get(i))
     }
 
-    /// The raw values: missing rows hold `0.0` (see [`Numbers::mask`]).
-    pub fn values(&self) -> &[f64] {
+    /// The raw values: a missing row holds the type's default (see [`Cells::mask`]).
+    pub fn values(&self) -> &[T] {
         &self.values
-    }
-
-    pub fn mask(&self) -> &MissingMask {
-        &self.missing
-    }
-
-    pub fn n_missing(&self) -> usize {
-        self.missing.n_missing()
-    }
-}
-
-/// Codes of a categorical or id column, with their missing cells.
-#[derive(Debug, Clone, Default, PartialEq, Eq)]
-pub struct Codes {
-    codes: Vec<u32>,
-    missing: MissingMask,
-}
-
-impl Codes {
-    pub(super) fn push(&mut self, code: Option<u32>) {
-        self.codes.push(code.unwrap_or(0));
-        self.missing.push(code.is_none());
-    }
-
-    pub(super) fn shrink_to_fit(&mut self) {
-        self.codes.shrink_to_fit();
-        self.missing.shrink_to_fit();
-    }
-
-    /// Builds codes from optional values (for tests and small tables).
-    pub fn from_options(codes: &[Option<u32>]) -> Self {
-        let mut out = Codes::default();
-        codes.iter().for_each(|c| out.push(*c));
-        out
-    }
-
-    pub fn len(&self) -> usize {
-        self.codes.len()
-    }
-
-    pub fn is_empty(&self) -> bool {
-        self.codes.is_empty()
-    }
-
-    /// The code of row `i`; `None` when it is missing or past the end.
-    pub fn get(&self, i: usize) -> Option<u32> {
-        let code = *self.codes.get(i)?;
-        (!self.missing.is_missing(i)).then_some(code)
-    }
-
-    /// Every row's code, `None` where missing.
-    pub fn iter(&self) -> impl ExactSizeIterator<Item = Option<u32>> + '_ {
-        (0..self.codes.len()).map(|i| self.get(i))
-    }
-
-    /// The raw codes: missing rows hold `0` (see [`Codes::mask`]).
-    pub fn codes(&self) -> &[u32] {
-        &self.codes
     }
 
     pub fn mask(&self) -> &MissingMask {
@@ -268,7 +212,7 @@ mod tests {
         assert_eq!(numbers.values()[3], 0.0);
         let codes = Codes::from_options(&[Some(2), None, Some(0)]);
         assert_eq!(codes.iter().collect::<Vec<_>>(), [Some(2), None, Some(0)]);
-        assert_eq!(codes.codes(), [2, 0, 0]);
+        assert_eq!(codes.values(), [2, 0, 0]);
     }
 
     #[test]

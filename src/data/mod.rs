@@ -35,7 +35,7 @@ mod table;
 mod text;
 mod workbook;
 
-pub use column::{Codes, MissingMask, Names, Numbers};
+pub use column::{Cells, Codes, MissingMask, Names, Numbers};
 pub use load::{
     ReadLimits, MAX_DIAGNOSTICS, MAX_FILE_BYTES, MAX_LEVELS, MAX_ROWS, MAX_ROW_BYTES,
     MAX_UNPACKED_BYTES,

@@ -140,13 +140,7 @@ pub(super) fn read(
         }
         Err(error) => Err(error),
     };
-    match result {
-        Ok(table) => table,
-        Err(error) => {
-            report.add(error.code, |_| error);
-            None
-        }
-    }
+    result.unwrap_or_else(|error| report.refuse(error))
 }
 
 /// Runs `read`, turning a panic of the Parquet crate into a diagnostic.

@@ -115,6 +115,13 @@ impl Report {
         }
     }
 
+    /// Records an error about the file as a whole, already written; `None` for the reader to
+    /// return.
+    pub(super) fn refuse<T>(&mut self, error: Diagnostic) -> Option<T> {
+        self.add(error.code, |_| error);
+        None
+    }
+
     pub(super) fn is_empty(&self) -> bool {
         self.shown.is_empty() && self.hidden.is_empty()
     }

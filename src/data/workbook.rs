@@ -100,13 +100,7 @@ pub(super) fn read(
         }
         Err(error) => Err(error),
     };
-    match result {
-        Ok(table) => table,
-        Err(error) => {
-            report.add(error.code, |_| error);
-            None
-        }
-    }
+    result.unwrap_or_else(|error| report.refuse(error))
 }
 
 fn read_from<R: Read + Seek>(

@@ -28,6 +28,11 @@ use std::path::Path;
 use std::process::{Command, Stdio};
 use std::time::{Duration, Instant};
 
+#[path = "common.rs"]
+mod common;
+
+use common::Mix;
+
 const DPI: f32 = 300.0;
 
 fn main() {
@@ -101,20 +106,6 @@ fn column_memory(root: &Path) {
         peak.saturating_sub(fixed) as f64 / raw,
         raw / 1e6
     );
-}
-
-/// SplitMix64 (Steele, Lea and Flood 2014): a small deterministic generator for invented data.
-struct Mix(u64);
-
-impl Mix {
-    fn next(&mut self) -> f64 {
-        self.0 = self.0.wrapping_add(0x9E37_79B9_7F4A_7C15);
-        let mut z = self.0;
-        z = (z ^ (z >> 30)).wrapping_mul(0xBF58_476D_1CE4_E5B9);
-        z = (z ^ (z >> 27)).wrapping_mul(0x94D0_49BB_1331_11EB);
-        z ^= z >> 31;
-        (z >> 11) as f64 / (1u64 << 53) as f64
-    }
 }
 
 /// An invented table of reaction times: `rows` rows of an id, a condition and a time, or of

@@ -35,10 +35,7 @@ pub(super) fn read(
 ) -> Option<Table> {
     let opened = match input.open(spec, limits) {
         Ok(opened) => opened,
-        Err(error) => {
-            report.add(error.code, |_| error);
-            return None;
-        }
+        Err(error) => return report.refuse(error),
     };
     let decoder = Decoder::new(opened.reader(limits), format.encoding);
     let mut file = TextFile {
@@ -73,13 +70,9 @@ pub(super) fn read(
             }
         }
     };
-    if let Err(error) = check_size(
-        spec,
-        limits,
-        usize::try_from(file.rows.bytes_read()).unwrap_or(usize::MAX),
-    ) {
-        report.add(error.code, |_| error);
-        return None;
+    let n_bytes = usize::try_from(file.rows.bytes_read()).unwrap_or(usize::MAX);
+    if let Err(error) = check_size(spec, limits, n_bytes) {
+        return report.refuse(error);
     }
     if complete && reading.n_rows() == 0 {
         report.add(codes::HEADER_ONLY, |file| {
