@@ -6,6 +6,7 @@ use std::collections::BTreeMap;
 use crate::check::plan::{
     CatAxis, CatNumLayer, CatOrdLayer, CountLayer, ErrorBar, Heights, NumAxis, Whiskers,
 };
+use crate::data::Codes;
 use crate::stats;
 
 use super::rows::{self, Cell, Levels, Obs, Placed};
@@ -26,9 +27,9 @@ pub fn counts(
 ) -> Result<FigureData, ComputeError> {
     let levels = rows::axis_levels(ctx.table, ctx.book, x, &ctx.keep)?;
     let (codes, _) = rows::codes(ctx.table, ctx.book, x.var.var)?;
-    let ones: Vec<Option<f64>> = vec![Some(1.0); ctx.table.n_rows()];
+    let ones = std::iter::repeat_n(Some(1.0), ctx.table.n_rows());
     let placement = ctx.placement(Some((codes, &levels)));
-    let placed = rows::place(&ones, &ctx.keep, &placement);
+    let placed = rows::place(ones, &ctx.keep, &placement);
     let missing_x = missing_x_by_panel_group(ctx, codes);
     let mut panels = Vec::new();
     let mut summary = Vec::new();
@@ -97,13 +98,13 @@ pub fn counts(
 
 /// Kept rows whose x is missing, per panel and colour group (rows missing those too are not
 /// counted anywhere: they belong to no panel or group).
-fn missing_x_by_panel_group(ctx: &Context, x_codes: &[Option<u32>]) -> Vec<Vec<usize>> {
+fn missing_x_by_panel_group(ctx: &Context, x_codes: &Codes) -> Vec<Vec<usize>> {
     let mut out = vec![vec![0usize; ctx.groups.len()]; ctx.panels.len()];
-    let slot = |codes: Option<&[Option<u32>]>, levels: &Levels, row: usize| match codes {
+    let slot = |codes: Option<&Codes>, levels: &Levels, row: usize| match codes {
         None => Some(0),
-        Some(c) => c[row].and_then(|code| levels.slot(code)),
+        Some(c) => c.get(row).and_then(|code| levels.slot(code)),
     };
-    for row in (0..x_codes.len()).filter(|&r| ctx.keep[r] && x_codes[r].is_none()) {
+    for row in (0..x_codes.len()).filter(|&r| ctx.keep[r] && x_codes.get(r).is_none()) {
         if let (Some(p), Some(g)) = (
             slot(ctx.panel_codes, &ctx.panels, row),
             slot(ctx.group_codes, &ctx.groups, row),
@@ -159,7 +160,7 @@ pub fn cat_num(
     let (codes, _) = rows::codes(ctx.table, ctx.book, x.var.var)?;
     let values = rows::numbers(ctx.table, ctx.book, y.var.var)?;
     let placement = ctx.placement(Some((codes, &levels)));
-    let mut placed = rows::place(values, &ctx.keep, &placement);
+    let mut placed = rows::place(values.iter(), &ctx.keep, &placement);
     if let Some(rep) = &ctx.book.replicates {
         rows::collapse(&mut placed, rep.collapse);
     } else {

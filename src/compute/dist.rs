@@ -45,7 +45,7 @@ pub fn distribution(
     layers: &[DistLayer],
 ) -> Result<FigureData, ComputeError> {
     let values = rows::numbers(ctx.table, ctx.book, x.var.var)?;
-    let mut placed = rows::place(values, &ctx.keep, &ctx.placement(None));
+    let mut placed = rows::place(values.iter(), &ctx.keep, &ctx.placement(None));
     if let Some(rep) = &ctx.book.replicates {
         rows::collapse(&mut placed, rep.collapse);
     }

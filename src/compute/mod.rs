@@ -18,7 +18,7 @@ mod violin;
 mod xy;
 
 use crate::check::plan::{Codebook, FigurePlan, Frame, VarId};
-use crate::data::Table;
+use crate::data::{Codes, Names, Table};
 use crate::diag::Diagnostic;
 
 pub use rows::Levels;
@@ -263,9 +263,9 @@ pub(crate) struct Context<'a> {
     pub keep: Vec<bool>,
     pub panels: Levels,
     pub groups: Levels,
-    pub panel_codes: Option<&'a [Option<u32>]>,
-    pub group_codes: Option<&'a [Option<u32>]>,
-    pub subject_codes: Option<(&'a [Option<u32>], &'a [String])>,
+    pub panel_codes: Option<&'a Codes>,
+    pub group_codes: Option<&'a Codes>,
+    pub subject_codes: Option<(&'a Codes, &'a Names)>,
 }
 
 impl<'a> Context<'a> {
@@ -308,10 +308,7 @@ impl<'a> Context<'a> {
         })
     }
 
-    pub fn placement<'p>(
-        &'p self,
-        x: Option<(&'p [Option<u32>], &'p Levels)>,
-    ) -> rows::Placement<'p> {
+    pub fn placement<'p>(&'p self, x: Option<(&'p Codes, &'p Levels)>) -> rows::Placement<'p> {
         rows::Placement {
             panel: self.panel_codes.map(|c| (c, &self.panels)),
             x,
@@ -354,7 +351,7 @@ impl<'a> Context<'a> {
             .map(|c| c.and_then(|c| y_levels.slot(c)).map(|s| s as f64))
             .collect();
         let placed = rows::place(
-            &y_slots,
+            y_slots,
             &self.keep,
             &self.placement(Some((x_codes, &x_levels))),
         );
@@ -369,7 +366,7 @@ impl<'a> Context<'a> {
 
     pub fn subject_name(&self, code: u32) -> String {
         self.subject_codes
-            .map(|(_, names)| names[code as usize].clone())
+            .map(|(_, names)| names[code as usize].to_owned())
             .unwrap_or_default()
     }
 }
@@ -398,7 +395,7 @@ pub(crate) fn check_colours(
 }
 
 /// The shown levels of a `panels` or `colour` variable, with its codes per row.
-type Grouping<'t> = (Levels, Option<&'t [Option<u32>]>);
+type Grouping<'t> = (Levels, Option<&'t Codes>);
 
 /// The shown levels and the codes of a `panels` or `colour` variable; one unnamed level when
 /// the figure has none.

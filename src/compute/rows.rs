@@ -7,7 +7,7 @@
 use std::collections::BTreeMap;
 
 use crate::check::plan::{CatAxis, CatVar, Codebook, Collapse, Filter, LevelOrder, VarId};
-use crate::data::{Column, Table};
+use crate::data::{Codes, Column, Names, Numbers, Table};
 use crate::diag::Diagnostic;
 
 use super::ComputeError;
@@ -52,7 +52,7 @@ pub fn codes<'t>(
     table: &'t Table,
     book: &Codebook,
     var: VarId,
-) -> Result<(&'t [Option<u32>], &'t [String]), ComputeError> {
+) -> Result<(&'t Codes, &'t Names), ComputeError> {
     let name = &book.var(var).name;
     match table.column(name) {
         Some(Column::Categorical { codes, levels })
@@ -71,7 +71,7 @@ pub fn numbers<'t>(
     table: &'t Table,
     book: &Codebook,
     var: VarId,
-) -> Result<&'t [Option<f64>], ComputeError> {
+) -> Result<&'t Numbers, ComputeError> {
     let name = &book.var(var).name;
     table.numeric(name).ok_or_else(|| {
         ComputeError::Internal(format!("column `{name}` is not numeric in the table"))
@@ -103,8 +103,8 @@ pub fn shown_levels(
     let mut rows_of = vec![(0usize, 0usize); names.len()];
     for (code, kept) in codes.iter().zip(keep) {
         if let Some(c) = code {
-            rows_of[*c as usize].0 += 1;
-            rows_of[*c as usize].1 += usize::from(*kept);
+            rows_of[c as usize].0 += 1;
+            rows_of[c as usize].1 += usize::from(*kept);
         }
     }
     ordered_levels(table, book, var, order, keep, |code| {
@@ -127,7 +127,7 @@ fn ordered_levels(
         decl.labels
             .as_ref()
             .and_then(|l| l.get(i).cloned())
-            .unwrap_or_else(|| names[i].clone())
+            .unwrap_or_else(|| names[i].to_owned())
     };
     let mut order_codes: Vec<usize> = (0..names.len()).filter(|&c| shown(c)).collect();
     match order {
@@ -136,7 +136,7 @@ fn ordered_levels(
             let mut counts = vec![0usize; names.len()];
             for (code, _) in codes.iter().zip(keep).filter(|(_, k)| **k) {
                 if let Some(c) = code {
-                    counts[*c as usize] += 1;
+                    counts[c as usize] += 1;
                 }
             }
             order_codes.sort_by(|a, b| counts[*b].cmp(&counts[*a]));
@@ -148,7 +148,7 @@ fn ordered_levels(
         slot_of_code[code] = Some(slot);
     }
     Ok(Levels {
-        names: order_codes.iter().map(|&i| names[i].clone()).collect(),
+        names: order_codes.iter().map(|&i| names[i].to_owned()).collect(),
         labels: order_codes.iter().map(|&i| label_of(i)).collect(),
         slot_of_code,
     })
@@ -189,11 +189,11 @@ fn eval(
     Ok(match f {
         Filter::Levels { var, keep } => {
             let (codes, _) = codes(table, book, *var)?;
-            codes[row].map(|c| keep.contains(&(c as usize)))
+            codes.get(row).map(|c| keep.contains(&(c as usize)))
         }
         Filter::Numeric { var, op, value } => {
             let values = numbers(table, book, *var)?;
-            values[row].map(|v| {
+            values.get(row).map(|v| {
                 use crate::syntax::ast::CompareOp::*;
                 match op {
                     Eq => v == *value,
@@ -250,18 +250,18 @@ pub struct Placed {
 
 /// How rows are sorted into cells.
 pub struct Placement<'a> {
-    pub panel: Option<(&'a [Option<u32>], &'a Levels)>,
-    pub x: Option<(&'a [Option<u32>], &'a Levels)>,
-    pub group: Option<(&'a [Option<u32>], &'a Levels)>,
-    pub subject: Option<&'a [Option<u32>]>,
+    pub panel: Option<(&'a Codes, &'a Levels)>,
+    pub x: Option<(&'a Codes, &'a Levels)>,
+    pub group: Option<(&'a Codes, &'a Levels)>,
+    pub subject: Option<&'a Codes>,
 }
 
 impl Placement<'_> {
     fn cell(&self, row: usize) -> Option<Cell> {
-        let slot = |part: &Option<(&[Option<u32>], &Levels)>| -> Option<usize> {
+        let slot = |part: &Option<(&Codes, &Levels)>| -> Option<usize> {
             match part {
                 None => Some(0),
-                Some((codes, levels)) => codes[row].and_then(|c| levels.slot(c)),
+                Some((codes, levels)) => codes.get(row).and_then(|c| levels.slot(c)),
             }
         };
         Some(Cell {
@@ -273,9 +273,13 @@ impl Placement<'_> {
 }
 
 /// Places every kept row's value in its cell.
-pub fn place(values: &[Option<f64>], keep: &[bool], placement: &Placement) -> Placed {
+pub fn place(
+    values: impl IntoIterator<Item = Option<f64>>,
+    keep: &[bool],
+    placement: &Placement,
+) -> Placed {
     let mut out = Placed::default();
-    for (row, value) in values.iter().enumerate() {
+    for (row, value) in values.into_iter().enumerate() {
         if !keep[row] {
             continue;
         }
@@ -287,8 +291,8 @@ pub fn place(values: &[Option<f64>], keep: &[bool], placement: &Placement) -> Pl
             Some(v) => out.obs.push(Obs {
                 cell,
                 row,
-                subject: placement.subject.and_then(|s| s[row]),
-                value: *v,
+                subject: placement.subject.and_then(|s| s.get(row)),
+                value: v,
             }),
             None => *out.missing_by_cell.entry(cell).or_default() += 1,
         }

@@ -131,15 +131,11 @@ fn place_pairs(
 ) -> Result<(Vec<Pair>, Placed), ComputeError> {
     let xs = rows::numbers(ctx.table, ctx.book, x.var.var)?;
     let ys = rows::numbers(ctx.table, ctx.book, y.var.var)?;
-    let complete = |own: &[Option<f64>]| -> Vec<Option<f64>> {
-        own.iter()
-            .zip(xs.iter().zip(ys))
-            .map(|(v, (a, b))| a.and(*b).and(*v))
-            .collect()
-    };
+    // A pair is complete when both values are there: x is `y.and(x)`, y is `x.and(y)`.
+    let both = || xs.iter().zip(ys.iter());
     let placement = ctx.placement(None);
-    let mut placed_x = rows::place(&complete(xs), &ctx.keep, &placement);
-    let mut placed_y = rows::place(&complete(ys), &ctx.keep, &placement);
+    let mut placed_x = rows::place(both().map(|(x, y)| y.and(x)), &ctx.keep, &placement);
+    let mut placed_y = rows::place(both().map(|(x, y)| x.and(y)), &ctx.keep, &placement);
     if let Some(rep) = &ctx.book.replicates {
         rows::collapse(&mut placed_x, rep.collapse);
         rows::collapse(&mut placed_y, rep.collapse);

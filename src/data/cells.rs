@@ -21,6 +21,7 @@ use super::codes;
 use super::column::{Codes, Names, Numbers};
 use super::numbers::{parse_number, NonFinite, NotNumberHint, NumberProblem};
 use super::spec::{ColumnKind, DecimalMark};
+use super::table::Column;
 
 /// One cell as a file holds it.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -267,14 +268,6 @@ pub(super) enum ColumnBuilder {
     },
 }
 
-/// What a finished column holds.
-#[derive(Debug)]
-pub(super) enum Built {
-    Id { codes: Codes, values: Names },
-    Categorical { codes: Codes, levels: Names },
-    Numeric(Numbers),
-}
-
 impl ColumnBuilder {
     /// A builder for a column of `kind`; `max_levels` caps the distinct values of a
     /// categorical column without declared levels.
@@ -330,25 +323,25 @@ impl ColumnBuilder {
         }
     }
 
-    pub(super) fn finish(self) -> Built {
+    pub(super) fn finish(self) -> Column {
         match self {
             ColumnBuilder::Id { values, mut codes } => {
                 codes.shrink_to_fit();
-                Built::Id {
+                Column::Id {
                     codes,
                     values: values.into_names(),
                 }
             }
             ColumnBuilder::Categorical { levels, mut codes } => {
                 codes.shrink_to_fit();
-                Built::Categorical {
+                Column::Categorical {
                     codes,
                     levels: levels.into_names(),
                 }
             }
             ColumnBuilder::Numeric { mut values, .. } => {
                 values.shrink_to_fit();
-                Built::Numeric(values)
+                Column::Numeric(values)
             }
         }
     }
@@ -475,7 +468,7 @@ mod tests {
         for cell in ["b", "a", "NA", "b", "c"] {
             assert_eq!(column.push(Cell::Text(cell), &missing()), Ok(()));
         }
-        let Built::Categorical { codes, levels } = column.finish() else {
+        let Column::Categorical { codes, levels } = column.finish() else {
             panic!("a categorical column");
         };
         assert_eq!(
@@ -527,7 +520,7 @@ mod tests {
             numeric.push(Cell::Date("2024-03-01"), &tokens),
             Err(CellProblem::NotANumber(NotNumberHint::Date))
         );
-        let Built::Numeric(values) = numeric.finish() else {
+        let Column::Numeric(values) = numeric.finish() else {
             panic!("a numeric column");
         };
         assert_eq!(

@@ -4,7 +4,7 @@
 
 use crate::diag::Span;
 
-use super::cells::{Built, Cell, ColumnBuilder, MissingTokens};
+use super::cells::{Cell, ColumnBuilder, MissingTokens};
 use super::load::ReadLimits;
 use super::messages::{self, CellAt, RowAt};
 use super::report::Report;
@@ -121,7 +121,7 @@ impl<'s> Reading<'s> {
 
     /// The table: the columns read, in declaration order.
     pub(super) fn finish(self) -> Table {
-        let mut columns: Vec<(usize, Built)> = self
+        let mut columns: Vec<(usize, Column)> = self
             .read
             .iter()
             .zip(self.builders)
@@ -132,9 +132,9 @@ impl<'s> Reading<'s> {
             path: self.spec.path.clone(),
             columns: columns
                 .into_iter()
-                .map(|(i, built)| NamedColumn {
+                .map(|(i, column)| NamedColumn {
                     name: self.spec.columns[i].name.clone(),
-                    column: Column::from_built(built),
+                    column,
                 })
                 .collect(),
             rows: self.places,

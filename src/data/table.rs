@@ -3,7 +3,9 @@
 //! Guarantees of a [`Table`] returned by [`crate::data::read_table`]:
 //! - it holds exactly the declared columns that are read, in declaration order, each
 //!   `n_rows()` long;
-//! - every code of a categorical or id column indexes its `levels`/`values`; `None` is missing;
+//! - every code of a categorical or id column indexes its `levels`/`values`; a missing cell is
+//!   `None` from `get(row)` (columns are plain `f64`s or `u32`s with a bitmap of missing cells,
+//!   see [`super::column`]);
 //! - categorical cells are declared levels (when levels were declared); numeric cells are
 //!   finite, `-0.0` is stored as `0.0`, and ratio cells are `>= 0`; id cells are never missing;
 //! - nothing depends on hash order: levels and id values are in order of declaration or first
@@ -12,41 +14,20 @@
 use std::fmt::Write as _;
 use std::path::{Path, PathBuf};
 
-use super::cells::Built;
+use super::column::{Codes, Names, Numbers};
 
 /// One column's cells.
 #[derive(Debug, Clone, PartialEq)]
 pub enum Column {
     /// Identifiers, interned: `values[code]` is the text of a cell, in order of first appearance.
-    Id {
-        codes: Vec<Option<u32>>,
-        values: Vec<String>,
-    },
+    Id { codes: Codes, values: Names },
     /// Categories: `levels[code]`, declared or in order of first appearance.
-    Categorical {
-        codes: Vec<Option<u32>>,
-        levels: Vec<String>,
-    },
-    /// Numbers; `None` is a missing cell.
-    Numeric(Vec<Option<f64>>),
+    Categorical { codes: Codes, levels: Names },
+    /// Numbers, with their missing cells.
+    Numeric(Numbers),
 }
 
 impl Column {
-    /// The column the data stage built.
-    pub(super) fn from_built(built: Built) -> Column {
-        match built {
-            Built::Id { codes, values } => Column::Id {
-                codes: codes.iter().collect(),
-                values: values.to_vec(),
-            },
-            Built::Categorical { codes, levels } => Column::Categorical {
-                codes: codes.iter().collect(),
-                levels: levels.to_vec(),
-            },
-            Built::Numeric(numbers) => Column::Numeric(numbers.iter().collect()),
-        }
-    }
-
     /// Number of cells (the table's row count).
     pub fn len(&self) -> usize {
         match self {
@@ -60,7 +41,7 @@ impl Column {
     }
 
     /// The codes of an id or categorical column.
-    pub fn codes(&self) -> Option<&[Option<u32>]> {
+    pub fn codes(&self) -> Option<&Codes> {
         match self {
             Column::Id { codes, .. } | Column::Categorical { codes, .. } => Some(codes),
             Column::Numeric(_) => None,
@@ -68,7 +49,7 @@ impl Column {
     }
 
     /// The levels of a categorical column, or the distinct values of an id column.
-    pub fn levels(&self) -> Option<&[String]> {
+    pub fn levels(&self) -> Option<&Names> {
         match self {
             Column::Id { values, .. } => Some(values),
             Column::Categorical { levels, .. } => Some(levels),
@@ -77,7 +58,7 @@ impl Column {
     }
 
     /// The numbers of a numeric column.
-    pub fn numbers(&self) -> Option<&[Option<f64>]> {
+    pub fn numbers(&self) -> Option<&Numbers> {
         match self {
             Column::Numeric(values) => Some(values),
             _ => None,
@@ -86,17 +67,15 @@ impl Column {
 
     /// The text of an id or categorical cell (`None` when missing, out of range or numeric).
     pub fn text_at(&self, row: usize) -> Option<&str> {
-        let code = (*self.codes()?.get(row)?)?;
-        self.levels()?.get(code as usize).map(String::as_str)
+        let code = self.codes()?.get(row)?;
+        self.levels()?.get(code as usize)
     }
 
     /// Number of missing cells.
     pub fn n_missing(&self) -> usize {
         match self {
-            Column::Id { codes, .. } | Column::Categorical { codes, .. } => {
-                codes.iter().filter(|c| c.is_none()).count()
-            }
-            Column::Numeric(values) => values.iter().filter(|v| v.is_none()).count(),
+            Column::Id { codes, .. } | Column::Categorical { codes, .. } => codes.n_missing(),
+            Column::Numeric(values) => values.n_missing(),
         }
     }
 }
@@ -193,12 +172,12 @@ impl Table {
     }
 
     /// The numbers of a numeric column.
-    pub fn numeric(&self, name: &str) -> Option<&[Option<f64>]> {
+    pub fn numeric(&self, name: &str) -> Option<&Numbers> {
         self.column(name)?.numbers()
     }
 
     /// The codes and levels of a categorical column.
-    pub fn categorical(&self, name: &str) -> Option<(&[Option<u32>], &[String])> {
+    pub fn categorical(&self, name: &str) -> Option<(&Codes, &Names)> {
         match self.column(name)? {
             Column::Categorical { codes, levels } => Some((codes, levels)),
             _ => None,
@@ -206,7 +185,7 @@ impl Table {
     }
 
     /// The codes and distinct values of an id column.
-    pub fn id(&self, name: &str) -> Option<(&[Option<u32>], &[String])> {
+    pub fn id(&self, name: &str) -> Option<(&Codes, &Names)> {
         match self.column(name)? {
             Column::Id { codes, values } => Some((codes, values)),
             _ => None,
@@ -255,7 +234,7 @@ fn write_column(out: &mut String, column: &Column) {
         }
         Column::Numeric(values) => {
             out.push_str("numeric");
-            for value in values {
+            for value in values.iter() {
                 match value {
                     Some(v) => {
                         let _ = write!(out, " {v:?}");
@@ -267,7 +246,7 @@ fn write_column(out: &mut String, column: &Column) {
     }
 }
 
-fn write_codes(out: &mut String, codes: &[Option<u32>], names: &[String]) {
+fn write_codes(out: &mut String, codes: &Codes, names: &Names) {
     out.push('[');
     for (i, name) in names.iter().enumerate() {
         if i > 0 {
@@ -276,7 +255,7 @@ fn write_codes(out: &mut String, codes: &[Option<u32>], names: &[String]) {
         let _ = write!(out, "{name:?}");
     }
     out.push(']');
-    for code in codes {
+    for code in codes.iter() {
         match code {
             Some(c) => {
                 let _ = write!(out, " {c}");
