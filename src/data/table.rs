@@ -99,18 +99,19 @@ pub(super) struct RowPlaces {
     n_rows: usize,
     /// (first data row of the run, its place).
     runs: Vec<(usize, RowPlace)>,
+    /// The place of the last row pushed.
+    last: Option<RowPlace>,
 }
 
 impl RowPlaces {
     pub(super) fn push(&mut self, place: RowPlace) {
         let follows = self
-            .n_rows
-            .checked_sub(1)
-            .and_then(|last| self.get(last))
+            .last
             .is_some_and(|p| p.file_row + 1 == place.file_row && p.line + 1 == place.line);
         if !follows {
             self.runs.push((self.n_rows, place));
         }
+        self.last = Some(place);
         self.n_rows += 1;
     }
 

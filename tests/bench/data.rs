@@ -5,18 +5,25 @@
 //! factor and a histogram of the measure, each written as SVG and PNG at 300 dpi; the release
 //! `figura` builds them with `--force --jobs 1`.
 //!
-//! The irreducible work, done in this process by the crates Figura itself uses: parsing the
-//! same CSV with the `csv` crate alone (every record, the measure read as a number) plus
-//! drawing the two SVGs Figura wrote with `resvg` alone at 300 dpi (parsed by `usvg`,
-//! rasterised, not encoded). Figura's build and the irreducible work alternate, and the
-//! reported ratio is the median over the pairs, so a change in the machine's load hits both.
+//! The irreducible work, done by the crates Figura itself uses: parsing the same CSV with the
+//! `csv` crate alone (every record, the measure read as a number) plus drawing the two SVGs
+//! Figura wrote with `resvg` alone at 300 dpi (parsed by `usvg`, rasterised, not encoded).
+//! Figura's build and the irreducible work alternate, and the reported ratio is the median over
+//! the pairs, so a change in the machine's load hits both. The data stage alone is timed the
+//! same way against the `csv` crate alone: `data::read_table` on the same file (the two columns
+//! the figures use), against the parse above without the drawing.
+//!
+//! Every measured run is a child process (Figura, or this program again with `--irreducible` or
+//! `--data-stage`), so this process stays small: Linux counts the parent's peak memory in a
+//! child's `ru_maxrss`, which is read from `wait4`.
 //!
 //! Reported for each size from 10⁴ to 10⁷ rows: Figura's time, the irreducible time, their
-//! ratio, and Figura's peak resident memory (`ru_maxrss` of the child, from `wait4`) in bytes
-//! per row. Then the memory of a histogram of one ratio column of 10⁷ rows: the peak minus the
-//! peak at 10⁴ rows (the fixed cost: program, font, the PNG being drawn), against the column's
-//! 80 MB of raw doubles. Targets (issue 14): end to end ÷ irreducible ≤ 1.5 at 10⁶ rows;
-//! peak memory for the 10⁷-row column ≤ 3× its raw bytes plus a few MB.
+//! ratio, Figura's peak resident memory in bytes per row, the data stage's time against the
+//! `csv` crate's and its peak memory. Then the memory of a histogram of one ratio column of 10⁷
+//! rows: the peak minus the peak at 10⁴ rows (the fixed cost: program, font, the PNG being
+//! drawn), against the column's 80 MB of raw doubles. Targets (issue 14): end to end ÷
+//! irreducible ≤ 1.5 at 10⁶ rows; peak memory for the 10⁷-row column ≤ 3× its raw bytes plus
+//! a few MB.
 //!
 //! Options: `FIGURA_BENCH_MAX_ROWS` (default 10000000) stops the sizes earlier;
 //! `FIGURA_BENCH_DIR` generates the tables in that (new) folder and keeps them, for profiling.
@@ -36,6 +43,19 @@ use common::Mix;
 const DPI: f32 = 300.0;
 
 fn main() {
+    let args: Vec<String> = std::env::args().collect();
+    if let Some(i) = args.iter().position(|a| a == "--irreducible") {
+        let seconds = irreducible(Path::new(&args[i + 1]), true).as_secs_f64();
+        println!("{seconds}");
+        return;
+    }
+    if let Some(i) = args.iter().position(|a| a == "--data-stage") {
+        let folder = Path::new(&args[i + 1]);
+        let data = data_stage(folder).as_secs_f64();
+        let csv = irreducible(folder, false).as_secs_f64();
+        println!("{data} {csv}");
+        return;
+    }
     let max_rows: usize = std::env::var("FIGURA_BENCH_MAX_ROWS")
         .ok()
         .and_then(|v| v.parse().ok())
@@ -45,9 +65,21 @@ fn main() {
     let root = kept.as_deref().unwrap_or(temp.path());
     fs::create_dir_all(root).expect("the bench folder");
     println!("load average at start: {}", load_average());
+    if max_rows >= 10_000_000 {
+        column_memory(root);
+    }
     println!(
-        "{:>10} {:>10} {:>12} {:>8} {:>12} {:>12}",
-        "rows", "figura", "irreducible", "ratio", "peak RSS", "RSS per row"
+        "{:>9} {:>9} {:>11} {:>6} {:>10} {:>8} | {:>10} {:>9} {:>6} {:>10}",
+        "rows",
+        "figura",
+        "irreducible",
+        "ratio",
+        "peak RSS",
+        "per row",
+        "data stage",
+        "csv crate",
+        "ratio",
+        "peak RSS"
     );
     let sizes = [10_000, 100_000, 1_000_000, 10_000_000];
     for &rows in sizes.iter().filter(|&&n| n <= max_rows) {
@@ -62,26 +94,36 @@ fn main() {
         let mut ratios = Vec::new();
         let mut figura = Vec::new();
         let mut floor = Vec::new();
+        let mut data_ratios = Vec::new();
+        let mut data = Vec::new();
+        let mut csv = Vec::new();
         let mut peak = 0;
+        let mut data_peak = 0;
         for _ in 0..pairs {
             let run = build(&folder, 2);
-            let irreducible = irreducible(&folder);
-            ratios.push(run.time.as_secs_f64() / irreducible.as_secs_f64());
-            figura.push(run.time);
-            floor.push(irreducible);
+            let (irreducible, _) = child_seconds(&folder, "--irreducible");
+            ratios.push(run.time.as_secs_f64() / irreducible[0]);
+            figura.push(run.time.as_secs_f64());
+            floor.push(irreducible[0]);
             peak = peak.max(run.peak_bytes);
+            let (stage, stage_peak) = child_seconds(&folder, "--data-stage");
+            data_ratios.push(stage[0] / stage[1]);
+            data.push(stage[0]);
+            csv.push(stage[1]);
+            data_peak = data_peak.max(stage_peak);
         }
         println!(
-            "{rows:>10} {:>9.3}s {:>11.3}s {:>7.2}x {:>9.1} MB {:>9.1} B",
-            median(&mut figura).as_secs_f64(),
-            median(&mut floor).as_secs_f64(),
-            median_f64(&mut ratios),
+            "{rows:>9} {:>8.3}s {:>10.3}s {:>5.2}x {:>7.1} MB {:>6.1} B | {:>9.3}s {:>8.3}s {:>5.2}x {:>7.1} MB",
+            median(&mut figura),
+            median(&mut floor),
+            median(&mut ratios),
             peak as f64 / 1e6,
-            peak as f64 / rows as f64
+            peak as f64 / rows as f64,
+            median(&mut data),
+            median(&mut csv),
+            median(&mut data_ratios),
+            data_peak as f64 / 1e6,
         );
-    }
-    if max_rows >= 10_000_000 {
-        column_memory(root);
     }
     println!("load average at end: {}", load_average());
 }
@@ -106,6 +148,58 @@ fn column_memory(root: &Path) {
         peak.saturating_sub(fixed) as f64 / raw,
         raw / 1e6
     );
+}
+
+/// Runs this program again with `flag FOLDER`; the seconds it prints and its peak memory.
+#[expect(
+    clippy::zombie_processes,
+    reason = "the child is waited for with wait4, which gives its peak memory"
+)]
+fn child_seconds(folder: &Path, flag: &str) -> (Vec<f64>, u64) {
+    let mut child = Command::new(std::env::current_exe().expect("this program"))
+        .args([flag, folder.to_str().expect("a UTF-8 path")])
+        .stdout(Stdio::piped())
+        .spawn()
+        .expect("the bench runs itself");
+    let mut out = String::new();
+    if let Some(mut pipe) = child.stdout.take() {
+        let _ = pipe.read_to_string(&mut out);
+    }
+    let (status, peak) = wait_with_peak(child.id());
+    assert_eq!(status, 0, "{flag} failed: {out}");
+    let seconds = out
+        .split_whitespace()
+        .map(|s| s.parse().expect("seconds"))
+        .collect();
+    (seconds, peak)
+}
+
+/// Reads the two columns the figures use with the data stage, as a build does.
+fn data_stage(folder: &Path) -> Duration {
+    let path = folder.join("times.figura");
+    let mut sources = figura::diag::SourceMap::new();
+    let id = sources.add(&path, fs::read_to_string(&path).expect("the spec"));
+    let ast = figura::syntax::parse(id, sources.text(id)).expect("the spec parses");
+    let unit = figura::check::SpecUnit {
+        path,
+        ast,
+        sees: Vec::new(),
+        build_figures: true,
+    };
+    let (program, diags) = figura::check::check(&[unit]);
+    assert!(diags.is_empty(), "{diags:#?}");
+    let book = &program.codebooks[0];
+    let vars = program
+        .figures
+        .iter()
+        .flat_map(|f| f.variables(book))
+        .collect();
+    let spec = figura::build::table_spec_reading(book, &vars);
+    let started = Instant::now();
+    let table = figura::data::read_table(&spec, &mut sources).expect("the table reads");
+    let elapsed = started.elapsed();
+    std::hint::black_box(table.n_rows());
+    elapsed
 }
 
 /// An invented table of reaction times: `rows` rows of an id, a condition and a time, or of
@@ -212,8 +306,9 @@ fn wait_with_peak(pid: u32) -> (i32, u64) {
     (code, u64::try_from(usage.ru_maxrss).unwrap_or(0) * 1024)
 }
 
-/// The irreducible work: the CSV parsed by the `csv` crate, the two SVGs drawn by `resvg`.
-fn irreducible(folder: &Path) -> Duration {
+/// The irreducible work: the CSV parsed by the `csv` crate, and (`draw`) the two SVGs drawn by
+/// `resvg`.
+fn irreducible(folder: &Path, draw: bool) -> Duration {
     let started = Instant::now();
     let mut reader = csv::ReaderBuilder::new()
         .from_path(folder.join("times.csv"))
@@ -228,7 +323,10 @@ fn irreducible(folder: &Path) -> Duration {
             .unwrap_or(0.0);
     }
     std::hint::black_box(sum);
-    for name in ["by_condition", "distribution"] {
+    for name in ["by_condition", "distribution"]
+        .into_iter()
+        .filter(|_| draw)
+    {
         let path = folder.join("out").join(format!("{name}.svg"));
         let Ok(svg) = fs::read(&path) else {
             continue;
@@ -248,12 +346,7 @@ fn irreducible(folder: &Path) -> Duration {
     started.elapsed()
 }
 
-fn median(values: &mut [Duration]) -> Duration {
-    values.sort();
-    values[values.len() / 2]
-}
-
-fn median_f64(values: &mut [f64]) -> f64 {
+fn median(values: &mut [f64]) -> f64 {
     values.sort_by(f64::total_cmp);
     values[values.len() / 2]
 }
