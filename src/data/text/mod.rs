@@ -49,17 +49,15 @@ pub(super) fn read(
     let header = file.read_header(report)?;
     let fields = header::locate(spec, &header, Some(format.separator), report);
     let mut reading = Reading::new(spec, &fields, format.decimal, limits);
+    let rules = RowRules {
+        header: &header,
+        source: file.source,
+        separator: format.separator,
+    };
     let complete = loop {
         match file.rows.next_row() {
             Ok(Some(row)) => {
-                if !read_row(
-                    &mut reading,
-                    &row,
-                    &header,
-                    file.source,
-                    format.separator,
-                    report,
-                ) {
+                if !read_row(&mut reading, &row, &rules, report) {
                     break false;
                 }
             }
@@ -176,15 +174,16 @@ fn unclosed_quote(file: &str, row: &Row, source: SourceId) -> crate::diag::Diagn
     messages::unclosed_quote(file, row.file_row, row.line, row.open_quote_span(source))
 }
 
-/// Reads one data row; `false` when reading must stop (too many rows).
-fn read_row(
-    reading: &mut Reading,
-    row: &Row,
-    header: &Header,
+/// What every row is checked against: the header, the text's source id, the separator.
+struct RowRules<'h> {
+    header: &'h Header,
     source: SourceId,
     separator: Separator,
-    report: &mut Report,
-) -> bool {
+}
+
+/// Reads one data row; `false` when reading must stop (too many rows).
+fn read_row(reading: &mut Reading, row: &Row, rules: &RowRules, report: &mut Report) -> bool {
+    let source = rules.source;
     if !row.unclosed_quote && row.is_blank() {
         return true;
     }
@@ -195,7 +194,7 @@ fn read_row(
     if !reading.start_row(place, report) {
         return false;
     }
-    let readable = check_shape(row, header, source, separator, report);
+    let readable = check_shape(row, rules, report);
     for k in 0..reading.columns().len() {
         let field = reading.columns()[k].1;
         let cell = match readable {
@@ -216,13 +215,8 @@ fn read_row(
 
 /// Reports a row whose quote never closes or whose width differs from the header's;
 /// `false` when its cells cannot be read.
-fn check_shape(
-    row: &Row,
-    header: &Header,
-    source: SourceId,
-    separator: Separator,
-    report: &mut Report,
-) -> bool {
+fn check_shape(row: &Row, rules: &RowRules, report: &mut Report) -> bool {
+    let (header, source, separator) = (rules.header, rules.source, rules.separator);
     if row.unclosed_quote {
         report.add(codes::MALFORMED, |file| unclosed_quote(file, row, source));
         return false;
