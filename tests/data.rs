@@ -1770,3 +1770,30 @@ fn the_workbook_parquet_and_semicolon_examples_give_the_numbers_of_the_csv() {
     // The semicolon file's accented levels were decoded from windows-1252.
     assert!(summaries["egg_mass_means"].contains("Hölzliwiese"));
 }
+
+#[test]
+fn a_table_of_no_column_read_still_has_its_rows() {
+    // The sleep table in each format, with no column read: 20 rows, no columns.
+    let (ids, drugs, hours) = sleep_columns();
+    let files = [
+        ("sleep.csv", sleep_text().into_bytes()),
+        ("sleep.xlsx", writers::xlsx(&[sleep_sheet("Sleep", 1, 0)])),
+        (
+            "sleep.parquet",
+            writers::parquet(
+                &[
+                    PColumn::Int64("patient", ids),
+                    PColumn::Text("drug", drugs),
+                    PColumn::Double("extra_hours", hours),
+                ],
+                8,
+            ),
+        ),
+    ];
+    for (path, bytes) in files {
+        let mut s = sleep_setup(path, false);
+        s.spec.columns.iter_mut().for_each(|c| c.read = false);
+        let table = s.parse(&bytes).expect("reads");
+        assert_eq!((table.n_rows(), table.columns().count()), (20, 0), "{path}");
+    }
+}

@@ -200,6 +200,7 @@ fn read_from<R: ChunkReader + 'static>(
     };
     for group in 0..file.num_row_groups() {
         let group = file.get_row_group(group).map_err(damaged)?;
+        let group_rows = usize::try_from(group.metadata().num_rows()).unwrap_or(0);
         let mut columns = rows
             .reading
             .columns()
@@ -216,7 +217,7 @@ fn read_from<R: ChunkReader + 'static>(
             .collect::<Result<Vec<_>, parquet::errors::ParquetError>>()
             .map_err(damaged)?;
         if !rows
-            .read_group(&mut columns, spec, report)
+            .read_group(&mut columns, group_rows, spec, report)
             .map_err(damaged)?
         {
             return Ok(None);
@@ -239,19 +240,30 @@ struct ParquetRows<'s> {
 
 impl ParquetRows<'_> {
     /// Reads one row group, batch by batch; `Ok(false)` when reading must stop.
+    /// `group_rows` is the row count the group's metadata gives (its rows when no column of
+    /// it is read).
     fn read_group(
         &mut self,
         columns: &mut [ColumnBatch],
+        group_rows: usize,
         spec: &TableSpec,
         report: &mut Report,
     ) -> parquet::errors::Result<bool> {
+        let mut left = group_rows;
         loop {
-            let mut n = None;
-            for column in columns.iter_mut() {
-                let read = column.read_batch()?;
-                n = Some(n.map_or(read, |m: usize| m.min(read)));
-            }
-            let n = n.unwrap_or(0);
+            let counts = columns
+                .iter_mut()
+                .map(ColumnBatch::read_batch)
+                .collect::<parquet::errors::Result<Vec<usize>>>()?;
+            let n = match counts.first() {
+                Some(&n) if counts.iter().all(|&c| c == n) => n,
+                Some(_) => {
+                    return Err(parquet::errors::ParquetError::General(
+                        "the columns of a row group hold different numbers of rows".to_owned(),
+                    ))
+                }
+                None => std::mem::take(&mut left),
+            };
             if n == 0 {
                 return Ok(true);
             }
@@ -276,9 +288,6 @@ impl ParquetRows<'_> {
                         span: spec.path_span,
                     });
                 }
-            }
-            if columns.is_empty() {
-                return Ok(true);
             }
         }
     }
