@@ -160,8 +160,14 @@ impl Interner {
         interner
     }
 
-    /// The code of `text`, if it has one.
+    /// The code of `text`, if it has one. A few names are compared in turn, which is quicker
+    /// than hashing (the usual factor has two to five levels); more are looked up by hash.
     fn find(&self, text: &str) -> Option<u32> {
+        const FEW: usize = 8;
+        if self.names.len() <= FEW {
+            let code = self.names.iter().position(|name| name == text)?;
+            return u32::try_from(code).ok();
+        }
         let hash = self.hasher.hash_one(text);
         let names = &self.names;
         self.table
