@@ -307,15 +307,14 @@ fn a_subject_in_two_groups_of_a_between_factor_is_f0121_naming_subject_file_and_
         d.message,
         "subject \"S2\" is listed at two levels of the between factor `group`: \"control\" (study.csv row 4) and \"training\" (study.csv row 5)"
     );
-    // The primary label is `group` in `between group` (line 7, column 11); the two rows of the
-    // data file are labelled too.
+    // The primary label is `group` in `between group` (line 7, column 11); the message names
+    // the two rows, and the diagnostic names the data file they are in.
     let span = d.span().unwrap();
     assert_eq!(report.sources.line_col(span.source, span.start), (7, 11));
-    let in_data: Vec<(usize, usize)> = d.labels[1..]
-        .iter()
-        .map(|l| report.sources.line_col(l.span.source, l.span.start))
-        .collect();
-    assert_eq!(in_data, vec![(4, 1), (5, 1)]);
+    assert!(
+        d.file.as_deref().is_some_and(|f| f.ends_with("study.csv")),
+        "{d:#?}"
+    );
     assert_eq!(report.count(FigureState::Failed), 1);
     assert!(!case.out().join("scores.svg").exists());
 }

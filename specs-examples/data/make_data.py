@@ -3,12 +3,17 @@
 Every scenario here is made up for the examples (no real study, no real people). The numbers
 come from a fixed-seed generator so the files are reproducible: run
 `python3 specs-examples/data/make_data.py` from the repository root to write them again.
+
+The standard library writes every file but one: nests.parquet needs pyarrow
+(`python3 -m pip install pyarrow`). Without it that file is left as it is (it is committed).
 """
 
 import csv
 import math
 import os
 import random
+import zipfile
+from xml.sax.saxutils import escape
 
 HERE = os.path.dirname(os.path.abspath(__file__))
 
@@ -139,6 +144,134 @@ def leaves(rng):
     write("leaves.csv", ["leaf", "site", "mass", "area"], rows)
 
 
+NEST_HEADER = ["nest", "meadow", "eggs", "egg_mass"]
+
+
+def nests(rng):
+    """Bird nests in three meadows: clutch size and mean egg mass per nest.
+
+    One table written four ways, as field data reaches a lab: plain CSV (nests.csv), a field
+    workbook (nests.xlsx), a database export (nests.parquet) and a spreadsheet's semicolon
+    export with decimal commas in windows-1252 (nests-semicolon.csv). Two masses were not
+    recorded.
+    """
+    meadows = (("Prés-Hauts", 4.6, 1.92), ("Hölzliwiese", 4.1, 1.81), ("Ängsbacken", 5.0, 2.03))
+    rows = []
+    n = 0
+    for meadow, clutch, mass in meadows:
+        for _ in range(30):
+            n += 1
+            eggs = max(1, min(8, round(rng.gauss(clutch, 1.1))))
+            grams = f"{max(1.2, rng.gauss(mass, 0.14)):.2f}"
+            if n in (17, 62):
+                grams = ""
+            rows.append([f"N{n:03d}", meadow, eggs, grams])
+    csv_rows = [[a, b, c, d or "NA"] for a, b, c, d in rows]
+    write("nests.csv", NEST_HEADER, csv_rows)
+    with open(os.path.join(HERE, "nests-semicolon.csv"), "w", newline="", encoding="cp1252") as f:
+        w = csv.writer(f, delimiter=";", lineterminator="\r\n")
+        w.writerow(NEST_HEADER)
+        w.writerows([[a, b, c, d.replace(".", ",")] for a, b, c, d in csv_rows])
+    nests_workbook(rows)
+    nests_parquet(rows)
+
+
+def cell_xml(ref, value, strings):
+    """One worksheet cell: a number, or text kept in the shared-string table."""
+    if value == "":
+        return ""
+    if isinstance(value, (int, float)):
+        return f'<c r="{ref}"><v>{value!r}</v></c>'
+    if value not in strings:
+        strings.append(value)
+    return f'<c r="{ref}" t="s"><v>{strings.index(value)}</v></c>'
+
+
+def sheet_xml(rows, strings):
+    """A worksheet: rows of (row number, values from column A)."""
+    out = []
+    for number, values in rows:
+        cells = "".join(cell_xml(f"{'ABCD'[i]}{number}", v, strings) for i, v in enumerate(values))
+        out.append(f'<row r="{number}">{cells}</row>')
+    return (
+        '<?xml version="1.0" encoding="UTF-8" standalone="yes"?>'
+        '<worksheet xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main">'
+        f'<sheetData>{"".join(out)}</sheetData></worksheet>'
+    )
+
+
+def nests_workbook(rows):
+    """nests.xlsx: a title above the table on sheet "Nests", a "Notes" sheet before it.
+
+    Written as the Office Open XML parts of a workbook (ECMA-376, SpreadsheetML), with fixed
+    times in the zip so the file is the same on every run.
+    """
+    strings = []
+    notes = sheet_xml([(1, ["Counted on the first visit; masses are the mean of the clutch."])], strings)
+    table = [(1, ["Nest survey, spring (invented data)"])]
+    table.append((3, NEST_HEADER))
+    for i, (nest, meadow, eggs, grams) in enumerate(rows):
+        table.append((4 + i, [nest, meadow, eggs, float(grams) if grams else ""]))
+    nests_sheet = sheet_xml(table, strings)
+    main = "http://schemas.openxmlformats.org/spreadsheetml/2006/main"
+    rel = "http://schemas.openxmlformats.org/officeDocument/2006/relationships"
+    pkg = "http://schemas.openxmlformats.org/package/2006"
+    xml = '<?xml version="1.0" encoding="UTF-8" standalone="yes"?>'
+    sst = "".join(f"<si><t>{escape(s)}</t></si>" for s in strings)
+    parts = {
+        "[Content_Types].xml": xml + f'<Types xmlns="{pkg}/content-types">'
+        '<Default Extension="rels" ContentType="application/vnd.openxmlformats-package.relationships+xml"/>'
+        '<Default Extension="xml" ContentType="application/xml"/>'
+        '<Override PartName="/xl/workbook.xml" ContentType="application/vnd.openxmlformats-officedocument.spreadsheetml.sheet.main+xml"/>'
+        '<Override PartName="/xl/worksheets/sheet1.xml" ContentType="application/vnd.openxmlformats-officedocument.spreadsheetml.worksheet+xml"/>'
+        '<Override PartName="/xl/worksheets/sheet2.xml" ContentType="application/vnd.openxmlformats-officedocument.spreadsheetml.worksheet+xml"/>'
+        '<Override PartName="/xl/styles.xml" ContentType="application/vnd.openxmlformats-officedocument.spreadsheetml.styles+xml"/>'
+        '<Override PartName="/xl/sharedStrings.xml" ContentType="application/vnd.openxmlformats-officedocument.spreadsheetml.sharedStrings+xml"/>'
+        "</Types>",
+        "_rels/.rels": xml + f'<Relationships xmlns="{pkg}/relationships">'
+        f'<Relationship Id="rId1" Type="{rel}/officeDocument" Target="xl/workbook.xml"/></Relationships>',
+        "xl/workbook.xml": xml + f'<workbook xmlns="{main}" xmlns:r="{rel}"><sheets>'
+        '<sheet name="Notes" sheetId="1" r:id="rId1"/><sheet name="Nests" sheetId="2" r:id="rId2"/>'
+        "</sheets></workbook>",
+        "xl/_rels/workbook.xml.rels": xml + f'<Relationships xmlns="{pkg}/relationships">'
+        f'<Relationship Id="rId1" Type="{rel}/worksheet" Target="worksheets/sheet1.xml"/>'
+        f'<Relationship Id="rId2" Type="{rel}/worksheet" Target="worksheets/sheet2.xml"/>'
+        f'<Relationship Id="rId3" Type="{rel}/styles" Target="styles.xml"/>'
+        f'<Relationship Id="rId4" Type="{rel}/sharedStrings" Target="sharedStrings.xml"/>'
+        "</Relationships>",
+        "xl/styles.xml": xml + f'<styleSheet xmlns="{main}"><cellXfs count="1">'
+        '<xf numFmtId="0" fontId="0" fillId="0" borderId="0"/></cellXfs></styleSheet>',
+        "xl/sharedStrings.xml": xml
+        + f'<sst xmlns="{main}" count="{len(strings)}" uniqueCount="{len(strings)}">{sst}</sst>',
+        "xl/worksheets/sheet1.xml": notes,
+        "xl/worksheets/sheet2.xml": nests_sheet,
+    }
+    with zipfile.ZipFile(os.path.join(HERE, "nests.xlsx"), "w") as z:
+        for name, text in parts.items():
+            info = zipfile.ZipInfo(name, date_time=(1980, 1, 1, 0, 0, 0))
+            info.compress_type = zipfile.ZIP_DEFLATED
+            z.writestr(info, text.encode("utf-8"))
+
+
+def nests_parquet(rows):
+    """nests.parquet, as a database would export the table (needs pyarrow)."""
+    try:
+        import pyarrow as pa
+        import pyarrow.parquet as pq
+    except ImportError:
+        print("pyarrow is not installed: nests.parquet is left as it is")
+        return
+    table = pa.table(
+        {
+            "nest": pa.array([r[0] for r in rows], pa.string()),
+            "meadow": pa.array([r[1] for r in rows], pa.string()),
+            "eggs": pa.array([r[2] for r in rows], pa.int64()),
+            "egg_mass": pa.array([float(r[3]) if r[3] else None for r in rows], pa.float64()),
+        }
+    )
+    pq.write_table(table, os.path.join(HERE, "nests.parquet"), compression="snappy")
+
+
 def main():
     rng = random.Random(20261202)
     reading(rng)
@@ -149,6 +282,7 @@ def main():
     clinic(random.Random(31))
     responses(random.Random(47))
     leaves(random.Random(59))
+    nests(random.Random(71))
 
 
 if __name__ == "__main__":

@@ -28,6 +28,7 @@ use std::path::{Path, PathBuf};
 
 use rayon::prelude::*;
 
+use crate::check::plan::VarId;
 use crate::check::{self, FigureDefaults, FigurePlan, Program};
 use crate::compute::ComputeError;
 use crate::compute::SummaryRow;
@@ -41,7 +42,7 @@ use manifest::{Freshness, Manifest, NumbersEntry, Scope};
 
 pub use render::{
     output_kinds, output_names, render_figure, report_figure_panics_as_failures, table_spec,
-    FigureError, FigureOutputs, OutputKind, Purpose,
+    table_spec_reading, FigureError, FigureOutputs, OutputKind, Purpose,
 };
 pub use write::{write_atomic, write_if_changed, TEMP_SUFFIX};
 
@@ -355,8 +356,9 @@ pub fn build(options: &BuildOptions, progress: &dyn Progress) -> Result<BuildRep
 /// The manifests read so far, by output folder.
 type Manifests = BTreeMap<PathBuf, Manifest>;
 
-/// The tables read so far, by codebook; `None` for a table with errors.
-type Tables = BTreeMap<usize, Option<Table>>;
+/// The tables read so far, by codebook, with the variables read; `None` for a table with
+/// errors.
+type Tables = BTreeMap<usize, (BTreeSet<VarId>, Option<Table>)>;
 
 /// What a run found and made, for the steps that look at whole output folders.
 struct Run<'r, 'p> {
@@ -440,7 +442,7 @@ fn make_all(
     let todo: Vec<usize> = (0..jobs.len())
         .filter(|&i| jobs[i].freshness != Freshness::UpToDate)
         .collect();
-    let needed: BTreeSet<usize> = todo.iter().map(|&i| jobs[i].plan.data).collect();
+    let needed = columns_of(program, todo.iter().map(|&i| jobs[i].plan));
     read_tables(program, &needed, tables, report);
     let tables = &*tables;
     let folder_errors = match mode {
@@ -453,7 +455,7 @@ fn make_all(
             .map(|&i| {
                 let job = &jobs[i];
                 let made = match tables.get(&job.plan.data) {
-                    Some(Some(table)) => match folder_errors.get(&job.dir) {
+                    Some((_, Some(table))) => match folder_errors.get(&job.dir) {
                         Some(message) => Made {
                             result: Err(FigureError::Build(BuildError::Io {
                                 path: job.dir.clone(),
@@ -505,26 +507,51 @@ fn thread_pool(jobs: Option<NonZeroUsize>) -> Result<rayon::ThreadPool, BuildErr
         .map_err(|e| BuildError::Internal(format!("cannot start the worker threads: {e}")))
 }
 
-/// Reads the tables of the codebooks in `needed` that are not read yet, once each.
+/// The variables each data block's figures use (its columns to read), by codebook.
+fn columns_of<'p>(
+    program: &Program,
+    plans: impl Iterator<Item = &'p FigurePlan>,
+) -> BTreeMap<usize, BTreeSet<VarId>> {
+    let mut needed: BTreeMap<usize, BTreeSet<VarId>> = BTreeMap::new();
+    for plan in plans {
+        let book = &program.codebooks[plan.data];
+        needed
+            .entry(plan.data)
+            .or_default()
+            .extend(plan.variables(book));
+    }
+    needed
+}
+
+/// Reads the tables of the codebooks in `needed` with the columns listed (the figures being
+/// made use no others), once each: a table read before is read again only when it lacks a
+/// column now needed.
 fn read_tables(
     program: &Program,
-    needed: &BTreeSet<usize>,
+    needed: &BTreeMap<usize, BTreeSet<VarId>>,
     tables: &mut Tables,
     report: &mut BuildReport,
 ) {
-    for &idx in needed {
-        if tables.contains_key(&idx) {
-            continue;
+    for (&idx, vars) in needed {
+        if let Some((read, _)) = tables.get(&idx) {
+            if vars.is_subset(read) {
+                continue;
+            }
         }
-        let spec = table_spec(&program.codebooks[idx]);
+        let mut vars = vars.clone();
+        if let Some((read, _)) = tables.get(&idx) {
+            vars.extend(read.iter().copied());
+        }
+        let book = &program.codebooks[idx];
+        let spec = table_spec_reading(book, &vars);
         let table = match data::read_table(&spec, &mut report.sources) {
-            Ok(t) => design_checked(&program.codebooks[idx], t, report),
+            Ok(t) => design_checked(book, t, report),
             Err(diags) => {
                 report.diagnostics.extend(diags);
                 None
             }
         };
-        tables.insert(idx, table);
+        tables.insert(idx, (vars, table));
     }
 }
 
@@ -767,11 +794,13 @@ fn summaries(
     tables: &mut Tables,
     report: &mut BuildReport,
 ) -> Vec<FigureNumbers> {
-    let kept: BTreeSet<usize> = indices
-        .iter()
-        .filter(|&&i| matches!(run.outcomes[i], Outcome::Kept))
-        .map(|&i| run.jobs[i].plan.data)
-        .collect();
+    let kept = columns_of(
+        run.program,
+        indices
+            .iter()
+            .filter(|&&i| matches!(run.outcomes[i], Outcome::Kept))
+            .map(|&i| run.jobs[i].plan),
+    );
     read_tables(run.program, &kept, tables, report);
     let mut out = Vec::new();
     for &i in indices {
@@ -780,7 +809,7 @@ fn summaries(
         let rows = match &run.outcomes[i] {
             Outcome::Made(_, rows) => Some(rows.clone()),
             Outcome::Kept => match tables.get(&plan.data) {
-                Some(Some(table)) => crate::compute::compute(plan, book, table)
+                Some((_, Some(table))) => crate::compute::compute(plan, book, table)
                     .ok()
                     .map(|data| data.summary),
                 _ => None,

@@ -9,6 +9,9 @@ use std::any::Any;
 use std::cell::{Cell, RefCell};
 use std::panic::{self, AssertUnwindSafe};
 
+use std::collections::BTreeSet;
+
+use crate::check::plan::VarId;
 use crate::check::{Codebook, FigurePlan, Scale};
 use crate::compute::{self, ComputeError};
 use crate::data::{ColumnKind, ColumnSpec, Table, TableSpec};
@@ -245,27 +248,35 @@ fn limit(e: ExportError) -> FigureError {
 /// into the file (they point at the spec), the file is attached, so the row numbers of the
 /// message can be found.
 fn naming_data_file(d: Diagnostic, table: &Table) -> Diagnostic {
-    let in_table = d.labels.iter().any(|l| l.span.source == table.source());
-    if in_table || d.file.is_some() {
+    if d.file.is_some() {
         d
     } else {
         d.with_file(table.path())
     }
 }
 
-/// The data stage's view of a codebook.
+/// The data stage's view of a codebook, reading every declared column.
 pub fn table_spec(book: &Codebook) -> TableSpec {
+    table_spec_reading(book, &(0..book.vars.len()).map(VarId).collect())
+}
+
+/// The data stage's view of a codebook, reading the cells of the variables in `read` only
+/// (the others are only looked for in the header).
+pub fn table_spec_reading(book: &Codebook, read: &BTreeSet<VarId>) -> TableSpec {
     TableSpec {
         path: book.path.clone(),
         path_span: book.path_span,
+        format: book.format.clone(),
         missing: book.missing.clone(),
         columns: book
             .vars
             .iter()
-            .map(|v| ColumnSpec {
+            .enumerate()
+            .map(|(i, v)| ColumnSpec {
                 name: v.name.clone(),
                 header: v.column.clone(),
                 decl_span: v.span,
+                read: read.contains(&VarId(i)),
                 kind: match v.scale {
                     Scale::Id => ColumnKind::Id,
                     Scale::Nominal | Scale::Ordinal => ColumnKind::Categorical {

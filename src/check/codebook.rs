@@ -2,6 +2,7 @@
 
 use std::path::Path;
 
+use crate::data::{CellRange, DecimalMark, FileFormat, Separator, TextFormat, WorkbookFormat};
 use crate::diag::{did_you_mean, Code, Diagnostic, Span};
 use crate::syntax::ast::{Block, Ident, Plain, Statement, Term};
 
@@ -15,7 +16,32 @@ pub const VARIABLE_OPTIONS: &[&str] = &["levels", "labels", "midpoint", "label",
 pub const REPLICATES_OPTIONS: &[&str] = &["collapse"];
 
 const SCALES: [&str; 5] = ["id", "nominal", "ordinal", "interval", "ratio"];
-const DATA_STATEMENTS: [&str; 5] = ["missing", "subject", "within", "between", "replicates"];
+const DATA_STATEMENTS: [&str; 10] = [
+    "missing",
+    "subject",
+    "within",
+    "between",
+    "replicates",
+    "separator",
+    "decimal",
+    "encoding",
+    "sheet",
+    "cells",
+];
+/// The statements that say how the file is read, and the kind of file each is for.
+const READING_STATEMENTS: [(&str, FileKind); 5] = [
+    ("separator", FileKind::Text),
+    ("decimal", FileKind::Text),
+    ("encoding", FileKind::Text),
+    ("sheet", FileKind::Workbook),
+    ("cells", FileKind::Workbook),
+];
+
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+enum FileKind {
+    Text,
+    Workbook,
+}
 
 /// Checks one `data` block; `spec_dir` is the folder of the spec file that declares it.
 pub fn check_data_block(
@@ -41,6 +67,7 @@ pub fn check_data_block(
         name: block.name.name.clone(),
         path: spec_dir.join(&path.value),
         path_span: path.span,
+        format: FileFormat::for_path(Path::new(&path.value)),
         missing: vec![String::new(), "NA".to_string()],
         vars: Vec::new(),
         subject: None,
@@ -51,10 +78,18 @@ pub fn check_data_block(
         span: block.span,
     };
     let mut design: Vec<&Plain> = Vec::new();
+    let mut reading: Vec<&Plain> = Vec::new();
     let mut missing_seen: Option<Span> = None;
     for stmt in &block.statements {
         match stmt {
             Statement::Plain(p) if p.target.is_some() => declare(&mut book, p, diags),
+            Statement::Plain(p)
+                if READING_STATEMENTS
+                    .iter()
+                    .any(|(name, _)| *name == p.head.name) =>
+            {
+                reading.push(p)
+            }
             Statement::Plain(p) if p.head.name == "missing" => {
                 if let Some(first) = missing_seen {
                     diags.push(repeated(&p.head, first));
@@ -82,7 +117,149 @@ pub fn check_data_block(
     for p in design {
         apply_design(&mut book, p, diags);
     }
+    read_format(&mut book, &path.value, &reading, diags);
     Some(book)
+}
+
+/// Applies `separator`, `decimal`, `encoding` (text files), `sheet` and `cells` (workbooks).
+fn read_format(
+    book: &mut Codebook,
+    path: &str,
+    statements: &[&Plain],
+    diags: &mut Vec<Diagnostic>,
+) {
+    let mut seen: Vec<&Plain> = Vec::new();
+    for &p in statements {
+        if let Some(first) = seen.iter().find(|s| s.head.name == p.head.name) {
+            diags.push(repeated(&p.head, first.head.span));
+            continue;
+        }
+        seen.push(p);
+        let wanted = READING_STATEMENTS
+            .iter()
+            .find(|(name, _)| *name == p.head.name)
+            .map(|(_, kind)| *kind);
+        match (&mut book.format, wanted) {
+            (FileFormat::Text(text), Some(FileKind::Text)) => text_statement(text, p, diags),
+            (FileFormat::Workbook(sheet), Some(FileKind::Workbook)) => {
+                workbook_statement(sheet, p, diags)
+            }
+            (format, Some(kind)) => diags.push(wrong_file_kind(p, kind, format, path)),
+            (_, None) => {}
+        }
+    }
+    if let FileFormat::Text(text) = &book.format {
+        if text.separator == Separator::Comma && text.decimal == DecimalMark::Comma {
+            let at = seen
+                .iter()
+                .find(|p| p.head.name == "decimal")
+                .map_or(book.path_span, |p| p.span);
+            diags.push(
+                Diagnostic::new(
+                    Code::BadArgument,
+                    "a file with decimal commas cannot have commas between fields",
+                )
+                .with_label(at, "decimal comma")
+                .with_help("name the file's separator, e.g. `separator semicolon`"),
+            );
+        }
+    }
+}
+
+/// `separator WORD`, `decimal WORD`, `encoding "LABEL"`.
+fn text_statement(format: &mut TextFormat, p: &Plain, diags: &mut Vec<Diagnostic>) {
+    match p.head.name.as_str() {
+        "separator" => {
+            let words: Vec<&str> = Separator::ALL.iter().map(|s| s.word()).collect();
+            if let Some(word) = one_choice(p, &words, "separator semicolon", diags) {
+                format.separator = Separator::from_word(&word.name).unwrap_or(format.separator);
+            }
+        }
+        "decimal" => {
+            if let Some(word) = one_choice(p, &["point", "comma"], "decimal comma", diags) {
+                format.decimal = DecimalMark::from_word(&word.name).unwrap_or(format.decimal);
+            }
+        }
+        _ => {
+            let Some(label) = terms::one_string(p, "encoding \"windows-1252\"", diags) else {
+                return;
+            };
+            match encoding_rs::Encoding::for_label(label.value.trim().as_bytes()) {
+                Some(encoding)
+                    if encoding.is_ascii_compatible() && encoding != encoding_rs::REPLACEMENT =>
+                {
+                    format.encoding = encoding;
+                }
+                _ => diags.push(
+                    Diagnostic::new(
+                        Code::BadArgument,
+                        format!("\"{}\" is not an encoding Figura reads", label.value),
+                    )
+                    .with_label(label.span, "unknown encoding")
+                    .with_help(
+                        "name the encoding as the WHATWG Encoding Standard does, e.g. \"utf-8\", \
+                         \"windows-1252\" (also \"latin1\"), \"iso-8859-15\" or \"shift_jis\"; \
+                         UTF-16 files must be saved as UTF-8",
+                    ),
+                ),
+            }
+        }
+    }
+}
+
+/// `sheet "NAME"`, `cells "B2:F200"`.
+fn workbook_statement(format: &mut WorkbookFormat, p: &Plain, diags: &mut Vec<Diagnostic>) {
+    if p.head.name == "sheet" {
+        if let Some(name) = terms::one_string(p, "sheet \"Visits\"", diags) {
+            format.sheet = Some(name.value.clone());
+        }
+        return;
+    }
+    let Some(range) = terms::one_string(p, "cells \"B2:F200\"", diags) else {
+        return;
+    };
+    match CellRange::parse(range.value.trim()) {
+        Some(cells) => format.cells = Some(cells),
+        None => diags.push(
+            Diagnostic::new(
+                Code::BadArgument,
+                format!("\"{}\" is not a block of cells", range.value),
+            )
+            .with_label(range.span, "not a cell range")
+            .with_help(
+                "write the top left and the bottom right cell as the sheet names them, e.g. \
+                 `cells \"B2:F200\"`; the first row of the block is the header",
+            ),
+        ),
+    }
+}
+
+/// The one word of a statement, from a fixed set.
+fn one_choice<'a>(
+    p: &'a Plain,
+    choices: &[&str],
+    shape: &str,
+    diags: &mut Vec<Diagnostic>,
+) -> Option<&'a Ident> {
+    terms::one_word(p, shape, diags)?;
+    terms::expect_choice(&p.terms[0], choices, shape, diags)
+}
+
+fn wrong_file_kind(p: &Plain, wanted: FileKind, format: &FileFormat, path: &str) -> Diagnostic {
+    let for_what = match wanted {
+        FileKind::Text => "text files (CSV, TSV)",
+        FileKind::Workbook => "workbooks (.xlsx)",
+    };
+    Diagnostic::new(
+        Code::UnknownStatement,
+        format!(
+            "`{}` is for {for_what}, but \"{path}\" is {}",
+            p.head.name,
+            format.kind_words()
+        ),
+    )
+    .with_label(p.head.span, "not for this file")
+    .with_help("remove the statement; the file's extension says how it is read (.csv and others: text, .tsv: tab-separated text, .xlsx: workbook, .parquet: Parquet)")
 }
 
 fn missing_list(p: &Plain, diags: &mut Vec<Diagnostic>) -> Option<Vec<String>> {
@@ -112,7 +289,7 @@ fn unknown_statement(head: &Ident) -> Diagnostic {
     match did_you_mean(&head.name, DATA_STATEMENTS.iter().copied()) {
         Some(s) => d.with_help(format!("did you mean `{s}`? A variable is declared as `name: scale`")),
         None => d.with_help(
-            "a data block holds declarations `name: scale ...` and `missing`, `subject`, `within`, `between`, `replicates`",
+            "a data block holds declarations `name: scale ...` and `missing`, `subject`, `within`, `between`, `replicates`, and for how its file is read `separator`, `decimal`, `encoding`, `sheet`, `cells`",
         ),
     }
 }

@@ -107,6 +107,8 @@ pub struct Codebook {
     /// The data file, resolved against the spec's folder.
     pub path: PathBuf,
     pub path_span: Span,
+    /// How the file is written: its extension and the block's reading statements.
+    pub format: crate::data::FileFormat,
     pub missing: Vec<String>,
     pub vars: Vec<Variable>,
     pub subject: Option<VarId>,
@@ -374,6 +376,34 @@ pub struct FigurePlan {
     pub size_span: Span,
     pub formats: Formats,
     pub dpi: u32,
+}
+
+impl FigurePlan {
+    /// The variables computing this figure reads: its axes, `colour`, `panels`, the filter's
+    /// variables, the data block's subject (every figure counts subjects and checks repeated
+    /// ones; the `by(...)` of `lines` and `flows` is always the subject) and its design factors
+    /// (the design is checked against the data). The build reads only these columns.
+    pub fn variables(&self, book: &Codebook) -> std::collections::BTreeSet<VarId> {
+        let mut vars: Vec<VarId> = book.subject.into_iter().collect();
+        vars.extend(book.within.iter().chain(&book.between).copied());
+        match &self.axes {
+            Axes::Cat { x } => vars.push(x.var.var),
+            Axes::Num { x } => vars.push(x.var.var),
+            Axes::CatNum { x, y } => vars.extend([x.var.var, y.var.var]),
+            Axes::CatCat { x, y } => vars.extend([x.var.var, y.var.var]),
+            Axes::NumNum { x, y } => vars.extend([x.var.var, y.var.var]),
+        }
+        vars.extend(self.colour.iter().chain(&self.panels).map(|c| c.var));
+        let mut filters: Vec<&Filter> = self.filter.iter().collect();
+        while let Some(filter) = filters.pop() {
+            match filter {
+                Filter::Levels { var, .. } | Filter::Numeric { var, .. } => vars.push(*var),
+                Filter::Not(inner) => filters.push(inner),
+                Filter::And(a, b) | Filter::Or(a, b) => filters.extend([&**a, &**b]),
+            }
+        }
+        vars.into_iter().collect()
+    }
 }
 
 /// All checked data blocks and figures of one build.

@@ -22,7 +22,7 @@ use crate::check::layer::Shows;
 use crate::check::plan::{
     Axes, AxisScale, CatAxis, CatVar, Codebook, Collapse, FigurePlan, LevelOrder, NumAxis, VarId,
 };
-use crate::data::Table;
+use crate::data::{Codes, Names, Numbers, Table};
 use crate::diag::{Code, Diagnostic, Span};
 
 use super::filter::filter_rows;
@@ -148,23 +148,23 @@ pub struct Cells<'a> {
     /// The fewest and most trials a subject had in one cell, when `replicates` collapsed them
     /// (for the key: "each participant's mean of 6 trials").
     pub trials: Option<(usize, usize)>,
-    subjects: Option<&'a [String]>,
+    subjects: Option<&'a Names>,
 }
 
 /// Columns that sort rows into cells.
 struct Sorter<'a> {
     keep: Vec<bool>,
-    panel: Option<(&'a [Option<u32>], &'a Levels)>,
-    x: Option<(&'a [Option<u32>], &'a Levels)>,
-    group: Option<(&'a [Option<u32>], &'a Levels)>,
-    subject: Option<&'a [Option<u32>]>,
+    panel: Option<(&'a Codes, &'a Levels)>,
+    x: Option<(&'a Codes, &'a Levels)>,
+    group: Option<(&'a Codes, &'a Levels)>,
+    subject: Option<&'a Codes>,
 }
 
 /// The slot of a row's level in `part`; slot 0 when the figure does not split by it.
-fn slot(part: Option<(&[Option<u32>], &Levels)>, row: usize) -> Option<usize> {
+fn slot(part: Option<(&Codes, &Levels)>, row: usize) -> Option<usize> {
     match part {
         None => Some(0),
-        Some((codes, levels)) => codes[row].and_then(|c| levels.slot(c)),
+        Some((codes, levels)) => codes.get(row).and_then(|c| levels.slot(c)),
     }
 }
 
@@ -195,7 +195,7 @@ impl Sorter<'_> {
                 Some(value) => out.obs.push(Obs {
                     cell,
                     row,
-                    subject: self.subject.and_then(|s| s[row]),
+                    subject: self.subject.and_then(|s| s.get(row)),
                     value,
                 }),
                 None => *out.missing.entry(cell).or_default() += 1,
@@ -208,7 +208,7 @@ impl Sorter<'_> {
     /// panel and colour are known) counts in the `n_missing` of its panel and group, at x 0.
     fn place_rows(&self) -> Placement<()> {
         let mut placed = self.place(|_| Some(()));
-        let x_missing = |row: usize| self.x.is_some_and(|(codes, _)| codes[row].is_none());
+        let x_missing = |row: usize| self.x.is_some_and(|(codes, _)| codes.get(row).is_none());
         for row in (0..self.keep.len()).filter(|&r| self.keep[r] && x_missing(r)) {
             if let (Some(panel), Some(group)) = (slot(self.panel, row), slot(self.group, row)) {
                 let cell = Cell { panel, x: 0, group };
@@ -309,7 +309,7 @@ impl<'a> Cells<'a> {
     /// against a log scale; with the trials per collapsed value.
     fn measured(&self, sorter: &Sorter, axis: &NumAxis) -> Result<(Values, Trials), ComputeError> {
         let column = numbers(self.table, self.book, axis.var.var)?;
-        let mut placed = sorter.place(|row| column[row]);
+        let mut placed = sorter.place(|row| column.get(row));
         let trials = match &self.book.replicates {
             Some(rep) => collapse(&mut placed, numeric_collapse(rep.collapse)),
             None => {
@@ -329,7 +329,8 @@ impl<'a> Cells<'a> {
             .as_ref()
             .ok_or_else(|| ComputeError::Internal("a categorical y without levels".to_string()))?;
         let mut placed = sorter.place(|row| {
-            y_codes[row]
+            y_codes
+                .get(row)
                 .and_then(|c| y_levels.slot(c))
                 .map(|s| s as f64)
         });
@@ -354,7 +355,7 @@ impl<'a> Cells<'a> {
     ) -> Result<(Placement<Pair>, Trials), ComputeError> {
         let xs = numbers(self.table, self.book, x.var.var)?;
         let ys = numbers(self.table, self.book, y.var.var)?;
-        let complete = |own: &[Option<f64>], row: usize| xs[row].and(ys[row]).and(own[row]);
+        let complete = |own: &Numbers, row: usize| xs.get(row).and(ys.get(row)).and(own.get(row));
         let mut placed_x = sorter.place(|row| complete(xs, row));
         let mut placed_y = sorter.place(|row| complete(ys, row));
         let trials = self.book.replicates.as_ref().and_then(|rep| {
@@ -452,7 +453,7 @@ impl<'a> Cells<'a> {
     /// The name of a subject code.
     pub fn subject_name(&self, code: u32) -> String {
         self.subjects
-            .and_then(|names| names.get(code as usize).cloned())
+            .and_then(|names| names.get(code as usize).map(str::to_owned))
             .unwrap_or_default()
     }
 
@@ -674,7 +675,7 @@ pub fn check_colours(levels: &Levels, var: &str, span: Span) -> Result<(), Compu
 }
 
 /// The shown levels of a `panels` or `colour` variable, with its codes per row.
-type Grouping<'t> = (Levels, Option<&'t [Option<u32>]>);
+type Grouping<'t> = (Levels, Option<&'t Codes>);
 
 /// The shown levels and the codes of a `panels` or `colour` variable; one unnamed level when
 /// the figure has none.

@@ -17,7 +17,7 @@
 use std::collections::BTreeMap;
 
 use crate::check::plan::{Codebook, VarId};
-use crate::data::Table;
+use crate::data::{Codes, Names, Table};
 use crate::diag::{Code, Diagnostic};
 
 use super::levels::codes;
@@ -49,8 +49,8 @@ pub fn check_design(book: &Codebook, table: &Table) -> Result<Vec<Diagnostic>, C
 struct Design<'a> {
     book: &'a Codebook,
     table: &'a Table,
-    subjects: &'a [Option<u32>],
-    names: &'a [String],
+    subjects: &'a Codes,
+    names: &'a Names,
 }
 
 /// A subject's first row at a level: (level code, table row).
@@ -66,9 +66,9 @@ impl Design<'_> {
         Ok(self
             .subjects
             .iter()
-            .zip(levels)
+            .zip(levels.iter())
             .enumerate()
-            .filter_map(|(row, (s, l))| Some(((*s)?, (*l)?, row))))
+            .filter_map(|(row, (s, l))| Some((s?, l?, row))))
     }
 
     /// F0121: the first subject found at two levels of a between factor.
@@ -95,7 +95,7 @@ impl Design<'_> {
             Code::BetweenVariesWithinSubject,
             format!(
                 "subject \"{}\" is listed at two levels of the between factor `{var}`: {} and {}",
-                self.names[s as usize],
+                &self.names[s as usize],
                 self.at(factor, a),
                 self.at(factor, b)
             ),
@@ -135,9 +135,9 @@ impl Design<'_> {
             Code::WithinNeverRepeated,
             format!(
                 "no subject was measured at two levels of the within factor `{var}`: subject \"{}\" only at {}, subject \"{}\" only at {}",
-                self.names[s1 as usize],
+                &self.names[s1 as usize],
                 self.at(factor, a),
-                self.names[s2 as usize],
+                &&self.names[s2 as usize],
                 self.at(factor, b)
             ),
         )
@@ -152,7 +152,7 @@ impl Design<'_> {
     fn level_name(&self, factor: VarId, level: u32) -> String {
         codes(self.table, self.book, factor)
             .ok()
-            .and_then(|(_, levels)| levels.get(level as usize).cloned())
+            .and_then(|(_, levels)| levels.get(level as usize).map(str::to_owned))
             .unwrap_or_default()
     }
 
@@ -166,19 +166,9 @@ impl Design<'_> {
         format!("\"{name}\" ({place})")
     }
 
-    /// Labels the data rows in the file, each with its subject and level.
-    fn with_rows(&self, mut d: Diagnostic, factor: VarId, rows: &[(u32, FirstAt)]) -> Diagnostic {
-        let var = &self.book.var(factor).name;
-        for &(s, (level, row)) in rows {
-            if let Some(place) = self.table.row_place(row) {
-                let text = format!(
-                    "subject \"{}\", {var} \"{}\"",
-                    self.names[s as usize],
-                    self.level_name(factor, level)
-                );
-                d = d.with_label(place.span, text);
-            }
-        }
-        d
+    /// Names the data file the rows quoted in the message are in (the message names the
+    /// rows; their text is not kept, so they carry no labels).
+    fn with_rows(&self, d: Diagnostic, _factor: VarId, _rows: &[(u32, FirstAt)]) -> Diagnostic {
+        d.with_file(self.table.path())
     }
 }

@@ -32,11 +32,11 @@ fn eval(
     Ok(match f {
         Filter::Levels { var, keep } => {
             let (codes, _) = codes(table, book, *var)?;
-            codes[row].map(|c| keep.contains(&(c as usize)))
+            codes.get(row).map(|c| keep.contains(&(c as usize)))
         }
         Filter::Numeric { var, op, value } => {
             let values = numbers(table, book, *var)?;
-            values[row].map(|v| {
+            values.get(row).map(|v| {
                 use crate::syntax::ast::CompareOp::*;
                 match op {
                     Eq => v == *value,

@@ -5,7 +5,7 @@
 //! level with no rows at all stays, so an empty category is seen as empty.
 
 use crate::check::plan::{CatAxis, CatVar, Codebook, LevelOrder, VarId};
-use crate::data::{Column, Table};
+use crate::data::{Codes, Column, Names, Numbers, Table};
 
 use super::ComputeError;
 
@@ -49,7 +49,7 @@ pub fn codes<'t>(
     table: &'t Table,
     book: &Codebook,
     var: VarId,
-) -> Result<(&'t [Option<u32>], &'t [String]), ComputeError> {
+) -> Result<(&'t Codes, &'t Names), ComputeError> {
     let name = &book.var(var).name;
     match table.column(name) {
         Some(Column::Categorical { codes, levels })
@@ -68,7 +68,7 @@ pub fn numbers<'t>(
     table: &'t Table,
     book: &Codebook,
     var: VarId,
-) -> Result<&'t [Option<f64>], ComputeError> {
+) -> Result<&'t Numbers, ComputeError> {
     let name = &book.var(var).name;
     table.numeric(name).ok_or_else(|| {
         ComputeError::Internal(format!("column `{name}` is not numeric in the table"))
@@ -99,9 +99,9 @@ pub fn shown_levels(
     let (codes, names) = codes(table, book, var.var)?;
     let mut rows_of = vec![(0usize, 0usize); names.len()];
     for (code, kept) in codes.iter().zip(keep) {
-        if let Some(c) = code {
-            rows_of[*c as usize].0 += 1;
-            rows_of[*c as usize].1 += usize::from(*kept);
+        if let Some(slot) = code.and_then(|c| rows_of.get_mut(c as usize)) {
+            slot.0 += 1;
+            slot.1 += usize::from(*kept);
         }
     }
     ordered_levels(table, book, var, order, keep, |code| {
@@ -124,7 +124,7 @@ fn ordered_levels(
         decl.labels
             .as_ref()
             .and_then(|l| l.get(i).cloned())
-            .unwrap_or_else(|| names[i].clone())
+            .unwrap_or_else(|| names[i].to_owned())
     };
     let mut order_codes: Vec<usize> = (0..names.len()).filter(|&c| shown(c)).collect();
     match order {
@@ -133,7 +133,7 @@ fn ordered_levels(
             let mut counts = vec![0usize; names.len()];
             for (code, _) in codes.iter().zip(keep).filter(|(_, k)| **k) {
                 if let Some(c) = code {
-                    counts[*c as usize] += 1;
+                    counts[c as usize] += 1;
                 }
             }
             order_codes.sort_by(|a, b| counts[*b].cmp(&counts[*a]));
@@ -145,7 +145,7 @@ fn ordered_levels(
         slot_of_code[code] = Some(slot);
     }
     Ok(Levels {
-        names: order_codes.iter().map(|&i| names[i].clone()).collect(),
+        names: order_codes.iter().map(|&i| names[i].to_owned()).collect(),
         labels: order_codes.iter().map(|&i| label_of(i)).collect(),
         slot_of_code,
     })

@@ -1,19 +1,16 @@
-//! Getting a data file's bytes and text: the only I/O of the data stage.
+//! Getting a data file's bytes: the only I/O of the data stage.
 //!
-//! Files are opened read-only and never written, through [`crate::files`]: only a regular
-//! file is read (a folder, a named pipe, a device such as `/dev/zero` is refused at once, never
-//! waited on), and a file larger than [`ReadLimits::max_file_bytes`] is refused from its size
-//! before any byte is read (and again while reading, should it grow). The text must be UTF-8
-//! without NUL bytes or other characters that text cannot hold
-//! ([`crate::syntax::is_text_char`]: they could not be written into an SVG); anything else is
-//! one error naming the line and byte offset of the first bad character.
+//! Files are opened read-only and never written. A file larger than
+//! [`ReadLimits::max_file_bytes`] is refused from its size before any byte is read (and again
+//! while reading, should it grow or report no size). The readers of each format read from the
+//! [`Input`] opened here, and read it a second time only to quote lines in diagnostics.
 
-use std::io;
+use std::fs::File;
+use std::io::{self, Cursor, Read};
 use std::path::Path;
 
 use crate::diag::{Code, Diagnostic};
 use crate::files::{self, FileKind, ReadError};
-use crate::syntax::is_text_char;
 
 use super::report::{file_label, quoted};
 use super::spec::TableSpec;
@@ -24,6 +21,18 @@ pub const MAX_FILE_BYTES: u64 = 1 << 30;
 /// Most data errors shown in full per file; the rest are summed up in one more diagnostic.
 pub const MAX_DIAGNOSTICS: usize = 20;
 
+/// Most data rows read from one file (D0023).
+pub const MAX_ROWS: usize = 100_000_000;
+
+/// Longest row of a text file, in bytes (D0021); a longer one is not read into memory.
+pub const MAX_ROW_BYTES: usize = 16 << 20;
+
+/// Most distinct values of a nominal variable without `levels(...)` (D0022).
+pub const MAX_LEVELS: usize = 10_000;
+
+/// Most bytes the parts of a workbook may unpack to, in all (D0024).
+pub const MAX_UNPACKED_BYTES: u64 = 2 << 30;
+
 /// Resource limits for reading one data file.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub struct ReadLimits {
@@ -31,6 +40,14 @@ pub struct ReadLimits {
     pub max_file_bytes: u64,
     /// Errors shown in full per file before the summary (D0016).
     pub max_diagnostics: usize,
+    /// Data rows read before the file is refused (D0023).
+    pub max_rows: usize,
+    /// Bytes one row of a text file may hold (D0021).
+    pub max_row_bytes: usize,
+    /// Distinct values of a categorical column without declared levels (D0022).
+    pub max_levels: usize,
+    /// Bytes the parts of a workbook may unpack to, as its zip directory declares them (D0024).
+    pub max_unpacked_bytes: u64,
 }
 
 impl Default for ReadLimits {
@@ -38,22 +55,82 @@ impl Default for ReadLimits {
         ReadLimits {
             max_file_bytes: MAX_FILE_BYTES,
             max_diagnostics: MAX_DIAGNOSTICS,
+            max_rows: MAX_ROWS,
+            max_row_bytes: MAX_ROW_BYTES,
+            max_levels: MAX_LEVELS,
+            max_unpacked_bytes: MAX_UNPACKED_BYTES,
         }
     }
 }
 
-/// Reads the whole file, refusing it when it is missing, not a regular file (a folder, a
-/// pipe, a device), unreadable or too large — from its size, before any byte is read.
-pub(super) fn read_bytes(spec: &TableSpec, limits: &ReadLimits) -> Result<Vec<u8>, Diagnostic> {
-    files::read_regular(&spec.path, limits.max_file_bytes).map_err(|e| match e {
+/// Where a table's bytes come from: the file the spec names, or bytes already in memory.
+#[derive(Debug, Clone, Copy)]
+pub(super) enum Input<'b> {
+    File,
+    Memory(&'b [u8]),
+}
+
+/// An opened input, read from its start.
+pub(super) enum Opened<'b> {
+    File(File),
+    Memory(&'b [u8]),
+}
+
+impl<'b> Input<'b> {
+    /// Opens the input, refusing a file that is missing, a folder, unreadable or too large.
+    pub(super) fn open(
+        self,
+        spec: &TableSpec,
+        limits: &ReadLimits,
+    ) -> Result<Opened<'b>, Diagnostic> {
+        match self {
+            Input::File => open_file(spec, limits),
+            Input::Memory(bytes) => {
+                check_size(spec, limits, bytes.len())?;
+                Ok(Opened::Memory(bytes))
+            }
+        }
+    }
+
+    /// Every byte of the input (for quoting lines in diagnostics), within the size limit.
+    pub(super) fn read_all(
+        self,
+        spec: &TableSpec,
+        limits: &ReadLimits,
+    ) -> Result<Vec<u8>, Diagnostic> {
+        let mut bytes = Vec::new();
+        self.open(spec, limits)?
+            .reader(limits)
+            .read_to_end(&mut bytes)
+            .map_err(|e| unreadable(spec, &e))?;
+        check_size(spec, limits, bytes.len())?;
+        Ok(bytes)
+    }
+}
+
+impl<'b> Opened<'b> {
+    /// A reader of the bytes that stops one byte past the size limit, so a file that grows
+    /// while it is read is caught by [`check_size`] on the count read.
+    pub(super) fn reader(self, limits: &ReadLimits) -> Box<dyn Read + 'b> {
+        let most = limits.max_file_bytes.saturating_add(1);
+        match self {
+            Opened::File(file) => Box::new(file.take(most)),
+            Opened::Memory(bytes) => Box::new(Cursor::new(bytes).take(most)),
+        }
+    }
+}
+
+/// Opens the file read-only through [`crate::files`], refusing it when it is missing, not a
+/// regular file (a folder, a pipe, a device: refused at once, never waited on), unreadable or
+/// too large — from its size, before any byte is read.
+fn open_file<'b>(spec: &TableSpec, limits: &ReadLimits) -> Result<Opened<'b>, Diagnostic> {
+    let path = spec.path.as_path();
+    let (file, metadata) = files::open_regular(path).map_err(|e| match e {
         ReadError::NotFound => unreadable(spec, &io::ErrorKind::NotFound.into()),
         ReadError::NotRegular(FileKind::Folder) => file_error(
             spec,
             Code::Unreadable,
-            format!(
-                "data file {} is a folder, not a file",
-                quoted_path(&spec.path)
-            ),
+            format!("data file {} is a folder, not a file", quoted_path(path)),
             "point the data block at a CSV or TSV file",
         ),
         ReadError::NotRegular(kind) => file_error(
@@ -61,14 +138,18 @@ pub(super) fn read_bytes(spec: &TableSpec, limits: &ReadLimits) -> Result<Vec<u8
             Code::Unreadable,
             format!(
                 "data file {} is {}, not a regular file",
-                quoted_path(&spec.path),
+                quoted_path(path),
                 kind.describe()
             ),
             "point the data block at a CSV or TSV file; only regular files are read",
         ),
         ReadError::TooLarge { size, .. } => too_large(spec, limits, size),
         ReadError::Io(e) => unreadable(spec, &e),
-    })
+    })?;
+    if metadata.len() > limits.max_file_bytes {
+        return Err(too_large(spec, limits, Some(metadata.len())));
+    }
+    Ok(Opened::File(file))
 }
 
 /// Refuses a byte buffer over the size limit.
@@ -84,43 +165,8 @@ pub(super) fn check_size(
     Ok(())
 }
 
-/// The file's text, when it is UTF-8 with no NUL byte.
-pub(super) fn decode(spec: &TableSpec, bytes: Vec<u8>) -> Result<String, Diagnostic> {
-    let text = String::from_utf8(bytes).map_err(|e| {
-        let bad_at = e.utf8_error().valid_up_to();
-        not_utf8(spec, e.as_bytes(), bad_at)
-    })?;
-    if let Some(nul_at) = text.bytes().position(|b| b == 0) {
-        let line = line_of(text.as_bytes(), nul_at);
-        return Err(file_error(
-            spec,
-            Code::NulByte,
-            format!(
-                "data file {} holds a NUL byte at line {line}, byte offset {nul_at}",
-                file_label(&spec.path)
-            ),
-            "it looks like UTF-16 text or a file that is not text; save it as CSV in UTF-8",
-        ));
-    }
-    if let Some((at, c)) = text.char_indices().find(|&(_, c)| !is_text_char(c)) {
-        let line = line_of(text.as_bytes(), at);
-        return Err(file_error(
-            spec,
-            Code::NotTextChar,
-            format!(
-                "data file {} holds the character U+{:04X} at line {line}, byte offset {at}, \
-                 which text cannot hold",
-                file_label(&spec.path),
-                c as u32
-            ),
-            "remove it: control characters cannot be drawn or written into an SVG file; \
-             a file that holds many was probably not saved as plain CSV",
-        ));
-    }
-    Ok(text)
-}
-
-fn line_of(bytes: &[u8], offset: usize) -> usize {
+/// 1-based line of a byte offset.
+pub(super) fn line_of(bytes: &[u8], offset: usize) -> usize {
     1 + bytes[..offset.min(bytes.len())]
         .iter()
         .filter(|&&b| b == b'\n')
@@ -132,7 +178,7 @@ fn quoted_path(path: &Path) -> String {
 }
 
 /// An error about the file as a whole, labelled at the path in the spec.
-fn file_error(
+pub(super) fn file_error(
     spec: &TableSpec,
     code: Code,
     message: String,
@@ -144,7 +190,7 @@ fn file_error(
         .with_file(&spec.path)
 }
 
-fn unreadable(spec: &TableSpec, error: &io::Error) -> Diagnostic {
+pub(super) fn unreadable(spec: &TableSpec, error: &io::Error) -> Diagnostic {
     let path = quoted_path(&spec.path);
     match error.kind() {
         io::ErrorKind::NotFound => file_error(
@@ -203,46 +249,4 @@ fn too_large(spec: &TableSpec, limits: &ReadLimits, size: Option<u64>) -> Diagno
         ),
         "a figure needs far less data; read a summary or a sample of the file",
     )
-}
-
-fn not_utf8(spec: &TableSpec, bytes: &[u8], bad_at: usize) -> Diagnostic {
-    let bad_byte = bytes.get(bad_at).copied().unwrap_or(0);
-    let line = line_of(bytes, bad_at);
-    let help = if bytes.starts_with(&[0xFF, 0xFE]) || bytes.starts_with(&[0xFE, 0xFF]) {
-        "the file is UTF-16 text; save it as CSV in UTF-8".to_owned()
-    } else if bytes.starts_with(b"PK\x03\x04") {
-        "this looks like a spreadsheet workbook, not a CSV file; export the sheet as CSV in UTF-8"
-            .to_owned()
-    } else {
-        format!(
-            "save the file as CSV in UTF-8 (the bytes near it are {})",
-            quoted(&String::from_utf8_lossy(context(bytes, bad_at)))
-        )
-    };
-    file_error(
-        spec,
-        Code::NotUtf8,
-        format!(
-            "data file {} is not UTF-8 text: byte 0x{bad_byte:02X} at line {line}, \
-             byte offset {bad_at}",
-            file_label(&spec.path)
-        ),
-        help,
-    )
-}
-
-/// Up to 20 bytes on each side of `at`, within its line.
-fn context(bytes: &[u8], at: usize) -> &[u8] {
-    let at = at.min(bytes.len());
-    let line_start = bytes[..at]
-        .iter()
-        .rposition(|&b| b == b'\n')
-        .map_or(0, |i| i + 1);
-    let line_end = bytes[at..]
-        .iter()
-        .position(|&b| b == b'\n')
-        .map_or(bytes.len(), |i| at + i);
-    let start = line_start.max(at.saturating_sub(20));
-    let end = line_end.min(at.saturating_add(20));
-    &bytes[start..end.max(start)]
 }

@@ -1,41 +1,55 @@
-//! The `data` stage: one CSV or TSV file → a typed [`Table`], checked against the codebook.
+//! The `data` stage: one data file → a typed [`Table`], checked against the codebook.
 //!
-//! Input is a resolved [`TableSpec`] (path, missing tokens, declared columns); output is a
-//! [`Table`] whose guarantees are listed on that type: exactly the declared columns,
-//! categorical cells within the declared levels, finite numbers, non-negative ratio values,
-//! no missing ids. Otherwise every data error of the file is returned (codes `D0001`–`D0016`
-//! and `D0020`,
-//! documented in `grammar/README.md`, §13), the first [`MAX_DIAGNOSTICS`] in full and the
-//! rest summed up in one closing diagnostic.
+//! Input is a resolved [`TableSpec`] (path, format, missing tokens, declared columns, and which
+//! of them to read); output is a [`Table`] whose guarantees are listed on that type: exactly the
+//! declared columns that are read, categorical cells within the declared levels, finite
+//! numbers, non-negative ratio values, no missing ids. Otherwise every data error of the file is
+//! returned (codes `D0001`–`D0027`, documented in `grammar/README.md`, §13), the first
+//! [`MAX_DIAGNOSTICS`] in full and the rest summed up in one closing diagnostic.
 //!
-//! Reading rules: the first row is the header; a `.tsv` file is tab separated, any other file
-//! comma separated; fields may be quoted (RFC 4180, doubled quotes inside); blank lines and
-//! rows of empty fields are skipped (but count in row numbers, as in a spreadsheet); a UTF-8
-//! byte-order mark is skipped; undeclared columns are ignored. The file must
-//! be UTF-8 text without NUL bytes and at most [`MAX_FILE_BYTES`] long.
+//! Formats ([`FileFormat`]): delimited text (`text`: CSV, TSV, any separator, a decimal comma,
+//! any ASCII-compatible encoding), Excel workbooks (`workbook`, `.xlsx`), Parquet files
+//! (`parquet`). Each reads its file as a stream into compact typed columns (`column`): memory
+//! is the columns read plus a small buffer, not the file. Columns no figure being made uses are
+//! only looked for in the header. Caps on rows, row length and distinct values
+//! ([`ReadLimits`]) are data errors with their own codes.
 //!
-//! When the file is UTF-8, its whole text (byte-order mark included) is added to the
-//! [`SourceMap`], and every diagnostic about a row, a cell or the header points into it: a
-//! cell's span is the field's bytes, quotes included.
+//! Diagnostics about a text file's rows and cells point into its text; that text is read into
+//! the [`SourceMap`] again only when such a diagnostic is kept (see `report`), so a file
+//! that reads cleanly is never held in memory.
 //!
 //! Invariant: the file is only ever opened for reading. Nothing here panics on any input.
 //! The result depends only on the bytes and the spec (no hash order, clock or locale).
 
 mod cells;
+mod column;
+mod header;
 mod load;
 mod messages;
 mod numbers;
-mod parse;
-mod records;
+mod parquet;
+mod reading;
 mod report;
 mod spec;
 mod table;
+mod text;
+mod workbook;
 
-pub use load::{ReadLimits, MAX_DIAGNOSTICS, MAX_FILE_BYTES};
-pub use spec::{ColumnKind, ColumnSpec, TableSpec};
+pub use column::{Cells, Codes, MissingMask, Names, Numbers};
+pub use load::{
+    ReadLimits, MAX_DIAGNOSTICS, MAX_FILE_BYTES, MAX_LEVELS, MAX_ROWS, MAX_ROW_BYTES,
+    MAX_UNPACKED_BYTES,
+};
+pub use spec::{
+    column_letters, CellRange, ColumnKind, ColumnSpec, DecimalMark, FileFormat, Separator,
+    TableSpec, TextFormat, WorkbookFormat,
+};
 pub use table::{Column, RowPlace, Table};
 
 use crate::diag::{Diagnostic, SourceMap};
+
+use load::Input;
+use report::Report;
 
 /// Reads the file `spec.path` into a table, with the default [`ReadLimits`].
 pub fn read_table(spec: &TableSpec, sources: &mut SourceMap) -> Result<Table, Vec<Diagnostic>> {
@@ -48,12 +62,11 @@ pub fn read_table_with(
     sources: &mut SourceMap,
     limits: &ReadLimits,
 ) -> Result<Table, Vec<Diagnostic>> {
-    let bytes = load::read_bytes(spec, limits).map_err(|d| vec![d])?;
-    parse_owned(spec, bytes, sources, limits)
+    read(spec, Input::File, sources, limits)
 }
 
 /// Reads `bytes` as the content of `spec.path` (no file is opened), with the default
-/// [`ReadLimits`]. `spec.path` still decides the separator and names the file in messages.
+/// [`ReadLimits`]. `spec.path` still names the file in messages.
 pub fn parse_table(
     spec: &TableSpec,
     bytes: &[u8],
@@ -69,17 +82,29 @@ pub fn parse_table_with(
     sources: &mut SourceMap,
     limits: &ReadLimits,
 ) -> Result<Table, Vec<Diagnostic>> {
-    load::check_size(spec, limits, bytes.len()).map_err(|d| vec![d])?;
-    parse_owned(spec, bytes.to_vec(), sources, limits)
+    read(spec, Input::Memory(bytes), sources, limits)
 }
 
-fn parse_owned(
+fn read(
     spec: &TableSpec,
-    bytes: Vec<u8>,
+    input: Input,
     sources: &mut SourceMap,
     limits: &ReadLimits,
 ) -> Result<Table, Vec<Diagnostic>> {
-    let text = load::decode(spec, bytes).map_err(|d| vec![d])?;
-    let source = sources.add(&spec.path, text);
-    parse::parse_text(spec, source, sources.text(source), limits)
+    let mut report = Report::new(&spec.path, spec.path_span, limits.max_diagnostics, sources);
+    let table = match &spec.format {
+        FileFormat::Text(format) => text::read(spec, format, input, limits, &mut report),
+        FileFormat::Workbook(format) => workbook::read(spec, format, input, limits, &mut report),
+        FileFormat::Parquet => parquet::read(spec, input, limits, &mut report),
+    };
+    if let (Some(table), true) = (table, report.is_empty()) {
+        return Ok(table);
+    }
+    let text = match &spec.format {
+        FileFormat::Text(format) if report.quotes_text() => {
+            text::whole_text(spec, format, input, limits)
+        }
+        _ => None,
+    };
+    Err(report.finish(text, sources))
 }

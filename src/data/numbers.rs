@@ -1,11 +1,18 @@
 //! Reading one numeric cell.
 //!
 //! Accepted: surrounding whitespace, an optional sign, decimal digits with an optional decimal
-//! point (`12`, `-3.5`, `.5`, `4.`), and an optional exponent (`1.2e3`, `5E-02`). The result is
-//! always finite, and `-0` reads as `0`. Rejected with a reason: `nan`, `inf`, `infinity` (any
-//! case or sign; they are never values), numbers too large for a double (`1e999`), and every
-//! other text, with a hint when it looks like digit grouping, a decimal comma, a unit, a
-//! missing-value marker or a spreadsheet error.
+//! mark (`12`, `-3.5`, `.5`, `4.`), and an optional exponent (`1.2e3`, `5E-02`). The decimal
+//! mark is a point, or a comma in a file whose block says `decimal comma` (`3,5`; a point is
+//! then refused as digit grouping). The result is always finite, and `-0` reads as `0`.
+//! Rejected with a reason: `nan`, `inf`, `infinity` (any case or sign; they are never values),
+//! numbers too large for a double (`1e999`), and every other text, with a hint when it looks
+//! like digit grouping, the other decimal mark, a unit, a missing-value marker or a spreadsheet
+//! error.
+//!
+//! Cost: a well-formed cell is parsed once, with no copy (a decimal comma is swapped for a point
+//! in a small buffer on the stack); only a cell that fails is looked at again to say why.
+
+use super::spec::DecimalMark;
 
 /// Why a cell is not a number.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -27,6 +34,8 @@ pub(super) enum NotNumberHint {
     MissingMarker,
     /// A spreadsheet's error value: `#DIV/0!`, `#VALUE!`.
     SpreadsheetError,
+    /// A date or time stored as one in a workbook.
+    Date,
     /// Anything else.
     Other,
 }
@@ -42,17 +51,75 @@ pub(super) enum NonFinite {
     Overflow,
 }
 
+/// Longest cell the decimal-comma fast path copies to the stack; longer ones take the slow
+/// path, which gives the same answer.
+const SHORT_CELL: usize = 64;
+
 /// Reads a numeric cell (not a missing token; the caller checks those first).
-pub(super) fn parse_number(cell: &str) -> Result<f64, NumberProblem> {
-    let text = cell.trim();
+pub(super) fn parse_number(cell: &str, decimal: DecimalMark) -> Result<f64, NumberProblem> {
+    let quick = match decimal {
+        DecimalMark::Point => finite(cell),
+        DecimalMark::Comma => with_point(cell.as_bytes())
+            .and_then(|(buf, n)| std::str::from_utf8(&buf[..n]).ok().and_then(finite)),
+    };
+    match quick {
+        Some(value) => Ok(value),
+        None => explain(cell.trim(), decimal),
+    }
+}
+
+/// A finite value of text Rust reads as a number (the same texts as [`is_plain_number`], plus
+/// `inf` and `nan`, which are not finite); `-0` is returned as `0`.
+fn finite(text: &str) -> Option<f64> {
+    // `v + 0.0` turns -0.0 into 0.0 and leaves every other value unchanged.
+    text.parse::<f64>()
+        .ok()
+        .filter(|v| v.is_finite())
+        .map(|v| v + 0.0)
+}
+
+/// A short cell with its one decimal comma made a point; `None` when it holds a point, more than
+/// one comma, or is too long for the buffer.
+fn with_point(bytes: &[u8]) -> Option<([u8; SHORT_CELL], usize)> {
+    if bytes.len() > SHORT_CELL || bytes.contains(&b'.') {
+        return None;
+    }
+    let mut buf = [0u8; SHORT_CELL];
+    let mut commas = 0;
+    for (slot, &byte) in buf.iter_mut().zip(bytes) {
+        *slot = if byte == b',' {
+            commas += 1;
+            b'.'
+        } else {
+            byte
+        };
+    }
+    (commas <= 1).then_some((buf, bytes.len()))
+}
+
+/// The slow path: why trimmed `text` is no number, or its value when only spaces were in the
+/// way.
+fn explain(text: &str, decimal: DecimalMark) -> Result<f64, NumberProblem> {
     if let Some(kind) = non_finite_word(text) {
         return Err(NumberProblem::NotFinite(kind));
     }
-    if !is_plain_number(text) {
+    let plain = match decimal {
+        DecimalMark::Point => text.to_owned(),
+        // A point is the other decimal mark here (`3.5`), or grouping (`1.234,5`).
+        DecimalMark::Comma
+            if text.contains('.') && (is_plain_number(text) || looks_grouped(text)) =>
+        {
+            return Err(NumberProblem::NotNumber(NotNumberHint::Separators))
+        }
+        DecimalMark::Comma if text.contains('.') || text.matches(',').count() > 1 => {
+            return Err(NumberProblem::NotNumber(hint_for(text)))
+        }
+        DecimalMark::Comma => text.replacen(',', ".", 1),
+    };
+    if !is_plain_number(&plain) {
         return Err(NumberProblem::NotNumber(hint_for(text)));
     }
-    match text.parse::<f64>() {
-        // `v + 0.0` turns -0.0 into 0.0 and leaves every other value unchanged.
+    match plain.parse::<f64>() {
         Ok(v) if v.is_finite() => Ok(v + 0.0),
         Ok(_) => Err(NumberProblem::NotFinite(NonFinite::Overflow)),
         Err(_) => Err(NumberProblem::NotNumber(NotNumberHint::Other)),
@@ -61,11 +128,12 @@ pub(super) fn parse_number(cell: &str) -> Result<f64, NumberProblem> {
 
 fn non_finite_word(text: &str) -> Option<NonFinite> {
     let unsigned = text.strip_prefix(['+', '-']).unwrap_or(text);
-    let lower = unsigned.to_ascii_lowercase();
-    match lower.as_str() {
-        "nan" => Some(NonFinite::NotANumber),
-        "inf" | "infinity" => Some(NonFinite::Infinity),
-        _ => None,
+    if unsigned.eq_ignore_ascii_case("nan") {
+        Some(NonFinite::NotANumber)
+    } else if unsigned.eq_ignore_ascii_case("inf") || unsigned.eq_ignore_ascii_case("infinity") {
+        Some(NonFinite::Infinity)
+    } else {
+        None
     }
 }
 
@@ -156,14 +224,14 @@ mod tests {
     fn plain_numbers_read_exactly() {
         // Values chosen so the decimal text has one nearest double; the right-hand sides are
         // Rust float literals of the same text (common practice).
-        assert_eq!(parse_number(" 12 "), Ok(12.0));
-        assert_eq!(parse_number("-3.5"), Ok(-3.5));
-        assert_eq!(parse_number("+.5"), Ok(0.5));
-        assert_eq!(parse_number("4."), Ok(4.0));
-        assert_eq!(parse_number("1.2e3"), Ok(1200.0));
-        assert_eq!(parse_number("5E-02"), Ok(0.05));
-        assert_eq!(parse_number("1e-999"), Ok(0.0));
-        let zero = parse_number("-0").unwrap_or(f64::NAN);
+        assert_eq!(parse_number(" 12 ", DecimalMark::Point), Ok(12.0));
+        assert_eq!(parse_number("-3.5", DecimalMark::Point), Ok(-3.5));
+        assert_eq!(parse_number("+.5", DecimalMark::Point), Ok(0.5));
+        assert_eq!(parse_number("4.", DecimalMark::Point), Ok(4.0));
+        assert_eq!(parse_number("1.2e3", DecimalMark::Point), Ok(1200.0));
+        assert_eq!(parse_number("5E-02", DecimalMark::Point), Ok(0.05));
+        assert_eq!(parse_number("1e-999", DecimalMark::Point), Ok(0.0));
+        let zero = parse_number("-0", DecimalMark::Point).unwrap_or(f64::NAN);
         assert!(zero == 0.0 && zero.is_sign_positive());
     }
 
@@ -179,11 +247,38 @@ mod tests {
             ("-1e400", Overflow),
         ] {
             assert_eq!(
-                parse_number(text),
+                parse_number(text, DecimalMark::Point),
                 Err(NumberProblem::NotFinite(kind)),
                 "{text}"
             );
         }
+    }
+
+    #[test]
+    fn a_decimal_comma_is_read_when_declared() {
+        let comma = |text| parse_number(text, DecimalMark::Comma);
+        assert_eq!(comma("3,5"), Ok(3.5));
+        assert_eq!(comma(" -0,25 "), Ok(-0.25));
+        assert_eq!(comma("12"), Ok(12.0));
+        assert_eq!(comma("1,5e3"), Ok(1500.0));
+        let long = format!("0,{}", "1".repeat(80));
+        let expected: f64 = long.replace(',', ".").parse().expect("plain number text");
+        assert_eq!(comma(&long), Ok(expected));
+        for grouped in ["1.234,5", "3.5", "1,234,5"] {
+            assert_eq!(
+                comma(grouped),
+                Err(NumberProblem::NotNumber(NotNumberHint::Separators)),
+                "{grouped}"
+            );
+        }
+        assert_eq!(
+            comma("nan"),
+            Err(NumberProblem::NotFinite(NonFinite::NotANumber))
+        );
+        assert_eq!(
+            comma("1e999"),
+            Err(NumberProblem::NotFinite(NonFinite::Overflow))
+        );
     }
 
     #[test]
@@ -205,7 +300,7 @@ mod tests {
             ("  ", MissingMarker),
         ] {
             assert_eq!(
-                parse_number(text),
+                parse_number(text, DecimalMark::Point),
                 Err(NumberProblem::NotNumber(hint)),
                 "{text}"
             );

@@ -1,8 +1,11 @@
 //! The typed table the data stage produces.
 //!
 //! Guarantees of a [`Table`] returned by [`crate::data::read_table`]:
-//! - it holds exactly the declared columns, in declaration order, each `n_rows()` long;
-//! - every code of a categorical or id column indexes its `levels`/`values`; `None` is missing;
+//! - it holds exactly the declared columns that are read, in declaration order, each
+//!   `n_rows()` long;
+//! - every code of a categorical or id column indexes its `levels`/`values`; a missing cell is
+//!   `None` from `get(row)` (columns are plain `f64`s or `u32`s with a bitmap of missing cells,
+//!   see [`super::column`]);
 //! - categorical cells are declared levels (when levels were declared); numeric cells are
 //!   finite, `-0.0` is stored as `0.0`, and ratio cells are `>= 0`; id cells are never missing;
 //! - nothing depends on hash order: levels and id values are in order of declaration or first
@@ -11,23 +14,17 @@
 use std::fmt::Write as _;
 use std::path::{Path, PathBuf};
 
-use crate::diag::{SourceId, Span};
+use super::column::{Codes, Names, Numbers};
 
 /// One column's cells.
 #[derive(Debug, Clone, PartialEq)]
 pub enum Column {
     /// Identifiers, interned: `values[code]` is the text of a cell, in order of first appearance.
-    Id {
-        codes: Vec<Option<u32>>,
-        values: Vec<String>,
-    },
+    Id { codes: Codes, values: Names },
     /// Categories: `levels[code]`, declared or in order of first appearance.
-    Categorical {
-        codes: Vec<Option<u32>>,
-        levels: Vec<String>,
-    },
-    /// Numbers; `None` is a missing cell.
-    Numeric(Vec<Option<f64>>),
+    Categorical { codes: Codes, levels: Names },
+    /// Numbers, with their missing cells.
+    Numeric(Numbers),
 }
 
 impl Column {
@@ -44,7 +41,7 @@ impl Column {
     }
 
     /// The codes of an id or categorical column.
-    pub fn codes(&self) -> Option<&[Option<u32>]> {
+    pub fn codes(&self) -> Option<&Codes> {
         match self {
             Column::Id { codes, .. } | Column::Categorical { codes, .. } => Some(codes),
             Column::Numeric(_) => None,
@@ -52,7 +49,7 @@ impl Column {
     }
 
     /// The levels of a categorical column, or the distinct values of an id column.
-    pub fn levels(&self) -> Option<&[String]> {
+    pub fn levels(&self) -> Option<&Names> {
         match self {
             Column::Id { values, .. } => Some(values),
             Column::Categorical { levels, .. } => Some(levels),
@@ -61,7 +58,7 @@ impl Column {
     }
 
     /// The numbers of a numeric column.
-    pub fn numbers(&self) -> Option<&[Option<f64>]> {
+    pub fn numbers(&self) -> Option<&Numbers> {
         match self {
             Column::Numeric(values) => Some(values),
             _ => None,
@@ -70,17 +67,15 @@ impl Column {
 
     /// The text of an id or categorical cell (`None` when missing, out of range or numeric).
     pub fn text_at(&self, row: usize) -> Option<&str> {
-        let code = (*self.codes()?.get(row)?)?;
-        self.levels()?.get(code as usize).map(String::as_str)
+        let code = self.codes()?.get(row)?;
+        self.levels()?.get(code as usize)
     }
 
     /// Number of missing cells.
     pub fn n_missing(&self) -> usize {
         match self {
-            Column::Id { codes, .. } | Column::Categorical { codes, .. } => {
-                codes.iter().filter(|c| c.is_none()).count()
-            }
-            Column::Numeric(values) => values.iter().filter(|v| v.is_none()).count(),
+            Column::Id { codes, .. } | Column::Categorical { codes, .. } => codes.n_missing(),
+            Column::Numeric(values) => values.n_missing(),
         }
     }
 }
@@ -88,20 +83,60 @@ impl Column {
 /// Where a data row is in its file, for later stages' messages.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub struct RowPlace {
-    /// 1-based row of the file as a spreadsheet shows it: the header is row 1, blank lines
-    /// count as rows, a line break inside quotes does not start a new row.
+    /// 1-based row of the file as a spreadsheet shows it: in a text file the header is row 1,
+    /// blank lines count as rows, a line break inside quotes does not start a new row; in a
+    /// workbook the sheet's row; in a Parquet file the data row.
     pub file_row: usize,
-    /// 1-based line where the row starts.
+    /// 1-based line where the row starts (the row itself in workbooks and Parquet files).
     pub line: usize,
-    /// The row's bytes, without its line ending.
-    pub span: Span,
+}
+
+/// The place of every data row, stored as runs: a new entry only where the row or line number
+/// does not follow on from the previous row's (after blank lines, skipped rows, quoted line
+/// breaks), so a plain file costs a few bytes whatever its length.
+#[derive(Debug, Clone, Default, PartialEq, Eq)]
+pub(super) struct RowPlaces {
+    n_rows: usize,
+    /// (first data row of the run, its place).
+    runs: Vec<(usize, RowPlace)>,
+    /// The place of the last row pushed.
+    last: Option<RowPlace>,
+}
+
+impl RowPlaces {
+    pub(super) fn push(&mut self, place: RowPlace) {
+        let follows = self
+            .last
+            .is_some_and(|p| p.file_row + 1 == place.file_row && p.line + 1 == place.line);
+        if !follows {
+            self.runs.push((self.n_rows, place));
+        }
+        self.last = Some(place);
+        self.n_rows += 1;
+    }
+
+    pub(super) fn len(&self) -> usize {
+        self.n_rows
+    }
+
+    pub(super) fn get(&self, row: usize) -> Option<RowPlace> {
+        if row >= self.n_rows {
+            return None;
+        }
+        let run = self.runs.partition_point(|(first, _)| *first <= row);
+        let (first, place) = self.runs.get(run.checked_sub(1)?)?;
+        let ahead = row - first;
+        Some(RowPlace {
+            file_row: place.file_row + ahead,
+            line: place.line + ahead,
+        })
+    }
 }
 
 /// A declared column of a [`Table`].
 #[derive(Debug, Clone, PartialEq)]
 pub(super) struct NamedColumn {
     pub(super) name: String,
-    pub(super) header_span: Span,
     pub(super) column: Column,
 }
 
@@ -109,9 +144,8 @@ pub(super) struct NamedColumn {
 #[derive(Debug, Clone, PartialEq)]
 pub struct Table {
     pub(super) path: PathBuf,
-    pub(super) source: SourceId,
     pub(super) columns: Vec<NamedColumn>,
-    pub(super) rows: Vec<RowPlace>,
+    pub(super) rows: RowPlaces,
 }
 
 impl Table {
@@ -123,11 +157,6 @@ impl Table {
     /// The file the table was read from.
     pub fn path(&self) -> &Path {
         &self.path
-    }
-
-    /// The file's text in the [`crate::diag::SourceMap`] it was read with.
-    pub fn source(&self) -> SourceId {
-        self.source
     }
 
     /// The column of a declared variable.
@@ -144,12 +173,12 @@ impl Table {
     }
 
     /// The numbers of a numeric column.
-    pub fn numeric(&self, name: &str) -> Option<&[Option<f64>]> {
+    pub fn numeric(&self, name: &str) -> Option<&Numbers> {
         self.column(name)?.numbers()
     }
 
     /// The codes and levels of a categorical column.
-    pub fn categorical(&self, name: &str) -> Option<(&[Option<u32>], &[String])> {
+    pub fn categorical(&self, name: &str) -> Option<(&Codes, &Names)> {
         match self.column(name)? {
             Column::Categorical { codes, levels } => Some((codes, levels)),
             _ => None,
@@ -157,24 +186,16 @@ impl Table {
     }
 
     /// The codes and distinct values of an id column.
-    pub fn id(&self, name: &str) -> Option<(&[Option<u32>], &[String])> {
+    pub fn id(&self, name: &str) -> Option<(&Codes, &Names)> {
         match self.column(name)? {
             Column::Id { codes, values } => Some((codes, values)),
             _ => None,
         }
     }
 
-    /// The header cell a declared variable was read from.
-    pub fn header_span(&self, name: &str) -> Option<Span> {
-        self.columns
-            .iter()
-            .find(|c| c.name == name)
-            .map(|c| c.header_span)
-    }
-
     /// Where data row `row` (0-based) is in the file.
     pub fn row_place(&self, row: usize) -> Option<RowPlace> {
-        self.rows.get(row).copied()
+        self.rows.get(row)
     }
 
     /// How the file is named in messages: its file name (`speeds.csv`).
@@ -219,7 +240,7 @@ fn write_column(out: &mut String, column: &Column) {
         }
         Column::Numeric(values) => {
             out.push_str("numeric");
-            for value in values {
+            for value in values.iter() {
                 match value {
                     Some(v) => {
                         let _ = write!(out, " {v:?}");
@@ -231,7 +252,7 @@ fn write_column(out: &mut String, column: &Column) {
     }
 }
 
-fn write_codes(out: &mut String, codes: &[Option<u32>], names: &[String]) {
+fn write_codes(out: &mut String, codes: &Codes, names: &Names) {
     out.push('[');
     for (i, name) in names.iter().enumerate() {
         if i > 0 {
@@ -240,12 +261,32 @@ fn write_codes(out: &mut String, codes: &[Option<u32>], names: &[String]) {
         let _ = write!(out, "{name:?}");
     }
     out.push(']');
-    for code in codes {
+    for code in codes.iter() {
         match code {
             Some(c) => {
                 let _ = write!(out, " {c}");
             }
             None => out.push_str(" ."),
         }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn row_places_are_stored_as_runs() {
+        let places = [(2, 2), (3, 3), (5, 5), (6, 7), (7, 8), (8, 9)];
+        let mut rows = RowPlaces::default();
+        for (file_row, line) in places {
+            rows.push(RowPlace { file_row, line });
+        }
+        assert_eq!(rows.len(), 6);
+        assert_eq!(rows.runs.len(), 3);
+        for (i, (file_row, line)) in places.into_iter().enumerate() {
+            assert_eq!(rows.get(i), Some(RowPlace { file_row, line }));
+        }
+        assert_eq!(rows.get(6), None);
     }
 }

@@ -142,6 +142,13 @@ code_table! {
     MissingId = "D0015", Error, "A missing value in an id column.";
     MoreDataErrors = "D0016", Error, "More data errors in the file than are shown.";
     NotTextChar = "D0020", Error, "The data file holds a character text cannot hold (a control character, U+FFFE, U+FFFF).";
+    RowTooLong = "D0021", Error, "A row of a text file longer than the limit.";
+    TooManyLevels = "D0022", Error, "More distinct values of a variable without declared levels than the limit.";
+    TooManyRows = "D0023", Error, "More data rows than the limit.";
+    NotAWorkbook = "D0024", Error, "A workbook that cannot be read.";
+    NoSheet = "D0025", Error, "The sheet or cells the data block names are not in the workbook.";
+    NotParquet = "D0026", Error, "A Parquet file that cannot be read.";
+    ColumnType = "D0027", Error, "A Parquet column whose type cannot hold the declared variable's values.";
 
     // Project files.
     NotToml = "P0001", Error, "`figura.toml` is not valid TOML.";

@@ -339,7 +339,7 @@ fn build_side(side: &Side, which: &str, out: &Path) -> Result<Built, ReviewError
     }
     Ok(Built {
         figures: compare::read_outputs(out)?,
-        sources: sources::collect(&report.sources, &side.top),
+        sources: sources::collect(&report.sources, &report.inputs, &side.top),
         quotes: quotes::read(out)?,
     })
 }

@@ -1,7 +1,8 @@
 //! The spec and data files each side's build read, and which of them differ.
 //!
-//! The build keeps every text it read (spec files, included files, data files) in its source
-//! map; their paths are made relative to the side's folder so the two sides line up.
+//! The build keeps the text of every spec file it read (and included file) in its source map;
+//! data files are read again here, from the build's list of inputs, since the build keeps no
+//! data text. Paths are made relative to the side's folder so the two sides line up.
 
 use std::collections::BTreeMap;
 use std::path::{Component, Path, PathBuf};
@@ -44,13 +45,31 @@ fn relative(path: &Path, root: &Path) -> String {
     parts.join("/")
 }
 
-/// Every text in `sources`, once each, sorted by relative path.
-pub fn collect(sources: &SourceMap, root: &Path) -> Vec<SourceText> {
+/// Every text in `sources`, and every other file of `inputs` (data files), once each, sorted by
+/// relative path. A file that is not UTF-8 text (a workbook, a Parquet file) is stood for by
+/// its size and hash, so a change to it still shows.
+pub fn collect(sources: &SourceMap, inputs: &[PathBuf], root: &Path) -> Vec<SourceText> {
     let mut by_path: BTreeMap<String, String> = BTreeMap::new();
     for file in sources.files() {
         by_path
             .entry(relative(&file.path, root))
             .or_insert_with(|| file.text.clone());
+    }
+    for path in inputs {
+        if let std::collections::btree_map::Entry::Vacant(entry) =
+            by_path.entry(relative(path, root))
+        {
+            if let Ok(bytes) = std::fs::read(path) {
+                entry.insert(String::from_utf8(bytes).unwrap_or_else(|e| {
+                    let bytes = e.into_bytes();
+                    format!(
+                        "(not text: {} bytes, BLAKE3 {})\n",
+                        bytes.len(),
+                        blake3::hash(&bytes).to_hex()
+                    )
+                }));
+            }
+        }
     }
     by_path
         .into_iter()

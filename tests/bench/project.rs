@@ -20,6 +20,11 @@ use std::path::Path;
 use std::process::Command;
 use std::time::{Duration, Instant};
 
+#[path = "common.rs"]
+mod common;
+
+use common::Mix;
+
 const DATA_FILES: usize = 20;
 const SUBJECTS: usize = 60;
 const NO_OP_RUNS: usize = 7;
@@ -110,20 +115,6 @@ fn time(root: &Path, args: &[&str], expect: &str) -> Duration {
         "figura {args:?} did not do what was expected ({expect}):\n{stderr}"
     );
     elapsed
-}
-
-/// SplitMix64 (Steele, Lea and Flood 2014): a small deterministic generator for invented data.
-struct Mix(u64);
-
-impl Mix {
-    fn next(&mut self) -> f64 {
-        self.0 = self.0.wrapping_add(0x9E37_79B9_7F4A_7C15);
-        let mut z = self.0;
-        z = (z ^ (z >> 30)).wrapping_mul(0xBF58_476D_1CE4_E5B9);
-        z = (z ^ (z >> 27)).wrapping_mul(0x94D0_49BB_1331_11EB);
-        z ^= z >> 31;
-        (z >> 11) as f64 / (1u64 << 53) as f64
-    }
 }
 
 fn generate(root: &Path, per_file: usize) {
