@@ -8,7 +8,7 @@
 //! they are the values.
 
 use crate::check::layer::key::plural;
-use crate::check::layer::{KeyContext, Layer, MarkKey, Shows};
+use crate::check::layer::{KeyContext, MarkKey, Shows};
 use crate::check::plan::{Axes, AxisScale, Collapse};
 
 use super::cells::{repeated_subject, Cells, Placed};
@@ -80,7 +80,7 @@ fn n_counts(cells: &Cells, source: usize, complete: bool, subject: &str) -> Stri
     let subjects = plural(subject);
     if complete {
         format!("{subjects} with a value at every level, the only ones the mean uses")
-    } else if matches!(layer.layer, Layer::Flows(_)) {
+    } else if layer.traits.keeps_trials {
         format!("{subjects} with a state at the occasion")
     } else if layer.decl.shows == Shows::Counts {
         "rows counted".to_string()
