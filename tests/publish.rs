@@ -455,3 +455,108 @@ fn bars_far_beyond_a_narrow_range_are_drawn_in_every_format() {
         assert!(folder.join(format!("tiny_range.{ext}")).exists());
     }
 }
+
+/// The numbers written in `text`: each as written (a minus sign U+2212 read as `-`), with its
+/// number of decimals.
+fn numbers_in(text: &str) -> Vec<(String, usize)> {
+    let chars: Vec<char> = text.chars().collect();
+    let mut out = Vec::new();
+    let mut i = 0;
+    while i < chars.len() {
+        let signed = matches!(chars[i], '−' | '-')
+            && chars.get(i + 1).is_some_and(char::is_ascii_digit)
+            && (i == 0 || !chars[i - 1].is_alphanumeric());
+        if !(chars[i].is_ascii_digit() || signed) {
+            i += 1;
+            continue;
+        }
+        let start = i;
+        i += 1;
+        while i < chars.len()
+            && (chars[i].is_ascii_digit()
+                || (chars[i] == '.' && chars.get(i + 1).is_some_and(char::is_ascii_digit)))
+        {
+            i += 1;
+        }
+        let written: String = chars[start..i].iter().collect::<String>().replace('−', "-");
+        let decimals = written.split_once('.').map_or(0, |(_, d)| d.len());
+        out.push((written, decimals));
+    }
+    out
+}
+
+#[test]
+fn every_example_has_alt_text_that_quotes_its_summary() {
+    // Every number of the alt text, outside the key's sentences and the user's own titles and
+    // labels, is a number of the summary table (a value, or a bin edge of its x column)
+    // rounded to the decimals it is written with.
+    let (program, mut sources) = common::example_program();
+    let figures = every_format(TextForm::Editable);
+    let mut tables = BTreeMap::new();
+    for plan in &program.figures {
+        let book = &program.codebooks[plan.data];
+        let table = tables.entry(plan.data).or_insert_with(|| {
+            figura::data::read_table(&table_spec(book), &mut sources).expect("example data")
+        });
+        let data = figura::compute::compute(plan, book, table).expect("computes");
+        let files = &figures[&plan.name];
+        let alt = String::from_utf8(file(files, &plan.name, "alt.txt").to_vec()).unwrap();
+        assert!(
+            alt.ends_with(".\n") && alt.len() > 80,
+            "{}: {alt}",
+            plan.name
+        );
+        if let Some(title) = &plan.title {
+            assert!(alt.starts_with(&figura::markup::plain(title)), "{alt}");
+        }
+        // The SVG's description and the PDF's alternative text say it too.
+        let svg_text = std::str::from_utf8(file(files, &plan.name, "svg")).unwrap();
+        let first_sentence = alt.split(". ").nth(1).unwrap_or(&alt);
+        assert!(
+            svg_text.contains(&figura::svg::escape_xml(first_sentence)),
+            "{}: the SVG's desc",
+            plan.name
+        );
+
+        let mut rest = alt.clone();
+        let mut own: Vec<String> = data.marks.clone();
+        own.extend(plan.title.iter().chain(&plan.caption).cloned());
+        for var in &book.vars {
+            own.extend(var.label.iter().chain(&var.unit).cloned());
+            own.extend(var.labels.iter().flatten().cloned());
+            own.extend(var.levels.iter().flatten().cloned());
+            own.push(var.title());
+        }
+        let mut own: Vec<String> = own.iter().map(|t| figura::markup::plain(t)).collect();
+        own.sort_by_key(|t| std::cmp::Reverse(t.len()));
+        // Numbers among them (a level named `4`) are checked as numbers.
+        for text in own.iter().filter(|t| t.chars().any(char::is_alphabetic)) {
+            rest = rest.replace(text.as_str(), " ");
+        }
+        let mut summary_numbers: Vec<f64> = Vec::new();
+        for row in &data.summary {
+            match &row.value {
+                figura::compute::StatValue::Number(v) => summary_numbers.push(*v),
+                figura::compute::StatValue::Level(l) => summary_numbers.extend(l.parse::<f64>()),
+            }
+            summary_numbers.extend(
+                numbers_in(&row.x)
+                    .iter()
+                    .filter_map(|(n, _)| n.parse::<f64>().ok()),
+            );
+        }
+        let quoted = numbers_in(&rest);
+        assert!(!quoted.is_empty(), "{}: no numbers in {rest}", plan.name);
+        for (written, decimals) in quoted {
+            let matches = summary_numbers.iter().any(|v| {
+                let text = format!("{v:.decimals$}");
+                text == written || (text.trim_start_matches('-') == written && v.abs() < 1.0)
+            });
+            assert!(
+                matches,
+                "{}: `{written}` in the alt text is no summary number:\n{alt}",
+                plan.name
+            );
+        }
+    }
+}

@@ -11,6 +11,7 @@ use std::panic::{self, AssertUnwindSafe};
 
 use std::collections::BTreeSet;
 
+use crate::alt;
 use crate::check::plan::VarId;
 use crate::check::{Codebook, FigurePlan, Scale};
 use crate::compute::{self, ComputeError};
@@ -18,6 +19,7 @@ use crate::data::{ColumnKind, ColumnSpec, Table, TableSpec};
 use crate::diag::Diagnostic;
 use crate::export::{self, ExportError, Provenance};
 use crate::layout;
+use crate::markup;
 
 use super::BuildError;
 
@@ -47,14 +49,18 @@ pub enum OutputKind {
     Pdf,
     Tiff,
     Summary,
+    /// The alt text: what the figure shows, in plain sentences ([`crate::alt`]).
+    AltText,
 }
 
 impl OutputKind {
-    pub const ALL: [OutputKind; 4] = [
+    pub const ALL: [OutputKind; 6] = [
         OutputKind::Svg,
         OutputKind::Png,
         OutputKind::Pdf,
+        OutputKind::Tiff,
         OutputKind::Summary,
+        OutputKind::AltText,
     ];
 
     /// The file name of this output of figure `figure`.
@@ -65,12 +71,14 @@ impl OutputKind {
             OutputKind::Pdf => "pdf",
             OutputKind::Tiff => "tiff",
             OutputKind::Summary => "summary.csv",
+            OutputKind::AltText => "alt.txt",
         };
         format!("{figure}.{ext}")
     }
 }
 
-/// The outputs a plan asks for, in a fixed order: svg, png, pdf, tiff, summary (always).
+/// The outputs a plan asks for, in a fixed order: svg, png, pdf, tiff, then always the summary
+/// and the alt text.
 pub fn output_kinds(plan: &FigurePlan) -> Vec<OutputKind> {
     let f = plan.formats;
     [
@@ -79,6 +87,7 @@ pub fn output_kinds(plan: &FigurePlan) -> Vec<OutputKind> {
         (f.pdf, OutputKind::Pdf),
         (f.tiff, OutputKind::Tiff),
         (true, OutputKind::Summary),
+        (true, OutputKind::AltText),
     ]
     .into_iter()
     .filter_map(|(wanted, kind)| wanted.then_some(kind))
@@ -211,6 +220,12 @@ fn make_outputs(
             });
         }
     };
+    let alt_text = alt::describe(plan, book, &numbers);
+    // Screen readers read the caption (when there is one), then what the figure shows.
+    scene.description = Some(match &plan.caption {
+        Some(caption) => format!("{} {alt_text}", markup::plain(caption)),
+        None => alt_text.clone(),
+    });
     let rendered = export::render(&scene)
         .map_err(internal)?
         .with_provenance(provenance.clone());
@@ -224,6 +239,7 @@ fn make_outputs(
             OutputKind::Pdf => rendered.pdf(text).map_err(internal)?,
             OutputKind::Tiff => rendered.tiff(dpi).map_err(limit)?,
             OutputKind::Summary => compute::summary::to_csv(&numbers.summary).into_bytes(),
+            OutputKind::AltText => format!("{alt_text}\n").into_bytes(),
         };
         files.push((kind.file_name(&plan.name), bytes));
     }

@@ -139,8 +139,11 @@ pub struct FigureData {
     /// The largest width quantity any layer draws (a violin's density, a flow's subjects): every
     /// such mark of the figure is drawn on one scale.
     pub width_peak: f64,
-    /// The key's sentences: what each summary mark is, how trials were averaged, what n counts.
+    /// The key's sentences drawn under the plot: what each summary mark is, how trials were
+    /// averaged, what n counts (empty with `key off`).
     pub key: Vec<String>,
+    /// The same sentences whether the key is drawn or not (the alt text says them too).
+    pub marks: Vec<String>,
     /// Warnings found in the data (too many dots to show apart).
     pub warnings: Vec<Diagnostic>,
 }
@@ -195,11 +198,8 @@ pub fn compute(
         .iter()
         .flat_map(|p| &p.n_by_x)
         .any(|n| n.windows(2).any(|w| w[0] != w[1]));
-    let key = if plan.key {
-        key::key(&cells, n_source, groups_differ)
-    } else {
-        Vec::new()
-    };
+    let marks = key::key(&cells, n_source, groups_differ);
+    let key = if plan.key { marks.clone() } else { Vec::new() };
     Ok(FigureData {
         x: x_scale(&cells, &merged),
         y: y_scale(&cells, &merged),
@@ -208,6 +208,7 @@ pub fn compute(
         summary,
         width_peak: merged.width_peak,
         key,
+        marks,
         warnings: many_points(&cells),
     })
 }
