@@ -18,7 +18,7 @@ use std::collections::BTreeMap;
 use std::path::Path;
 use std::process::Command;
 
-use figura::build::{render_figure, table_spec, Purpose};
+use figura::build::{render_figure, table_spec, FigureChecks, Purpose};
 use figura::check::Formats;
 use figura::export::Provenance;
 use figura::scene::TextForm;
@@ -52,7 +52,7 @@ fn every_format(text: TextForm) -> BTreeMap<String, BTreeMap<String, Vec<u8>>> {
             book,
             table,
             &Purpose::Files(provenance.clone()),
-            false,
+            &FigureChecks::default(),
         ) else {
             panic!("{} was not made", plan.name);
         };
@@ -291,7 +291,7 @@ fn chromium_draws_the_svg_with_the_embedded_font() {
             spec: String::new(),
             data: String::new(),
         }),
-        false,
+        &FigureChecks::default(),
     ) else {
         panic!("not made")
     };
@@ -377,7 +377,11 @@ fn every_format_is_byte_identical_across_processes_and_threads() {
             common::output_files(&out)
         })
         .collect();
-    assert_eq!(builds[0].len(), 2 * 5, "four formats and a summary, twice");
+    assert_eq!(
+        builds[0].len(),
+        2 * 6,
+        "four formats, a summary and alt text, twice"
+    );
     for other in &builds[1..] {
         for ((name, x), (other_name, y)) in builds[0].iter().zip(other) {
             assert_eq!(name, other_name);
@@ -559,4 +563,79 @@ fn every_example_has_alt_text_that_quotes_its_summary() {
             );
         }
     }
+}
+
+/// `figura ARGS` run in `dir`: its exit code and standard error.
+fn figura_in(dir: &Path, args: &[&str]) -> (Option<i32>, String) {
+    let out = Command::new(env!("CARGO_BIN_EXE_figura"))
+        .args(args)
+        .current_dir(dir)
+        .output()
+        .expect("run figura");
+    (
+        out.status.code(),
+        String::from_utf8_lossy(&out.stderr).into_owned(),
+    )
+}
+
+#[test]
+fn journal_targets_are_checked_and_the_examples_meet_them() {
+    let dir = tempfile::tempdir().unwrap();
+    std::fs::write(
+        dir.path().join("figura.toml"),
+        "[journal]\nwidths = [85, 114]\nmin-text = 6.5\nmin-line = 0.6\ndpi = 600\n",
+    )
+    .unwrap();
+    let mut csv = String::from("plot,mulch,beetles\n");
+    for i in 0..24 {
+        let mulch = ["bark", "straw", "none"][i % 3];
+        csv.push_str(&format!("P{i:02},{mulch},{}\n", 3 + (i * 7) % 11));
+    }
+    std::fs::write(dir.path().join("plots.csv"), csv).unwrap();
+    std::fs::write(
+        dir.path().join("beetles.figura"),
+        "data plots \"plots.csv\" {\n  plot: id\n  mulch: nominal\n  beetles: ratio\n  \
+         subject plot\n  between mulch\n}\nfigure wide {\n  from plots\n  x mulch\n  \
+         y beetles\n  box\n  size 150mm x 60mm\n  dpi 300\n}\n",
+    )
+    .unwrap();
+    let (code, stderr) = figura_in(dir.path(), &["check"]);
+    assert_eq!(code, Some(0), "{stderr}");
+    // The n row is 6 pt, axis lines 0.2 mm (0.57 pt); 300 dpi; 150 mm is wider than 114 mm.
+    for (code, says) in [
+        ("W0008", "below the journal's 6.5 pt"),
+        ("W0009", "thinner than the journal's 0.6 pt"),
+        ("W0010", "drawn at 300 dpi, below the journal's 600 dpi"),
+        (
+            "W0011",
+            "150 mm wide, wider than the journal's widest column (114 mm)",
+        ),
+    ] {
+        assert!(stderr.contains(code), "{code} missing:\n{stderr}");
+        assert!(stderr.contains(says), "{says} missing:\n{stderr}");
+    }
+    assert!(stderr.contains("write `dpi 600`"), "{stderr}");
+    let (code, _) = figura_in(dir.path(), &["check", "--deny-warnings"]);
+    assert_eq!(code, Some(1), "warnings fail the run under --deny-warnings");
+
+    // A bad value is located in the project file.
+    std::fs::write(
+        dir.path().join("figura.toml"),
+        "[journal]\nwidths = []\nmin-text = \"six\"\nmin-lines = 1\n",
+    )
+    .unwrap();
+    let (code, stderr) = figura_in(dir.path(), &["check"]);
+    assert_eq!(code, Some(1), "{stderr}");
+    for says in [
+        "`widths` needs at least one column width",
+        "`min-text` is a size in points (a number), not a string",
+        "did you mean `journal.min-line`?",
+    ] {
+        assert!(stderr.contains(says), "{says} missing:\n{stderr}");
+    }
+
+    // The examples' project checks the default targets: not one warning.
+    let (code, stderr) = figura_in(&common::examples(), &["check", "--deny-warnings"]);
+    assert_eq!(code, Some(0), "{stderr}");
+    assert!(stderr.contains(" 0 warnings"), "{stderr}");
 }

@@ -21,6 +21,7 @@ use crate::export::{self, ExportError, Provenance};
 use crate::layout;
 use crate::markup;
 
+use super::journal::Journal;
 use super::BuildError;
 
 /// One figure's finished outputs, in memory.
@@ -102,6 +103,16 @@ pub fn output_names(plan: &FigurePlan) -> Vec<String> {
         .collect()
 }
 
+/// The checks a figure is made under, beyond the language's own.
+#[derive(Debug, Clone, Default)]
+pub struct FigureChecks {
+    /// Build a figure whose content does not fit its size, crowded, with a warning (W0003)
+    /// instead of an error (F0124).
+    pub allow_crowding: bool,
+    /// A journal's artwork targets, checked on the laid-out figure (`[journal]`).
+    pub journal: Option<Journal>,
+}
+
 /// What a figure is made for.
 pub enum Purpose {
     /// Every output file, each recording this provenance.
@@ -112,7 +123,8 @@ pub enum Purpose {
 
 /// Computes and lays out one figure and, unless validating, renders its output files (in
 /// memory). A figure whose content does not fit its size fails (F0124), unless
-/// `allow_crowding` builds it crowded with a warning (W0003).
+/// `checks.allow_crowding` builds it crowded with a warning (W0003); a journal's targets add
+/// warnings (W0008–W0011).
 ///
 /// A panic while making the figure (a bug) is caught and returned as that figure's
 /// [`BuildError::Internal`] failure, naming the figure, so the other figures of the run are
@@ -122,12 +134,12 @@ pub fn render_figure(
     book: &Codebook,
     table: &Table,
     purpose: &Purpose,
-    allow_crowding: bool,
+    checks: &FigureChecks,
 ) -> Result<FigureOutputs, FigureError> {
     let caught = IN_FIGURE.with(|inside| {
         let was = inside.replace(true);
         let result = panic::catch_unwind(AssertUnwindSafe(|| {
-            make_outputs(plan, book, table, purpose, allow_crowding)
+            make_outputs(plan, book, table, purpose, checks)
         }));
         inside.set(was);
         result
@@ -183,8 +195,9 @@ fn make_outputs(
     book: &Codebook,
     table: &Table,
     purpose: &Purpose,
-    allow_crowding: bool,
+    checks: &FigureChecks,
 ) -> Result<FigureOutputs, FigureError> {
+    let allow_crowding = checks.allow_crowding;
     let numbers = compute::compute(plan, book, table).map_err(|e| match e {
         ComputeError::Data(d) => {
             FigureError::Data(d.into_iter().map(|d| naming_data_file(d, table)).collect())
@@ -202,6 +215,9 @@ fn make_outputs(
         warnings.push(diagnostic);
     }
     let mut scene = laid.scene;
+    if let Some(journal) = &checks.journal {
+        warnings.extend(super::journal::check(plan, &scene, journal));
+    }
     // Files without a title still tell readers which figure they are.
     scene.title.get_or_insert_with(|| plan.name.clone());
     let provenance = match purpose {

@@ -218,6 +218,7 @@ pub fn check_figure(
         size_span,
         formats,
         dpi,
+        dpi_span: parts.dpi.map(|p| p.span),
     })
 }
 

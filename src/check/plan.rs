@@ -376,6 +376,8 @@ pub struct FigurePlan {
     pub size_span: Span,
     pub formats: Formats,
     pub dpi: u32,
+    /// The `dpi` statement, when the figure has one (for a resolution below a journal's).
+    pub dpi_span: Option<Span>,
 }
 
 impl FigurePlan {
