@@ -15,7 +15,8 @@
 //!
 //! A marker opens only when the character after it is not a space and the same marker closes
 //! it later in the text; a marker that opens nothing and closes nothing is shown as it is
-//! (`5 * 3`, `Yes!`, `p < .05*`), so ordinary text needs no escapes. Markers of different kinds
+//! (`5 * 3`, `Yes!`, `p < .05*`), so ordinary text needs no escapes; one before a letter or
+//! digit that never closes (`cm^2`) is reported, as it looks meant. Markers of different kinds
 //! nest (`^*n*^`); raised and lowered text do not (inside one, the other's marker is shown as
 //! it is). `@` followed by a word that is not a Greek letter's name is shown as it is.
 //!
@@ -238,7 +239,9 @@ pub fn parse(text: &str) -> Parsed {
                 style = toggled(style, c);
                 out.push(style.code());
             } else {
-                if c != '!' {
+                // Only a marker before a letter or digit looks meant (`cm^2`, `*p`); one
+                // before punctuation (`.05*.`) is plain text.
+                if c != '!' && next.is_some_and(char::is_alphanumeric) {
                     problems.push(Problem::Unclosed {
                         marker: c,
                         at: at..at + 1,
