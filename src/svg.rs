@@ -457,6 +457,47 @@ mod tests {
     }
 
     #[test]
+    fn styled_text_is_written_as_escaped_tspans_that_return_to_the_baseline() {
+        use crate::scene::{Colour, TextBaseline, TextStyle};
+        let mut scene = Scene::new(50.0, 20.0);
+        scene.marks.push(Mark::Text(TextMark {
+            at: Point::new(2.0, 10.0),
+            text: markup::parse("a<b *&c* m^2^ </text>").text,
+            style: TextStyle {
+                size_pt: 10.0,
+                weight: Weight::Regular,
+                colour: Colour::BLACK,
+            },
+            align: TextAlign::Start,
+            baseline: TextBaseline::Alphabetic,
+            rotation: TextRotation::Horizontal,
+        }));
+        let svg = to_svg(&scene).unwrap();
+        let line = svg.lines().find(|l| l.starts_with("<text")).unwrap();
+        assert!(line
+            .contains(r#">a&lt;b <tspan font-style="italic">&amp;c</tspan> m<tspan font-size="#));
+        assert!(
+            line.ends_with(r#"> &lt;/text&gt;</tspan></text>"#),
+            "{line}"
+        );
+        // The raised run goes up by as much as the run after it comes down.
+        let dys: Vec<f64> = line
+            .split(r#"dy=""#)
+            .skip(1)
+            .map(|rest| rest.split('"').next().unwrap().parse().unwrap())
+            .collect();
+        assert_eq!(dys.len(), 2);
+        assert!(dys[0] < 0.0 && (dys[0] + dys[1]).abs() < 1e-9, "{dys:?}");
+        assert!(tags_balance(&svg));
+    }
+
+    /// Every `<` opens a tag the document closes (a rough check that nothing leaked).
+    fn tags_balance(svg: &str) -> bool {
+        svg.matches("<tspan").count() == svg.matches("</tspan>").count()
+            && svg.matches("<text").count() == svg.matches("</text>").count()
+    }
+
+    #[test]
     fn escapes_all_special_characters() {
         assert_eq!(
             escape_xml(r#"a<b & "c" 'd'>"#),
