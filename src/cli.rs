@@ -19,6 +19,7 @@ use std::time::Instant;
 
 use clap::{Args, Parser, Subcommand, ValueEnum};
 
+use crate::build::journal::Journal;
 use crate::build::{self, BuildOptions, BuildReport, Mode};
 use crate::check::FigureDefaults;
 use crate::numbers::NumbersFormat;
@@ -183,6 +184,7 @@ struct Target {
     out: Option<PathBuf>,
     defaults: FigureDefaults,
     numbers: Vec<NumbersFormat>,
+    journal: Option<Journal>,
 }
 
 impl Target {
@@ -192,6 +194,7 @@ impl Target {
             out: self.out.clone(),
             defaults: self.defaults,
             numbers: self.numbers.clone(),
+            journal: self.journal.clone(),
             mode,
             ..BuildOptions::default()
         }
@@ -214,6 +217,7 @@ fn resolve_target(paths: &[PathBuf], out: Option<&Path>, format: Format) -> Resu
             out: project_out,
             defaults,
             numbers,
+            journal,
             ..
         }) => Target {
             paths: if paths.is_empty() {
@@ -224,6 +228,7 @@ fn resolve_target(paths: &[PathBuf], out: Option<&Path>, format: Format) -> Resu
             out: out.map(Path::to_path_buf).or(project_out),
             defaults,
             numbers,
+            journal,
         },
         None => Target {
             paths: if paths.is_empty() {
@@ -234,6 +239,7 @@ fn resolve_target(paths: &[PathBuf], out: Option<&Path>, format: Format) -> Resu
             out: out.map(Path::to_path_buf),
             defaults: FigureDefaults::default(),
             numbers: Vec::new(),
+            journal: None,
         },
     };
     Ok(target)

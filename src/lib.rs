@@ -9,11 +9,13 @@
 //! files; `project` reads a `figura.toml`; `cli` is the command line and `report` prints
 //! diagnostics. `trim` keeps marks within reach of the page before anything is drawn. `colour`
 //! holds the colour science (spaces, CIEDE2000, colour-vision simulation, palettes) as pure
-//! functions; `files`
+//! functions; `markup` reads label markup (raised, lowered, italic, bold, Greek letters) into
+//! styled strings; `alt` writes a figure's alt text from its numbers; `files`
 //! opens every input file (regular files only, size first).
 //!
 //! Dependencies point downstream only: no stage knows the stages after it.
 
+pub mod alt;
 pub mod build;
 pub mod check;
 pub mod cli;
@@ -26,6 +28,7 @@ pub mod files;
 pub mod font;
 pub mod format;
 pub mod layout;
+pub mod markup;
 pub mod numbers;
 pub mod project;
 pub mod report;

@@ -24,10 +24,11 @@ use std::fmt::Write as _;
 
 use base64::Engine as _;
 
-use crate::font;
+use crate::font::{self, FaceKey};
+use crate::markup::{self, Run, RunStyle};
 use crate::scene::{
     Fill, Mark, PathSegment, Point, Rect, Scene, SceneError, Stroke, TextAlign, TextMark,
-    TextRotation, Weight,
+    TextRotation, TextStyle, Weight,
 };
 use crate::trim;
 
@@ -78,36 +79,38 @@ pub(crate) fn write_document(
     Ok(out)
 }
 
-/// The characters each weight of the font draws in the scene, exactly as they are written.
-pub fn drawn_chars(scene: &Scene) -> BTreeMap<Weight, BTreeSet<char>> {
-    let mut chars: BTreeMap<Weight, BTreeSet<char>> = BTreeMap::new();
+/// The characters each face of the font draws in the scene, exactly as they are written.
+pub fn drawn_chars(scene: &Scene) -> BTreeMap<FaceKey, BTreeSet<char>> {
+    let mut chars: BTreeMap<FaceKey, BTreeSet<char>> = BTreeMap::new();
     scene.for_each_text(&mut |text| {
-        chars
-            .entry(text.style.weight)
-            .or_default()
-            .extend(font::display_text(&text.text).chars());
+        for run in font::display_runs(&text.text) {
+            chars
+                .entry(font::run_layout(run.style, &text.style).face)
+                .or_default()
+                .extend(run.text.chars());
+        }
     });
     chars.retain(|_, set| !set.is_empty());
     chars
 }
 
-/// A `<style>` element declaring each face (TrueType bytes, by weight) as the bundled font's
-/// family, as a `data:` URL, so viewers draw the text with exactly this font. Empty when there
-/// is no face.
-pub fn font_faces(faces: &[(Weight, Vec<u8>)]) -> String {
+/// A `<style>` element declaring each face (TrueType bytes) as the bundled font's family, as a
+/// `data:` URL, so viewers draw the text with exactly this font. Empty when there is no face.
+pub fn font_faces(faces: &[(FaceKey, Vec<u8>)]) -> String {
     if faces.is_empty() {
         return String::new();
     }
     let mut out = String::from("<style>\n");
-    for (weight, bytes) in faces {
-        let weight = match weight {
+    for (key, bytes) in faces {
+        let weight = match key.weight {
             Weight::Regular => 400,
             Weight::Bold => 700,
         };
+        let style = if key.italic { "italic" } else { "normal" };
         let data = base64::engine::general_purpose::STANDARD.encode(bytes);
         let _ = writeln!(
             out,
-            r#"@font-face {{ font-family: "{}"; font-weight: {weight}; src: url("data:font/ttf;base64,{data}") format("truetype"); }}"#,
+            r#"@font-face {{ font-family: "{}"; font-weight: {weight}; font-style: {style}; src: url("data:font/ttf;base64,{data}") format("truetype"); }}"#,
             font::FAMILY
         );
     }
@@ -117,10 +120,7 @@ pub fn font_faces(faces: &[(Weight, Vec<u8>)]) -> String {
 
 /// A `<metadata>` element holding `text` (XML-escaped), on one line.
 pub fn metadata_element(text: &str) -> String {
-    format!(
-        "<metadata>{}</metadata>\n",
-        escape_xml(&font::display_text(text))
-    )
+    format!("<metadata>{}</metadata>\n", escape_xml(&plain_text(text)))
 }
 
 /// Whether the root element declares the XLink namespace (needed when the body uses
@@ -157,11 +157,17 @@ pub(crate) fn metadata(scene: &Scene) -> String {
     let mut out = String::new();
     for (tag, text) in [("title", &scene.title), ("desc", &scene.description)] {
         if let Some(text) = text {
-            let text = escape_xml(&font::display_text(text));
+            let text = escape_xml(&plain_text(text));
             let _ = writeln!(out, "<{tag}>{text}</{tag}>");
         }
     }
     out
+}
+
+/// A styled string as plain text for metadata: whitespace normalised, styles dropped (raised
+/// digits as superscript characters, see [`crate::markup::plain`]).
+fn plain_text(text: &str) -> String {
+    markup::plain(&font::display_text(text))
 }
 
 /// Formats a coordinate or length: rounded to three decimals, trailing zeros and a trailing
@@ -352,7 +358,44 @@ impl Writer {
             // along the text's own "down", then points to the right on the page.
             let _ = write!(self.out, r#" transform="rotate(-90 {x} {y})""#);
         }
-        let _ = writeln!(self.out, ">{}</text>", escape_xml(&content));
+        self.out.push('>');
+        self.runs(&font::display_runs(&content), style);
+        self.out.push_str("</text>\n");
+    }
+
+    /// The runs of a line: plain text as it is, styled runs as `<tspan>`s with their face and
+    /// size; a run's baseline shift is a `dy` from the run before, so text after a raised or
+    /// lowered run returns to the baseline.
+    fn runs(&mut self, runs: &[Run], style: &TextStyle) {
+        let mut raised = 0.0;
+        for run in runs {
+            let text = escape_xml(&run.text);
+            if run.style == RunStyle::default() && raised == 0.0 {
+                self.out.push_str(&text);
+                continue;
+            }
+            let layout = font::run_layout(run.style, style);
+            self.out.push_str("<tspan");
+            if run.style.italic {
+                self.out.push_str(r#" font-style="italic""#);
+            }
+            if run.style.bold && style.weight != Weight::Bold {
+                self.out.push_str(r#" font-weight="700""#);
+            }
+            if layout.size_mm != font::font_size_mm(style.size_pt) {
+                let _ = write!(
+                    self.out,
+                    r#" font-size="{}""#,
+                    format_number(layout.size_mm)
+                );
+            }
+            let dy = raised - layout.raise_mm;
+            if dy != 0.0 {
+                let _ = write!(self.out, r#" dy="{}""#, format_number(dy));
+            }
+            raised = layout.raise_mm;
+            let _ = write!(self.out, ">{text}</tspan>");
+        }
     }
 
     fn clip(&mut self, rect: &Rect, marks: &[Mark], depth: usize) {
@@ -411,6 +454,47 @@ mod tests {
         assert_eq!(format_number(1.23456), "1.235");
         assert_eq!(format_number(-3.1000001), "-3.1");
         assert_eq!(format_number(0.0005), "0.001");
+    }
+
+    #[test]
+    fn styled_text_is_written_as_escaped_tspans_that_return_to_the_baseline() {
+        use crate::scene::{Colour, TextBaseline, TextStyle};
+        let mut scene = Scene::new(50.0, 20.0);
+        scene.marks.push(Mark::Text(TextMark {
+            at: Point::new(2.0, 10.0),
+            text: markup::parse("a<b *&c* m^2^ </text>").text,
+            style: TextStyle {
+                size_pt: 10.0,
+                weight: Weight::Regular,
+                colour: Colour::BLACK,
+            },
+            align: TextAlign::Start,
+            baseline: TextBaseline::Alphabetic,
+            rotation: TextRotation::Horizontal,
+        }));
+        let svg = to_svg(&scene).unwrap();
+        let line = svg.lines().find(|l| l.starts_with("<text")).unwrap();
+        assert!(line
+            .contains(r#">a&lt;b <tspan font-style="italic">&amp;c</tspan> m<tspan font-size="#));
+        assert!(
+            line.ends_with(r#"> &lt;/text&gt;</tspan></text>"#),
+            "{line}"
+        );
+        // The raised run goes up by as much as the run after it comes down.
+        let dys: Vec<f64> = line
+            .split(r#"dy=""#)
+            .skip(1)
+            .map(|rest| rest.split('"').next().unwrap().parse().unwrap())
+            .collect();
+        assert_eq!(dys.len(), 2);
+        assert!(dys[0] < 0.0 && (dys[0] + dys[1]).abs() < 1e-9, "{dys:?}");
+        assert!(tags_balance(&svg));
+    }
+
+    /// Every `<` opens a tag the document closes (a rough check that nothing leaked).
+    fn tags_balance(svg: &str) -> bool {
+        svg.matches("<tspan").count() == svg.matches("</tspan>").count()
+            && svg.matches("<text").count() == svg.matches("</text>").count()
     }
 
     #[test]

@@ -340,7 +340,16 @@ fn make_figures(spec: &str, data: &str) -> Made {
             spec: String::new(),
             data: String::new(),
         });
-        match build::render_figure(plan, book, &table, &purpose, true) {
+        match build::render_figure(
+            plan,
+            book,
+            &table,
+            &purpose,
+            &build::FigureChecks {
+                allow_crowding: true,
+                journal: None,
+            },
+        ) {
             Ok(_) => made.drawn += 1,
             Err(FigureError::Build(build::BuildError::Limit(_))) => {}
             Err(FigureError::Data(diags)) => render(&diags, &sources),

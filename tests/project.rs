@@ -279,10 +279,13 @@ fn a_build_from_a_subfolder_builds_the_whole_project_and_a_second_does_nothing()
         names,
         [
             MANIFEST,
+            "a1.alt.txt",
             "a1.summary.csv",
             "a1.svg",
+            "a2.alt.txt",
             "a2.summary.csv",
             "a2.svg",
+            "b1.alt.txt",
             "b1.summary.csv",
             "b1.svg"
         ]
@@ -313,7 +316,7 @@ fn changing_one_data_file_rebuilds_exactly_its_figures() {
     assert_eq!(run.built(), ["b1"]);
     assert_eq!(
         rewritten(&before, &p.mtimes("figures/out")),
-        [MANIFEST, "b1.summary.csv", "b1.svg"]
+        [MANIFEST, "b1.alt.txt", "b1.summary.csv", "b1.svg"]
     );
     assert_ne!(old_b1, p.read("figures/out/b1.summary.csv"));
 }
@@ -594,7 +597,7 @@ fn the_same_bytes_whatever_the_number_of_jobs() {
     p.run(".", &["build", "--jobs", "3", "--out", "three"])
         .expect_code(0);
     let one = p.contents("one");
-    assert_eq!(one.len(), 7);
+    assert_eq!(one.len(), 10);
     assert_eq!(one, p.contents("three"));
 }
 
@@ -905,7 +908,7 @@ fn a_removed_figure_is_orphaned_until_a_build_removes_its_files_and_only_those()
 
     let check = p.run("figures", &["build", "--check"]);
     check.expect_code(1);
-    check.expect_printed("orphaned a2 (out/a2.summary.csv, a2.svg)");
+    check.expect_printed("orphaned a2 (out/a2.alt.txt, a2.summary.csv, a2.svg)");
     assert!(check.stderr.contains("orphaned b1 ("), "{}", check.show());
     check.expect_printed("1 up to date, 0 stale, 0 missing, 0 failing, 2 orphaned");
     assert!(
@@ -921,6 +924,7 @@ fn a_removed_figure_is_orphaned_until_a_build_removes_its_files_and_only_those()
         left,
         [
             ".figura-manifest.json",
+            "a1.alt.txt",
             "a1.summary.csv",
             "a1.svg",
             "notes.txt",
@@ -1014,8 +1018,8 @@ fn clean_removes_every_output_and_nothing_else() {
     clean.expect_code(0);
     clean.expect_printed("removed out/a1.svg");
     clean.expect_printed("removed out/numbers.tex");
-    // Six outputs of three figures, the numbers file and the manifest.
-    clean.expect_printed("8 files removed\n");
+    // Nine outputs of three figures, the numbers file and the manifest.
+    clean.expect_printed("11 files removed\n");
     let left: Vec<String> = p.contents("figures/out").into_keys().collect();
     assert_eq!(left, ["notes.txt"]);
     // With nothing else left, the folder goes too.
@@ -1229,12 +1233,18 @@ fn morning_paper(csv: &str) -> (f64, f64, f64) {
     (m, m - half, m + half)
 }
 
+/// The unit of reading speed (`words·min^-1^`) as pdftotext reads it from the LaTeX
+/// manuscript, where it is set with `\textsuperscript`.
+const SPEED_UNIT_LATEX: &str = "words·min-1";
+/// The same unit in the Typst manuscript, which quotes it in Unicode superscripts.
+const SPEED_UNIT_TYPST: &str = "words·min⁻¹";
+
 /// The quote of a mean and its interval as the manuscript should read: decimals that give
 /// the interval's width two significant digits (at least none).
 fn quoted(m: f64, lo: f64, hi: f64) -> (String, String) {
     let d = (1 - (hi - lo).log10().floor() as i32).max(0) as usize;
     (
-        format!("{m:.d$} words/min"),
+        format!("{m:.d$} {SPEED_UNIT_LATEX}"),
         format!("[{lo:.d$}, {hi:.d$}]"),
     )
 }
@@ -1271,7 +1281,7 @@ fn the_example_manuscripts_quote_numbers_that_follow_the_data() {
     let (mean, ci) = quoted(m, lo, hi);
     assert_eq!(
         (mean.as_str(), ci.as_str()),
-        ("243 words/min", "[228, 257]")
+        ("243 words·min-1", "[228, 257]")
     );
     let text = compile();
     let sentence = format!("read paper at a mean of {mean} (95% CI {ci})");
@@ -1291,6 +1301,7 @@ fn the_example_manuscripts_quote_numbers_that_follow_the_data() {
         ],
     );
     let typst_text = pdf_text(&dir, "manuscript-typst.pdf");
+    let sentence = sentence.replace(SPEED_UNIT_LATEX, SPEED_UNIT_TYPST);
     assert!(
         typst_text.contains(&sentence),
         "{sentence:?} not in\n{typst_text}"

@@ -18,7 +18,7 @@ use std::collections::BTreeMap;
 use std::path::Path;
 use std::process::Command;
 
-use figura::build::{render_figure, table_spec, Purpose};
+use figura::build::{render_figure, table_spec, FigureChecks, Purpose};
 use figura::check::Formats;
 use figura::export::Provenance;
 use figura::scene::TextForm;
@@ -52,7 +52,7 @@ fn every_format(text: TextForm) -> BTreeMap<String, BTreeMap<String, Vec<u8>>> {
             book,
             table,
             &Purpose::Files(provenance.clone()),
-            false,
+            &FigureChecks::default(),
         ) else {
             panic!("{} was not made", plan.name);
         };
@@ -87,9 +87,19 @@ fn svg_labels(svg_text: &str) -> Vec<String> {
         .filter_map(|rest| {
             let (_, rest) = rest.split_once('>')?;
             let (content, _) = rest.split_once("</text>")?;
+            // Styled runs are `<tspan>`s: their text is the label's.
+            let mut text = String::new();
+            let mut in_tag = false;
+            for c in content.chars() {
+                match c {
+                    '<' => in_tag = true,
+                    '>' => in_tag = false,
+                    c if !in_tag => text.push(c),
+                    _ => {}
+                }
+            }
             Some(
-                content
-                    .replace("&lt;", "<")
+                text.replace("&lt;", "<")
                     .replace("&gt;", ">")
                     .replace("&quot;", "\"")
                     .replace("&apos;", "'")
@@ -122,17 +132,29 @@ fn every_example_pdf_embeds_the_font_and_its_labels_are_extractable() {
             .skip(2)
             .map(|l| l.split_whitespace().collect())
             .collect();
-        let bold = svg_text.contains(r#"font-weight="700""#);
+        // The faces the SVG embeds are the faces the PDF embeds.
+        let mut expected: Vec<&str> = svg_text
+            .lines()
+            .filter(|l| l.starts_with("@font-face"))
+            .map(|l| {
+                match (
+                    l.contains("font-weight: 700"),
+                    l.contains("font-style: italic"),
+                ) {
+                    (false, false) => "NotoSans-Regular",
+                    (true, false) => "NotoSans-Bold",
+                    (false, true) => "NotoSans-Italic",
+                    (true, true) => "NotoSans-BoldItalic",
+                }
+            })
+            .collect();
+        expected.sort_unstable();
         let mut names: Vec<&str> = rows
             .iter()
             .map(|r| r[0].split_once('+').map_or("", |(_, n)| n))
             .collect();
         names.sort_unstable();
-        let expected: &[&str] = if bold {
-            &["NotoSans-Bold", "NotoSans-Regular"]
-        } else {
-            &["NotoSans-Regular"]
-        };
+        assert!(!names.is_empty(), "{figure}: no font");
         assert_eq!(names, expected, "{figure}:\n{fonts}");
         for row in &rows {
             assert_eq!(row[0].find('+'), Some(6), "{figure}: a subset tag\n{fonts}");
@@ -291,7 +313,7 @@ fn chromium_draws_the_svg_with_the_embedded_font() {
             spec: String::new(),
             data: String::new(),
         }),
-        false,
+        &FigureChecks::default(),
     ) else {
         panic!("not made")
     };
@@ -377,7 +399,11 @@ fn every_format_is_byte_identical_across_processes_and_threads() {
             common::output_files(&out)
         })
         .collect();
-    assert_eq!(builds[0].len(), 2 * 5, "four formats and a summary, twice");
+    assert_eq!(
+        builds[0].len(),
+        2 * 6,
+        "four formats, a summary and alt text, twice"
+    );
     for other in &builds[1..] {
         for ((name, x), (other_name, y)) in builds[0].iter().zip(other) {
             assert_eq!(name, other_name);
@@ -454,4 +480,184 @@ fn bars_far_beyond_a_narrow_range_are_drawn_in_every_format() {
     for ext in ["pdf", "tiff"] {
         assert!(folder.join(format!("tiny_range.{ext}")).exists());
     }
+}
+
+/// The numbers written in `text`: each as written (a minus sign U+2212 read as `-`), with its
+/// number of decimals.
+fn numbers_in(text: &str) -> Vec<(String, usize)> {
+    let chars: Vec<char> = text.chars().collect();
+    let mut out = Vec::new();
+    let mut i = 0;
+    while i < chars.len() {
+        let signed = matches!(chars[i], '−' | '-')
+            && chars.get(i + 1).is_some_and(char::is_ascii_digit)
+            && (i == 0 || !chars[i - 1].is_alphanumeric());
+        if !(chars[i].is_ascii_digit() || signed) {
+            i += 1;
+            continue;
+        }
+        let start = i;
+        i += 1;
+        while i < chars.len()
+            && (chars[i].is_ascii_digit()
+                || (chars[i] == '.' && chars.get(i + 1).is_some_and(char::is_ascii_digit)))
+        {
+            i += 1;
+        }
+        let written: String = chars[start..i].iter().collect::<String>().replace('−', "-");
+        let decimals = written.split_once('.').map_or(0, |(_, d)| d.len());
+        out.push((written, decimals));
+    }
+    out
+}
+
+#[test]
+fn every_example_has_alt_text_that_quotes_its_summary() {
+    // Every number of the alt text, outside the key's sentences and the user's own titles and
+    // labels, is a number of the summary table (a value, or a bin edge of its x column)
+    // rounded to the decimals it is written with.
+    let (program, mut sources) = common::example_program();
+    let figures = every_format(TextForm::Editable);
+    let mut tables = BTreeMap::new();
+    for plan in &program.figures {
+        let book = &program.codebooks[plan.data];
+        let table = tables.entry(plan.data).or_insert_with(|| {
+            figura::data::read_table(&table_spec(book), &mut sources).expect("example data")
+        });
+        let data = figura::compute::compute(plan, book, table).expect("computes");
+        let files = &figures[&plan.name];
+        let alt = String::from_utf8(file(files, &plan.name, "alt.txt").to_vec()).unwrap();
+        assert!(
+            alt.ends_with(".\n") && alt.len() > 80,
+            "{}: {alt}",
+            plan.name
+        );
+        if let Some(title) = &plan.title {
+            assert!(alt.starts_with(&figura::markup::plain(title)), "{alt}");
+        }
+        // The SVG's description and the PDF's alternative text say it too.
+        let svg_text = std::str::from_utf8(file(files, &plan.name, "svg")).unwrap();
+        let first_sentence = alt.split(". ").nth(1).unwrap_or(&alt);
+        assert!(
+            svg_text.contains(&figura::svg::escape_xml(first_sentence)),
+            "{}: the SVG's desc",
+            plan.name
+        );
+
+        let mut rest = alt.clone();
+        let mut own: Vec<String> = data.marks.clone();
+        own.extend(plan.title.iter().chain(&plan.caption).cloned());
+        for var in &book.vars {
+            own.extend(var.label.iter().chain(&var.unit).cloned());
+            own.extend(var.labels.iter().flatten().cloned());
+            own.extend(var.levels.iter().flatten().cloned());
+            own.push(var.title());
+        }
+        let mut own: Vec<String> = own.iter().map(|t| figura::markup::plain(t)).collect();
+        own.sort_by_key(|t| std::cmp::Reverse(t.len()));
+        // Numbers among them (a level named `4`) are checked as numbers.
+        for text in own.iter().filter(|t| t.chars().any(char::is_alphabetic)) {
+            rest = rest.replace(text.as_str(), " ");
+        }
+        let mut summary_numbers: Vec<f64> = Vec::new();
+        for row in &data.summary {
+            match &row.value {
+                figura::compute::StatValue::Number(v) => summary_numbers.push(*v),
+                figura::compute::StatValue::Level(l) => summary_numbers.extend(l.parse::<f64>()),
+            }
+            summary_numbers.extend(
+                numbers_in(&row.x)
+                    .iter()
+                    .filter_map(|(n, _)| n.parse::<f64>().ok()),
+            );
+        }
+        let quoted = numbers_in(&rest);
+        assert!(!quoted.is_empty(), "{}: no numbers in {rest}", plan.name);
+        for (written, decimals) in quoted {
+            let matches = summary_numbers.iter().any(|v| {
+                let text = format!("{v:.decimals$}");
+                text == written || (text.trim_start_matches('-') == written && v.abs() < 1.0)
+            });
+            assert!(
+                matches,
+                "{}: `{written}` in the alt text is no summary number:\n{alt}",
+                plan.name
+            );
+        }
+    }
+}
+
+/// `figura ARGS` run in `dir`: its exit code and standard error.
+fn figura_in(dir: &Path, args: &[&str]) -> (Option<i32>, String) {
+    let out = Command::new(env!("CARGO_BIN_EXE_figura"))
+        .args(args)
+        .current_dir(dir)
+        .output()
+        .expect("run figura");
+    (
+        out.status.code(),
+        String::from_utf8_lossy(&out.stderr).into_owned(),
+    )
+}
+
+#[test]
+fn journal_targets_are_checked_and_the_examples_meet_them() {
+    let dir = tempfile::tempdir().unwrap();
+    std::fs::write(
+        dir.path().join("figura.toml"),
+        "[journal]\nwidths = [85, 114]\nmin-text = 6.5\nmin-line = 0.6\ndpi = 600\n",
+    )
+    .unwrap();
+    let mut csv = String::from("plot,mulch,beetles\n");
+    for i in 0..24 {
+        let mulch = ["bark", "straw", "none"][i % 3];
+        csv.push_str(&format!("P{i:02},{mulch},{}\n", 3 + (i * 7) % 11));
+    }
+    std::fs::write(dir.path().join("plots.csv"), csv).unwrap();
+    std::fs::write(
+        dir.path().join("beetles.figura"),
+        "data plots \"plots.csv\" {\n  plot: id\n  mulch: nominal\n  beetles: ratio\n  \
+         subject plot\n  between mulch\n}\nfigure wide {\n  from plots\n  x mulch\n  \
+         y beetles\n  box\n  size 150mm x 60mm\n  dpi 300\n}\n",
+    )
+    .unwrap();
+    let (code, stderr) = figura_in(dir.path(), &["check"]);
+    assert_eq!(code, Some(0), "{stderr}");
+    // The n row is 6 pt, axis lines 0.2 mm (0.57 pt); 300 dpi; 150 mm is wider than 114 mm.
+    for (code, says) in [
+        ("W0008", "below the journal's 6.5 pt"),
+        ("W0009", "thinner than the journal's 0.6 pt"),
+        ("W0010", "drawn at 300 dpi, below the journal's 600 dpi"),
+        (
+            "W0011",
+            "150 mm wide, wider than the journal's widest column (114 mm)",
+        ),
+    ] {
+        assert!(stderr.contains(code), "{code} missing:\n{stderr}");
+        assert!(stderr.contains(says), "{says} missing:\n{stderr}");
+    }
+    assert!(stderr.contains("write `dpi 600`"), "{stderr}");
+    let (code, _) = figura_in(dir.path(), &["check", "--deny-warnings"]);
+    assert_eq!(code, Some(1), "warnings fail the run under --deny-warnings");
+
+    // A bad value is located in the project file.
+    std::fs::write(
+        dir.path().join("figura.toml"),
+        "[journal]\nwidths = []\nmin-text = \"six\"\nmin-lines = 1\n",
+    )
+    .unwrap();
+    let (code, stderr) = figura_in(dir.path(), &["check"]);
+    assert_eq!(code, Some(1), "{stderr}");
+    for says in [
+        "`widths` needs at least one column width",
+        "`min-text` is a size in points (a number), not a string",
+        "did you mean `journal.min-line`?",
+    ] {
+        assert!(stderr.contains(says), "{says} missing:\n{stderr}");
+    }
+
+    // The examples' project checks the default targets: not one warning.
+    let (code, stderr) = figura_in(&common::examples(), &["check", "--deny-warnings"]);
+    assert_eq!(code, Some(0), "{stderr}");
+    assert!(stderr.contains(" 0 warnings"), "{stderr}");
 }

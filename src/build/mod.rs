@@ -13,6 +13,7 @@
 //! of a figure do not depend on the number of threads or the order figures are made in.
 
 pub mod inputs;
+pub mod journal;
 pub mod load;
 pub mod manifest;
 mod numbers;
@@ -42,7 +43,7 @@ use manifest::{Freshness, Manifest, NumbersEntry, Scope};
 
 pub use render::{
     output_kinds, output_names, render_figure, report_figure_panics_as_failures, table_spec,
-    table_spec_reading, FigureError, FigureOutputs, OutputKind, Purpose,
+    table_spec_reading, FigureChecks, FigureError, FigureOutputs, OutputKind, Purpose,
 };
 pub use write::{write_atomic, write_if_changed, TEMP_SUFFIX};
 
@@ -120,6 +121,9 @@ pub struct BuildOptions {
     /// Build a figure whose content does not fit its size anyway, crowded, with a warning
     /// (W0003) instead of an error (F0124).
     pub allow_crowding: bool,
+    /// A journal's artwork targets, checked on every figure made (`[journal]` in
+    /// `figura.toml`); none by default.
+    pub journal: Option<journal::Journal>,
 }
 
 impl Default for BuildOptions {
@@ -135,6 +139,7 @@ impl Default for BuildOptions {
             work_tree: None,
             numbers: Vec::new(),
             allow_crowding: false,
+            journal: None,
         }
     }
 }
@@ -595,7 +600,11 @@ fn make(job: &Job, program: &Program, table: &Table, options: &BuildOptions, too
                 .map_or_else(String::new, |d| d.to_hex().to_string()),
         }),
     };
-    let outputs = match render_figure(job.plan, book, table, &purpose, options.allow_crowding) {
+    let checks = FigureChecks {
+        allow_crowding: options.allow_crowding,
+        journal: options.journal.clone(),
+    };
+    let outputs = match render_figure(job.plan, book, table, &purpose, &checks) {
         Ok(o) => o,
         Err(e) => {
             return Made {

@@ -11,6 +11,7 @@ use std::panic::{self, AssertUnwindSafe};
 
 use std::collections::BTreeSet;
 
+use crate::alt;
 use crate::check::plan::VarId;
 use crate::check::{Codebook, FigurePlan, Scale};
 use crate::compute::{self, ComputeError};
@@ -18,7 +19,9 @@ use crate::data::{ColumnKind, ColumnSpec, Table, TableSpec};
 use crate::diag::Diagnostic;
 use crate::export::{self, ExportError, Provenance};
 use crate::layout;
+use crate::markup;
 
+use super::journal::Journal;
 use super::BuildError;
 
 /// One figure's finished outputs, in memory.
@@ -47,14 +50,18 @@ pub enum OutputKind {
     Pdf,
     Tiff,
     Summary,
+    /// The alt text: what the figure shows, in plain sentences ([`crate::alt`]).
+    AltText,
 }
 
 impl OutputKind {
-    pub const ALL: [OutputKind; 4] = [
+    pub const ALL: [OutputKind; 6] = [
         OutputKind::Svg,
         OutputKind::Png,
         OutputKind::Pdf,
+        OutputKind::Tiff,
         OutputKind::Summary,
+        OutputKind::AltText,
     ];
 
     /// The file name of this output of figure `figure`.
@@ -65,12 +72,14 @@ impl OutputKind {
             OutputKind::Pdf => "pdf",
             OutputKind::Tiff => "tiff",
             OutputKind::Summary => "summary.csv",
+            OutputKind::AltText => "alt.txt",
         };
         format!("{figure}.{ext}")
     }
 }
 
-/// The outputs a plan asks for, in a fixed order: svg, png, pdf, tiff, summary (always).
+/// The outputs a plan asks for, in a fixed order: svg, png, pdf, tiff, then always the summary
+/// and the alt text.
 pub fn output_kinds(plan: &FigurePlan) -> Vec<OutputKind> {
     let f = plan.formats;
     [
@@ -79,6 +88,7 @@ pub fn output_kinds(plan: &FigurePlan) -> Vec<OutputKind> {
         (f.pdf, OutputKind::Pdf),
         (f.tiff, OutputKind::Tiff),
         (true, OutputKind::Summary),
+        (true, OutputKind::AltText),
     ]
     .into_iter()
     .filter_map(|(wanted, kind)| wanted.then_some(kind))
@@ -93,6 +103,16 @@ pub fn output_names(plan: &FigurePlan) -> Vec<String> {
         .collect()
 }
 
+/// The checks a figure is made under, beyond the language's own.
+#[derive(Debug, Clone, Default)]
+pub struct FigureChecks {
+    /// Build a figure whose content does not fit its size, crowded, with a warning (W0003)
+    /// instead of an error (F0124).
+    pub allow_crowding: bool,
+    /// A journal's artwork targets, checked on the laid-out figure (`[journal]`).
+    pub journal: Option<Journal>,
+}
+
 /// What a figure is made for.
 pub enum Purpose {
     /// Every output file, each recording this provenance.
@@ -103,7 +123,8 @@ pub enum Purpose {
 
 /// Computes and lays out one figure and, unless validating, renders its output files (in
 /// memory). A figure whose content does not fit its size fails (F0124), unless
-/// `allow_crowding` builds it crowded with a warning (W0003).
+/// `checks.allow_crowding` builds it crowded with a warning (W0003); a journal's targets add
+/// warnings (W0008–W0011).
 ///
 /// A panic while making the figure (a bug) is caught and returned as that figure's
 /// [`BuildError::Internal`] failure, naming the figure, so the other figures of the run are
@@ -113,12 +134,12 @@ pub fn render_figure(
     book: &Codebook,
     table: &Table,
     purpose: &Purpose,
-    allow_crowding: bool,
+    checks: &FigureChecks,
 ) -> Result<FigureOutputs, FigureError> {
     let caught = IN_FIGURE.with(|inside| {
         let was = inside.replace(true);
         let result = panic::catch_unwind(AssertUnwindSafe(|| {
-            make_outputs(plan, book, table, purpose, allow_crowding)
+            make_outputs(plan, book, table, purpose, checks)
         }));
         inside.set(was);
         result
@@ -174,8 +195,9 @@ fn make_outputs(
     book: &Codebook,
     table: &Table,
     purpose: &Purpose,
-    allow_crowding: bool,
+    checks: &FigureChecks,
 ) -> Result<FigureOutputs, FigureError> {
+    let allow_crowding = checks.allow_crowding;
     let numbers = compute::compute(plan, book, table).map_err(|e| match e {
         ComputeError::Data(d) => {
             FigureError::Data(d.into_iter().map(|d| naming_data_file(d, table)).collect())
@@ -193,6 +215,9 @@ fn make_outputs(
         warnings.push(diagnostic);
     }
     let mut scene = laid.scene;
+    if let Some(journal) = &checks.journal {
+        warnings.extend(super::journal::check(plan, &scene, journal));
+    }
     // Files without a title still tell readers which figure they are.
     scene.title.get_or_insert_with(|| plan.name.clone());
     let provenance = match purpose {
@@ -211,6 +236,12 @@ fn make_outputs(
             });
         }
     };
+    let alt_text = alt::describe(plan, book, &numbers);
+    // Screen readers read the caption (when there is one), then what the figure shows.
+    scene.description = Some(match &plan.caption {
+        Some(caption) => format!("{} {alt_text}", markup::plain(caption)),
+        None => alt_text.clone(),
+    });
     let rendered = export::render(&scene)
         .map_err(internal)?
         .with_provenance(provenance.clone());
@@ -224,6 +255,7 @@ fn make_outputs(
             OutputKind::Pdf => rendered.pdf(text).map_err(internal)?,
             OutputKind::Tiff => rendered.tiff(dpi).map_err(limit)?,
             OutputKind::Summary => compute::summary::to_csv(&numbers.summary).into_bytes(),
+            OutputKind::AltText => format!("{alt_text}\n").into_bytes(),
         };
         files.push((kind.file_name(&plan.name), bytes));
     }

@@ -84,7 +84,7 @@ pub fn axis_var(book: &Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) -> Opti
         let shape = "label(\"Axis title\")";
         out.title = terms::single(c, shape, diags)
             .and_then(|t| terms::expect_str(t, shape, diags))
-            .map(|s| s.value.clone());
+            .map(|s| super::display::text(s, diags));
     }
     if let Some(c) = opts.call("range") {
         out.range = range(c, var.scale, diags);

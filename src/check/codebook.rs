@@ -6,12 +6,16 @@ use crate::data::{CellRange, DecimalMark, FileFormat, Separator, TextFormat, Wor
 use crate::diag::{did_you_mean, Code, Diagnostic, Span};
 use crate::syntax::ast::{Block, Ident, Plain, Statement, Term};
 
+use super::colours;
+use super::display;
 use super::plan::{Codebook, Collapse, Replicates, Scale, VarId, Variable};
 use super::terms::{self, Accepts};
 
 /// The options of a variable declaration, in canonical order (`levels` and `labels` only for
 /// nominal and ordinal variables, `midpoint` only for ordinal ones).
-pub const VARIABLE_OPTIONS: &[&str] = &["levels", "labels", "midpoint", "label", "unit", "column"];
+pub const VARIABLE_OPTIONS: &[&str] = &[
+    "levels", "labels", "colours", "midpoint", "label", "unit", "column",
+];
 /// The options of `replicates VAR`.
 pub const REPLICATES_OPTIONS: &[&str] = &["collapse"];
 
@@ -323,7 +327,7 @@ fn declare(book: &mut Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) {
         .iter()
         .copied()
         .filter(|o| match *o {
-            "levels" | "labels" => scale.is_categorical(),
+            "levels" | "labels" | "colours" => scale.is_categorical(),
             "midpoint" => scale == Scale::Ordinal,
             _ => true,
         })
@@ -336,16 +340,17 @@ fn declare(book: &mut Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) {
         scale,
         levels: None,
         labels: None,
+        colours: None,
         midpoint: None,
         label: None,
         unit: None,
         span: p.span,
     };
     if let Some(c) = opts.call("label") {
-        var.label = one_string_arg(c, "label(\"Reading speed\")", diags);
+        var.label = one_display_arg(c, "label(\"Reading speed\")", diags);
     }
     if let Some(c) = opts.call("unit") {
-        var.unit = one_string_arg(c, "unit(\"words/min\")", diags);
+        var.unit = one_display_arg(c, "unit(\"words/min\")", diags);
     }
     if let Some(c) = opts.call("column") {
         if let Some(col) = one_string_arg(c, "column(\"Header in the file\")", diags) {
@@ -360,6 +365,15 @@ fn declare(book: &mut Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) {
             c,
             var.levels.as_ref(),
             opts.call("levels").map(|l| l.span),
+            diags,
+        );
+    }
+    if let Some(c) = opts.call("colours") {
+        var.colours = colours::level_colours(
+            c,
+            var.levels.as_ref(),
+            opts.call("levels").map(|l| l.span),
+            scale,
             diags,
         );
     }
@@ -409,6 +423,16 @@ fn one_string_arg(
 ) -> Option<String> {
     let term = terms::single(c, shape, diags)?;
     terms::expect_str(term, shape, diags).map(|s| s.value.clone())
+}
+
+/// One string of text to display, its markup read (see [`crate::markup`]).
+fn one_display_arg(
+    c: &crate::syntax::ast::Call,
+    shape: &str,
+    diags: &mut Vec<Diagnostic>,
+) -> Option<String> {
+    let term = terms::single(c, shape, diags)?;
+    terms::expect_str(term, shape, diags).map(|s| display::text(s, diags))
 }
 
 fn checked_levels(
@@ -488,7 +512,13 @@ fn checked_labels(
     levels_span: Option<Span>,
     diags: &mut Vec<Diagnostic>,
 ) -> Option<Vec<String>> {
-    let labels = terms::string_list(&c.args, "labels(\"Paper\", \"Screen\")", diags)?;
+    let shape = "labels(\"Paper\", \"Screen\")";
+    let labels = c
+        .args
+        .items
+        .iter()
+        .map(|t| terms::expect_str(t, shape, diags).map(|s| display::text(s, diags)))
+        .collect::<Option<Vec<String>>>()?;
     match (levels, levels_span) {
         (Some(levels), _) if levels.len() == labels.len() => Some(labels),
         (Some(levels), Some(span)) => {

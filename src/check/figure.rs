@@ -9,9 +9,11 @@ use crate::syntax::ast::{Block, Ident, Plain, Statement, Term, Where};
 
 use super::axes::{self, not_categorical};
 use super::codebook::unknown_variable;
+use super::colours;
+use super::display;
 use super::filter::check_filter;
 use super::layer::{self, shape, Fitted, LayerPlan, Shows, LAYERS};
-use super::plan::{CatVar, Codebook, FigurePlan, Filter, Formats, Scale};
+use super::plan::{CatVar, Codebook, FigurePlan, Filter, Formats, GroupMarks, Scale};
 use super::terms;
 
 /// Default printed size: 85 mm × 65 mm (a single journal column).
@@ -108,10 +110,13 @@ pub fn check_figure(
     let caption = parts
         .caption
         .and_then(|p| terms::one_string(p, "caption \"...\"", diags))
-        .map(|s| s.value.clone());
+        .map(|s| display::text(s, diags));
     let x = parts.x.and_then(|p| axes::axis_var(book, p, diags));
     let y = parts.y.map(|p| axes::axis_var(book, p, diags));
-    let colour = parts.colour.and_then(|p| grouping(book, p, diags));
+    let (colour, group_marks) = match parts.colour.and_then(|p| colour_by(book, p, diags)) {
+        Some((c, marks)) => (Some(c), marks),
+        None => (None, GroupMarks::default()),
+    };
     let panels = parts.panels.and_then(|p| grouping(book, p, diags));
     // A bad size, format list or dpi is reported, and the rest of the figure is still checked
     // (with the default in its place); the error rejects the figure at the end.
@@ -210,6 +215,7 @@ pub fn check_figure(
         axes: plan_axes?,
         layers,
         colour,
+        group_marks,
         panels,
         filter,
         filter_span: parts.filter.map(|w| w.span),
@@ -218,6 +224,7 @@ pub fn check_figure(
         size_span,
         formats,
         dpi,
+        dpi_span: parts.dpi.map(|p| p.span),
     })
 }
 
@@ -417,17 +424,72 @@ fn resolve_data<'b>(
     None
 }
 
-/// `colour VAR` or `panels VAR`: a categorical variable.
+/// `colour VAR [shapes] [dashes]`: the grouping, and how else the groups are told apart; a
+/// variable with its own `colours(...)` that look alike in greyscale, told apart by colour only,
+/// is W0013.
+fn colour_by(
+    book: &Codebook,
+    p: &Plain,
+    diags: &mut Vec<Diagnostic>,
+) -> Option<(CatVar, GroupMarks)> {
+    let shape = "colour VARIABLE shapes dashes";
+    let mut marks = GroupMarks::default();
+    for term in p.terms.iter().skip(1) {
+        let word = terms::expect_choice(term, &["shapes", "dashes"], shape, diags)?;
+        let slot = match word.name.as_str() {
+            "shapes" => &mut marks.shapes,
+            _ => &mut marks.dashes,
+        };
+        if *slot {
+            diags.push(
+                Diagnostic::new(Code::Repeated, format!("`{}` is given twice", word.name))
+                    .with_label(word.span, "given again here")
+                    .with_help("keep one of them"),
+            );
+        }
+        *slot = true;
+    }
+    let Some(Term::Word(name)) = p.terms.first() else {
+        diags.push(
+            Diagnostic::new(Code::BadArgument, "`colour` needs a name")
+                .with_label(p.span, "which variable?")
+                .with_help(format!(
+                    "write `{shape}` (`shapes` and `dashes` are optional)"
+                )),
+        );
+        return None;
+    };
+    let var = grouping_var(book, name, "`colour`", diags)?;
+    let decl = book.var(var.var);
+    if let (Some(colours), Some(levels), false) =
+        (&decl.colours, &decl.levels, marks.shapes || marks.dashes)
+    {
+        diags.extend(colours::alike_in_grey(colours, levels, &decl.name, p.span));
+    }
+    Some((var, marks))
+}
+
+/// `panels VAR`: a categorical variable.
 fn grouping(book: &Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) -> Option<CatVar> {
     let role = p.head.name.as_str();
     let name = terms::one_word(p, &format!("{role} VARIABLE"), diags)?;
+    grouping_var(book, name, &format!("`{role}`"), diags)
+}
+
+/// The categorical variable a `colour` or `panels` statement names.
+fn grouping_var(
+    book: &Codebook,
+    name: &Ident,
+    role: &str,
+    diags: &mut Vec<Diagnostic>,
+) -> Option<CatVar> {
     let Some(id) = book.find(&name.name) else {
         diags.push(unknown_variable(book, name));
         return None;
     };
     let var = book.var(id);
     if !var.scale.is_categorical() {
-        diags.push(not_categorical(var, name.span, &format!("`{role}`")));
+        diags.push(not_categorical(var, name.span, role));
         return None;
     }
     Some(CatVar {
@@ -441,12 +503,12 @@ fn grouping(book: &Codebook, p: &Plain, diags: &mut Vec<Diagnostic>) -> Option<C
 fn title(p: &Plain, diags: &mut Vec<Diagnostic>) -> Option<(String, bool)> {
     let shape = "title \"...\" show";
     match p.terms.as_slice() {
-        [Term::Str(s), Term::Word(w)] if w.name == "show" => Some((s.value.clone(), true)),
+        [Term::Str(s), Term::Word(w)] if w.name == "show" => Some((display::text(s, diags), true)),
         [Term::Str(_), other] => {
             terms::expect_choice(other, &["show"], shape, diags);
             None
         }
-        _ => terms::one_string(p, shape, diags).map(|s| (s.value.clone(), false)),
+        _ => terms::one_string(p, shape, diags).map(|s| (display::text(s, diags), false)),
     }
 }
 

@@ -9,6 +9,8 @@
 
 mod axes;
 mod codebook;
+mod colours;
+mod display;
 mod figure;
 mod filter;
 pub mod layer;

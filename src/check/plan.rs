@@ -64,6 +64,9 @@ pub struct Variable {
     pub levels: Option<Vec<String>>,
     /// Display text per declared level.
     pub labels: Option<Vec<String>>,
+    /// The user's colour per declared level (`colours("#1b7837", ...)`), for figures coloured
+    /// by this variable.
+    pub colours: Option<LevelColours>,
     /// The neutral middle level of an ordinal scale (`midpoint("neutral")`), as an index into
     /// `levels`: its colours diverge around it.
     pub midpoint: Option<usize>,
@@ -83,6 +86,24 @@ impl Variable {
             None => base,
         }
     }
+}
+
+/// Ways of telling colour groups apart besides colour, for readers who cannot see the colours
+/// apart and for greyscale print.
+#[derive(Debug, Clone, Copy, Default, PartialEq, Eq)]
+pub struct GroupMarks {
+    /// Dots take a shape per group (`colour VAR shapes`).
+    pub shapes: bool,
+    /// Lines and curves take a dash pattern per group (`colour VAR dashes`).
+    pub dashes: bool,
+}
+
+/// The colours a variable's declaration gives its levels, one per declared level.
+#[derive(Debug, Clone, PartialEq)]
+pub struct LevelColours {
+    pub colours: Vec<crate::scene::Colour>,
+    /// The `colours(...)` option.
+    pub span: Span,
 }
 
 /// How repeated trials of one subject in one cell are reduced to one value.
@@ -365,6 +386,8 @@ pub struct FigurePlan {
     /// The layers in the order written (and drawn).
     pub layers: Vec<LayerPlan>,
     pub colour: Option<CatVar>,
+    /// How groups are told apart besides colour (`colour VAR shapes dashes`).
+    pub group_marks: GroupMarks,
     pub panels: Option<CatVar>,
     pub filter: Option<Filter>,
     /// The `where` statement, for a filter that keeps no rows (found in the data).
@@ -376,6 +399,8 @@ pub struct FigurePlan {
     pub size_span: Span,
     pub formats: Formats,
     pub dpi: u32,
+    /// The `dpi` statement, when the figure has one (for a resolution below a journal's).
+    pub dpi_span: Option<Span>,
 }
 
 impl FigurePlan {

@@ -138,7 +138,9 @@ fn ordered_levels(
             }
             order_codes.sort_by(|a, b| counts[*b].cmp(&counts[*a]));
         }
-        LevelOrder::Name => order_codes.sort_by_key(|&i| label_of(i).to_lowercase()),
+        LevelOrder::Name => {
+            order_codes.sort_by_key(|&i| crate::markup::plain(&label_of(i)).to_lowercase())
+        }
     }
     let mut slot_of_code = vec![None; names.len()];
     for (slot, &code) in order_codes.iter().enumerate() {

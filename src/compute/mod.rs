@@ -26,7 +26,7 @@ mod levels;
 pub mod summary;
 
 use crate::check::plan::{
-    Axes, AxisScale, Codebook, FigurePlan, LayerPlan, NumAxis, Scale, Variable,
+    Axes, AxisScale, Codebook, FigurePlan, GroupMarks, LayerPlan, NumAxis, Scale, Variable,
 };
 use crate::colour::scheme::{self, Scheme};
 use crate::data::Table;
@@ -95,8 +95,10 @@ pub struct Legend {
     pub title: String,
     pub levels: Levels,
     /// One colour per shown level, from the palette its level of measurement calls for
-    /// ([`crate::colour::scheme`]).
+    /// ([`crate::colour::scheme`]), or from the variable's `colours(...)`.
     pub colours: Vec<Colour>,
+    /// How the groups are told apart besides colour (shapes of dots, dashes of lines).
+    pub marks: GroupMarks,
 }
 
 impl Legend {
@@ -107,6 +109,7 @@ impl Legend {
             title,
             levels,
             colours,
+            marks: GroupMarks::default(),
         }
     }
 }
@@ -139,8 +142,11 @@ pub struct FigureData {
     /// The largest width quantity any layer draws (a violin's density, a flow's subjects): every
     /// such mark of the figure is drawn on one scale.
     pub width_peak: f64,
-    /// The key's sentences: what each summary mark is, how trials were averaged, what n counts.
+    /// The key's sentences drawn under the plot: what each summary mark is, how trials were
+    /// averaged, what n counts (empty with `key off`).
     pub key: Vec<String>,
+    /// The same sentences whether the key is drawn or not (the alt text says them too).
+    pub marks: Vec<String>,
     /// Warnings found in the data (too many dots to show apart).
     pub warnings: Vec<Diagnostic>,
 }
@@ -188,18 +194,17 @@ pub fn compute(
         },
         None => plan.colour.as_ref().map(|c| {
             let var = book.var(c.var);
-            coloured(Legend::new(var.title(), cells.groups.clone()), var)
+            let mut legend = coloured(Legend::new(var.title(), cells.groups.clone()), var);
+            legend.marks = plan.group_marks;
+            legend
         }),
     };
     let groups_differ = panels
         .iter()
         .flat_map(|p| &p.n_by_x)
         .any(|n| n.windows(2).any(|w| w[0] != w[1]));
-    let key = if plan.key {
-        key::key(&cells, n_source, groups_differ)
-    } else {
-        Vec::new()
-    };
+    let marks = key::key(&cells, n_source, groups_differ);
+    let key = if plan.key { marks.clone() } else { Vec::new() };
     Ok(FigureData {
         x: x_scale(&cells, &merged),
         y: y_scale(&cells, &merged),
@@ -208,6 +213,7 @@ pub fn compute(
         summary,
         width_peak: merged.width_peak,
         key,
+        marks,
         warnings: many_points(&cells),
     })
 }
@@ -234,10 +240,26 @@ fn check_finite(out: &layer::LayerOutput, l: &LayerPlan) -> Result<(), ComputeEr
     .into())
 }
 
-/// The legend with the palette its variable's level of measurement calls for: unordered groups
-/// take distinct hues; ordinal levels the ordered palette (diverging around a declared
-/// midpoint), built over every declared level so a filter never changes a level's colour.
+/// The legend with the colours of its variable's declaration (`colours(...)`), else the palette
+/// its level of measurement calls for: unordered groups take distinct hues; ordinal levels the
+/// ordered palette (diverging around a declared midpoint). Either way each level keeps the
+/// colour of its place among every declared level, so a filter never changes a level's colour.
 fn coloured(mut legend: Legend, var: &Variable) -> Legend {
+    if let (Some(own), Some(declared)) = (&var.colours, &var.levels) {
+        let colours: Option<Vec<Colour>> = legend
+            .levels
+            .names
+            .iter()
+            .map(|name| {
+                let slot = declared.iter().position(|d| d == name)?;
+                own.colours.get(slot).copied()
+            })
+            .collect();
+        if let Some(colours) = colours {
+            legend.colours = colours;
+            return legend;
+        }
+    }
     let scheme = match (var.scale, var.midpoint) {
         (Scale::Ordinal, Some(midpoint)) => Scheme::Diverging { midpoint },
         (Scale::Ordinal, None) => Scheme::Ordered,

@@ -123,6 +123,15 @@ code_table! {
     BarWithoutPoints = "W0002", Warning, "`mean bar` without `points`.";
     CrowdingAllowed = "W0003", Warning, "The figure's content does not fit its size, and `--allow-crowding` built it anyway.";
     ManyPoints = "W0004", Warning, "`points` with more values in one cell than dots can show apart (found in the data).";
+    MarkupUnclosed = "W0005", Warning, "A label-markup mark (`^`, `_`, `*`) that opens styled text and is never closed: shown as written.";
+    NotGreek = "W0006", Warning, "`@NAME` in a label that names no Greek letter: shown as written.";
+    MissingGlyph = "W0007", Warning, "Text holds a character the bundled font cannot draw.";
+    TextTooSmall = "W0008", Warning, "Text smaller at the printed size than the journal's least size (`[journal] min-text`; found when laid out).";
+    LineTooThin = "W0009", Warning, "Lines thinner than the journal's least width (`[journal] min-line`; found when laid out).";
+    LowResolution = "W0010", Warning, "A PNG or TIFF below the journal's least resolution (`[journal] dpi`).";
+    TooWide = "W0011", Warning, "A figure wider than the journal's widest column (`[journal] widths`).";
+    ColoursTooClose = "W0012", Warning, "Two colours of a variable's levels that readers with a colour-vision deficiency may not tell apart.";
+    ColoursAlikeInGrey = "W0013", Warning, "A figure's group colours look alike in greyscale, and no shapes or dashes tell the groups apart.";
 
     // Data files.
     Unreadable = "D0001", Error, "The data file is missing, a folder, or cannot be read.";

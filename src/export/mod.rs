@@ -215,7 +215,7 @@ impl Rendered<'_> {
             TextForm::Editable => {
                 let faces = svg::drawn_chars(&self.scene)
                     .into_iter()
-                    .map(|(weight, chars)| Ok((weight, font::subset(weight, &chars)?)))
+                    .map(|(face, chars)| Ok((face, font::subset(face, &chars)?)))
                     .collect::<Result<Vec<_>, font::SubsetError>>()
                     .map_err(|e| ExportError::Font(e.to_string()))?;
                 let head = provenance + &svg::font_faces(&faces);

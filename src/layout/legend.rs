@@ -5,10 +5,12 @@
 //! figure. The swatch shows what the groups draw: a dot for dots, a short line for curves and
 //! lines, a square for filled shapes.
 
+use crate::check::plan::GroupMarks;
 use crate::compute::LayerMarks;
 use crate::compute::{Legend, PanelData};
-use crate::scene::{Colour, Fill, Mark, Point, Rect, Stroke, TextAlign, TextBaseline};
+use crate::scene::{Fill, Mark, Point, Rect, TextAlign, TextBaseline};
 
+use super::marks;
 use super::style::*;
 use super::text;
 
@@ -21,8 +23,31 @@ pub enum Swatch {
 }
 
 impl Swatch {
-    /// The swatch for a figure: the kind of mark its first layer draws in group colours.
-    pub fn for_panel(panel: Option<&PanelData>) -> Swatch {
+    /// The swatch for a figure: the kind of mark its first layer draws in group colours; with
+    /// `shapes`, a dot when some layer draws dots, and with `dashes`, a line when some layer
+    /// draws lines, so the legend shows what tells the groups apart.
+    pub fn for_legend(panel: Option<&PanelData>, marks: GroupMarks) -> Swatch {
+        let layers = panel.map_or(&[][..], |p| p.layers.as_slice());
+        if marks.shapes && layers.iter().any(|l| matches!(l, LayerMarks::Points(_))) {
+            return Swatch::Dot;
+        }
+        let lines = |l: &LayerMarks| {
+            matches!(
+                l,
+                LayerMarks::Lines(_)
+                    | LayerMarks::Density(_)
+                    | LayerMarks::Ecdf(_)
+                    | LayerMarks::Fit(_)
+            )
+        };
+        if marks.dashes && layers.iter().any(lines) {
+            return Swatch::Line;
+        }
+        Self::for_panel(panel)
+    }
+
+    /// The swatch of the kind of mark a panel's first layer draws in group colours.
+    fn for_panel(panel: Option<&PanelData>) -> Swatch {
         match panel.and_then(|p| p.layers.first()) {
             Some(LayerMarks::Points(_)) => Swatch::Dot,
             Some(
@@ -77,8 +102,17 @@ impl<'a> LegendBlock<'a> {
         Self::line_height() * SWATCH_SHARE
     }
 
+    /// A swatch's width: longer for dashed lines, so their pattern shows.
+    fn swatch_width(&self) -> f64 {
+        if self.swatch == Swatch::Line && self.legend.marks.dashes {
+            Self::swatch_side() * DASHED_SWATCH_SIDES
+        } else {
+            Self::swatch_side()
+        }
+    }
+
     fn item_width(&self, i: usize) -> f64 {
-        Self::swatch_side() + GAP_MM + text::widest(&self.labels[i], &legend_label())
+        self.swatch_width() + GAP_MM + text::widest(&self.labels[i], &legend_label())
     }
 
     fn item_height(&self, i: usize) -> f64 {
@@ -156,18 +190,36 @@ impl<'a> LegendBlock<'a> {
         let lh = Self::line_height();
         let side = Self::swatch_side();
         let colour = self.legend.colours.get(i).copied().unwrap_or(INK);
-        out.push(swatch(
-            self.swatch,
-            x,
-            top + (lh - side) / 2.0,
-            side,
-            colour,
-        ));
+        let y = top + (lh - side) / 2.0;
+        let width = self.swatch_width();
+        out.push(match self.swatch {
+            Swatch::Dot => marks::dot(
+                marks::shape(self.legend.marks, i),
+                Point::new(x + side / 2.0, y + side / 2.0),
+                side * 0.35,
+                Fill::solid(colour),
+            ),
+            Swatch::Line => Mark::Line {
+                points: vec![
+                    Point::new(x, y + side / 2.0),
+                    Point::new(x + width, y + side / 2.0),
+                ],
+                stroke: marks::stroke(self.legend.marks, i, colour, CURVE_LINE_MM * 1.5),
+            },
+            Swatch::Square => Mark::Rect {
+                x,
+                y,
+                width: side,
+                height: side,
+                fill: Some(Fill::solid(colour)),
+                stroke: None,
+            },
+        });
         let label = text::Paragraph {
             lines: self.labels[i].clone(),
             style: legend_label(),
         };
-        out.extend(label.marks(x + side + GAP_MM, top));
+        out.extend(label.marks(x + width + GAP_MM, top));
     }
 }
 
@@ -179,30 +231,4 @@ fn heading(title: &str, x: f64, top: f64) -> Mark {
         TextAlign::Start,
         TextBaseline::Top,
     )
-}
-
-fn swatch(kind: Swatch, x: f64, y: f64, side: f64, colour: Colour) -> Mark {
-    match kind {
-        Swatch::Dot => Mark::Circle {
-            centre: Point::new(x + side / 2.0, y + side / 2.0),
-            radius: side * 0.35,
-            fill: Some(Fill::solid(colour)),
-            stroke: None,
-        },
-        Swatch::Line => Mark::Line {
-            points: vec![
-                Point::new(x, y + side / 2.0),
-                Point::new(x + side, y + side / 2.0),
-            ],
-            stroke: Stroke::solid(colour, CURVE_LINE_MM * 1.5),
-        },
-        Swatch::Square => Mark::Rect {
-            x,
-            y,
-            width: side,
-            height: side,
-            fill: Some(Fill::solid(colour)),
-            stroke: None,
-        },
-    }
 }

@@ -23,14 +23,15 @@ mod frame;
 mod labels;
 mod layer;
 mod legend;
+mod marks;
 mod room;
 mod solve;
 mod style;
 mod text;
 
-use crate::check::plan::FigurePlan;
+use crate::check::plan::{FigurePlan, GroupMarks};
 use crate::compute::{FigureData, XScale};
-use crate::scene::{Colour, Fill, Mark, Rect, Scene, TextAlign};
+use crate::scene::{Colour, Fill, Mark, Point, Rect, Scene, Stroke, TextAlign};
 
 pub use axis::{format_tick, NumAxisMap};
 pub use crowding::Crowding;
@@ -53,6 +54,8 @@ pub(crate) struct PanelFrame<'a> {
     pub shows_points: bool,
     /// The figure's largest width quantity (violin density, flow subjects): one scale for all.
     pub width_peak: f64,
+    /// How the groups are told apart besides colour.
+    pub marks: GroupMarks,
 }
 
 /// The x axis of a panel.
@@ -101,6 +104,20 @@ impl PanelFrame<'_> {
         } else {
             DATA_COLOUR
         }
+    }
+
+    /// A data dot of group `g`: its colour, and its shape with `colour VAR shapes`.
+    pub fn dot(&self, centre: Point, g: usize) -> Mark {
+        let fill = Fill {
+            colour: self.colour(g),
+            opacity: POINT_OPACITY,
+        };
+        marks::dot(marks::shape(self.marks, g), centre, POINT_RADIUS_MM, fill)
+    }
+
+    /// A line of group `g`, dashed with `colour VAR dashes`.
+    pub fn stroke(&self, g: usize, colour: Colour, width_mm: f64) -> Stroke {
+        marks::stroke(self.marks, g, colour, width_mm)
     }
 
     /// Summary marks are ink when there is one group, and the group's colour otherwise.
@@ -158,7 +175,7 @@ pub fn layout(plan: &FigurePlan, data: &FigureData) -> Laid {
     let mut marks = draw(plan, data, &page).marks;
     if let Some(legend) = &data.legend {
         let inner = page.width - 2.0 * MARGIN_MM;
-        let swatch = Swatch::for_panel(data.panels.first());
+        let swatch = Swatch::for_legend(data.panels.first(), legend.marks);
         let block = LegendBlock::new(legend, swatch, inner * LEGEND_LABEL_SHARE);
         let top = page.legend_top.unwrap_or(MARGIN_MM);
         marks.extend(block.rows_marks(MARGIN_MM, top, inner));
@@ -177,7 +194,11 @@ fn corner_legend(
 ) -> Option<Vec<Mark>> {
     let (rect, drawn) = corner.as_ref()?;
     let label_w = rect.width * LEGEND_LABEL_SHARE;
-    let block = LegendBlock::new(legend, Swatch::for_panel(data.panels.first()), label_w);
+    let block = LegendBlock::new(
+        legend,
+        Swatch::for_legend(data.panels.first(), legend.marks),
+        label_w,
+    );
     if !block.fits(label_w) {
         return None;
     }
@@ -268,6 +289,7 @@ fn draw(plan: &FigurePlan, data: &FigureData, page: &Page) -> Drawn {
             colours,
             shows_points,
             width_peak: data.width_peak,
+            marks: data.legend.as_ref().map(|l| l.marks).unwrap_or_default(),
         };
         let labelled = i % grid.cols == 0;
         if let Some(lines) = grid.panel_labels.get(i).filter(|l| !l.is_empty()) {

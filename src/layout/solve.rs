@@ -290,8 +290,11 @@ impl Content<'_> {
         let legend_h = match (&data.legend, self.legend) {
             (Some(legend), LegendSpace::Top) => {
                 let label_w = inner * LEGEND_LABEL_SHARE;
-                let block =
-                    LegendBlock::new(legend, Swatch::for_panel(data.panels.first()), label_w);
+                let block = LegendBlock::new(
+                    legend,
+                    Swatch::for_legend(data.panels.first(), legend.marks),
+                    label_w,
+                );
                 if !block.fits(label_w) {
                     problems.push(problem(
                         Needs::Width,

@@ -134,6 +134,44 @@ pub const FLOW_BAR_MIN_MM: f64 = 1.6;
 pub const FLOW_STATE_GAP_MM: f64 = 1.6;
 pub const FLOW_GAPS_MAX_SHARE: f64 = 0.25;
 pub const FLOW_RIBBON_OPACITY: f64 = 0.42;
+/// The shapes of dots that tell colour groups apart (`colour VAR shapes`), in group order.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum DotShape {
+    Circle,
+    Square,
+    TriangleUp,
+    Diamond,
+    TriangleDown,
+    Plus,
+    Pentagon,
+    Cross,
+}
+pub const GROUP_SHAPES: [DotShape; 8] = [
+    DotShape::Circle,
+    DotShape::Square,
+    DotShape::TriangleUp,
+    DotShape::Diamond,
+    DotShape::TriangleDown,
+    DotShape::Plus,
+    DotShape::Pentagon,
+    DotShape::Cross,
+];
+/// The dash patterns (on, off, ...) of lines that tell colour groups apart (`colour VAR
+/// dashes`), in group order; the first is solid. Each differs from the others in its rhythm,
+/// and the shortest dash is longer than the widest line is thick.
+pub const GROUP_DASHES_MM: [&[f64]; 8] = [
+    &[],
+    &[1.6, 0.8],
+    &[0.5, 0.6],
+    &[1.6, 0.6, 0.5, 0.6],
+    &[3.0, 1.0],
+    &[0.9, 0.9],
+    &[2.4, 0.6, 0.5, 0.6, 0.5, 0.6],
+    &[1.2, 1.4, 0.5, 1.4],
+];
+/// A legend's line swatch is this many swatch sides long when its groups are dashed, so the
+/// pattern shows.
+pub const DASHED_SWATCH_SIDES: f64 = 3.0;
 /// Legend: a swatch's side as a share of the line height; the clear space kept between a
 /// legend placed inside a panel and the data.
 pub const SWATCH_SHARE: f64 = 0.75;

@@ -4,6 +4,7 @@
 //! the bundled font exactly as it is drawn.
 
 use crate::font;
+use crate::markup::{self, RunStyle};
 use crate::scene::{Mark, Point, TextAlign, TextBaseline, TextMark, TextRotation, TextStyle};
 
 /// Width of one line, in millimetres.
@@ -18,6 +19,8 @@ pub fn line_height(style: &TextStyle) -> f64 {
 
 /// Splits text into lines no wider than `max_mm`, breaking at spaces. A single word wider than
 /// the limit stays whole on its own line (it is never cut): [`fits`] tells whether it did.
+/// Styled text ([`crate::markup`]) keeps its style across a break: a line starts in the style
+/// the line before it ended in.
 pub fn wrap(text: &str, style: &TextStyle, max_mm: f64) -> Vec<String> {
     let mut lines: Vec<String> = Vec::new();
     let mut current = String::new();
@@ -30,8 +33,13 @@ pub fn wrap(text: &str, style: &TextStyle, max_mm: f64) -> Vec<String> {
         if current.is_empty() || width(&candidate, style) <= max_mm {
             current = candidate;
         } else {
+            let carried = markup::style_at_end(&current);
             lines.push(std::mem::take(&mut current));
-            current = word.to_string();
+            current = if carried == RunStyle::default() {
+                word.to_string()
+            } else {
+                format!("{}{word}", carried.code())
+            };
         }
     }
     if !current.is_empty() || lines.is_empty() {
@@ -150,6 +158,14 @@ mod tests {
         assert!(lines.len() >= 2);
         assert!(fits(&lines, &s, 20.0));
         assert_eq!(lines.join(" "), "Neither satisfied nor dissatisfied");
+        let styled = markup::parse("the *Homo sapiens* sample").text;
+        let lines = wrap(&styled, &s, 12.0);
+        assert!(lines.len() >= 3, "{lines:?}");
+        let sapiens = lines.iter().find(|l| l.contains("sapiens")).unwrap();
+        assert!(
+            markup::runs(sapiens)[0].style.italic,
+            "italic across the break"
+        );
         let long = wrap("Supercalifragilistic", &s, 5.0);
         assert_eq!(long, ["Supercalifragilistic"]);
         assert!(!fits(&long, &s, 5.0));

@@ -22,9 +22,9 @@ struct File<'a> {
 
 #[derive(Serialize)]
 struct Entry<'a> {
-    text: &'a str,
+    text: String,
     number: &'a str,
-    unit: Option<&'a str>,
+    unit: Option<String>,
     value: &'a Exact,
 }
 
@@ -40,9 +40,9 @@ pub fn render(numbers: &Addressed) -> String {
                         .iter()
                         .map(|(cell, q)| {
                             let entry = Entry {
-                                text: &q.text,
+                                text: crate::markup::plain(&q.text),
                                 number: &q.number,
-                                unit: q.unit.as_deref(),
+                                unit: q.unit.as_deref().map(crate::markup::plain),
                                 value: &q.exact,
                             };
                             (cell.as_str(), entry)

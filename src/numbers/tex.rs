@@ -15,6 +15,7 @@ use std::fmt::Write as _;
 
 use super::text::UNIT_SPACE;
 use super::Addressed;
+use crate::markup::{self, Position};
 
 const HEADER: &str = r"% Numbers of the figures in this folder, written by Figura: do not edit.
 % \input this file, then write \figura{FIGURE}{STAT}{CELL} for a number with its
@@ -40,9 +41,32 @@ fn fits_an_argument(part: &str) -> bool {
     !part.contains(['\\', '{', '}', '%']) && !part.contains("^^")
 }
 
-/// Text escaped for LaTeX's text mode.
+/// Text escaped for LaTeX's text mode; the styled runs of label markup ([`crate::markup`])
+/// as `\textsuperscript`, `\textsubscript`, `\textit` and `\textbf`.
 pub fn escape(text: &str) -> String {
     let mut out = String::with_capacity(text.len());
+    for run in markup::runs(text) {
+        let mut wrappers: Vec<&str> = Vec::new();
+        match run.style.position {
+            Position::Base => {}
+            Position::Raised => wrappers.push(r"\textsuperscript{"),
+            Position::Lowered => wrappers.push(r"\textsubscript{"),
+        }
+        if run.style.italic {
+            wrappers.push(r"\textit{");
+        }
+        if run.style.bold {
+            wrappers.push(r"\textbf{");
+        }
+        wrappers.iter().for_each(|w| out.push_str(w));
+        escape_plain(&run.text, &mut out);
+        wrappers.iter().for_each(|_| out.push('}'));
+    }
+    out
+}
+
+/// Plain text escaped for LaTeX's text mode, onto `out`.
+fn escape_plain(text: &str, out: &mut String) {
     for c in text.chars() {
         match c {
             '\\' => out.push_str(r"\textbackslash{}"),
@@ -57,7 +81,6 @@ pub fn escape(text: &str) -> String {
             other => out.push(other),
         }
     }
-    out
 }
 
 /// The file's text.

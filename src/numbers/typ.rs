@@ -27,10 +27,10 @@ const FUNCTIONS: &str = r#"
 #let figura-number(figure, stat, cell) = figura-entry(figure, stat, cell).number
 "#;
 
-/// A Typst string literal.
+/// A Typst string literal (of a styled unit's plain text, [`crate::markup::plain`]).
 fn string(text: &str) -> String {
     let mut out = String::from("\"");
-    for c in text.chars() {
+    for c in crate::markup::plain(text).chars() {
         match c {
             '"' => out.push_str("\\\""),
             '\\' => out.push_str("\\\\"),

@@ -10,6 +10,12 @@
 //! [defaults]
 //! formats = ["svg", "png"]
 //! dpi = 300
+//!
+//! [journal]               # check every figure against a journal's artwork targets
+//! widths = [85, 114, 174] # mm
+//! min-text = 6            # pt
+//! min-line = 0.25         # pt
+//! dpi = 300
 //! ```
 //!
 //! Guarantees: every problem of the file is reported at once, each with the span of the key or
@@ -30,6 +36,7 @@ use std::path::{Path, PathBuf};
 use toml::de::{DeTable, DeValue};
 use toml::Spanned;
 
+use crate::build::journal::Journal;
 use crate::build::paths::{relative_to, resolved, Bounds, RootKind};
 use crate::check::{FigureDefaults, Formats, DPI_LIMITS};
 use crate::diag::{did_you_mean, Code, Diagnostic, SourceId, SourceMap, Span};
@@ -54,6 +61,8 @@ pub struct Settings {
     /// Manuscript numbers files to write in each output folder.
     pub numbers: Vec<NumbersFormat>,
     pub defaults: FigureDefaults,
+    /// The journal's artwork targets, when the file has a `[journal]` table.
+    pub journal: Option<Journal>,
     /// Each path of `specs` and `out` as written, with its span, for messages about it.
     pub written: Vec<WrittenPath>,
 }
@@ -66,6 +75,7 @@ impl Default for Settings {
             allow_outside: Vec::new(),
             numbers: Vec::new(),
             defaults: FigureDefaults::default(),
+            journal: None,
             written: Vec::new(),
         }
     }
@@ -95,6 +105,8 @@ pub struct Project {
     /// Manuscript numbers files to write in each output folder.
     pub numbers: Vec<NumbersFormat>,
     pub defaults: FigureDefaults,
+    /// The journal's artwork targets, when the file has a `[journal]` table.
+    pub journal: Option<Journal>,
 }
 
 /// Why a project could not be opened.
@@ -180,6 +192,7 @@ pub fn open(root: &Path) -> Result<Project, ProjectError> {
         allow_outside,
         numbers: settings.numbers,
         defaults: settings.defaults,
+        journal: settings.journal,
         file,
     })
 }
@@ -249,7 +262,8 @@ pub fn parse(id: SourceId, text: &str) -> Result<Settings, Vec<Diagnostic>> {
         match key.get_ref().as_ref() {
             "project" => reader.project(value, &mut settings),
             "defaults" => reader.defaults(value, &mut settings.defaults),
-            _ => reader.unknown(key, "", &["project", "defaults"]),
+            "journal" => settings.journal = reader.journal(value),
+            _ => reader.unknown(key, "", &["project", "defaults", "journal"]),
         }
     }
     if reader.diags.is_empty() {
@@ -280,7 +294,7 @@ fn toml_error(id: SourceId, text: &str, e: &toml::de::Error) -> Diagnostic {
         .with_help(SHAPE_HELP)
 }
 
-const SHAPE_HELP: &str = "the file holds `[project]` with specs = [\"figures\"] and out = \"figures/out\", and `[defaults]` with formats = [\"svg\", \"png\"] and dpi = 300";
+const SHAPE_HELP: &str = "the file holds `[project]` with specs = [\"figures\"] and out = \"figures/out\", `[defaults]` with formats = [\"svg\", \"png\"] and dpi = 300, and `[journal]` with widths = [85, 114, 174], min-text = 6, min-line = 0.25 and dpi = 300";
 
 struct Reader {
     id: SourceId,
@@ -368,6 +382,96 @@ impl Reader {
                 _ => self.unknown(key, "defaults.", &["formats", "dpi"]),
             }
         }
+    }
+
+    /// `[journal]`: the artwork targets, each key defaulting to common practice.
+    fn journal(&mut self, value: &Spanned<DeValue<'_>>) -> Option<Journal> {
+        let table = self.table(value, "journal")?;
+        let mut journal = Journal::default();
+        for (key, value) in sorted(table) {
+            match key.get_ref().as_ref() {
+                "widths" => {
+                    if let Some(w) = self.widths(value) {
+                        journal.widths_mm = w;
+                    }
+                }
+                "min-text" => {
+                    let limits = (1.0, 24.0);
+                    if let Some(v) = self.number(value, "`min-text` is a size in points", limits) {
+                        journal.min_text_pt = v;
+                    }
+                }
+                "min-line" => {
+                    let limits = (0.01, 5.0);
+                    if let Some(v) = self.number(value, "`min-line` is a width in points", limits) {
+                        journal.min_line_pt = v;
+                    }
+                }
+                "dpi" => {
+                    if let Some(dpi) = self.dpi(value) {
+                        journal.dpi = dpi;
+                    }
+                }
+                _ => self.unknown(key, "journal.", &["widths", "min-text", "min-line", "dpi"]),
+            }
+        }
+        Some(journal)
+    }
+
+    /// A number (integer or float) within `limits`.
+    fn number(
+        &mut self,
+        value: &Spanned<DeValue<'_>>,
+        expected: &str,
+        (lo, hi): (f64, f64),
+    ) -> Option<f64> {
+        let n = match value.get_ref() {
+            DeValue::Integer(i) => i64::from_str_radix(i.as_str(), i.radix())
+                .ok()
+                .map(|n| n as f64),
+            DeValue::Float(f) => f.as_str().parse::<f64>().ok(),
+            other => {
+                self.wrong_type(value, &format!("{expected} (a number)"), other.type_str());
+                return None;
+            }
+        };
+        match n {
+            Some(n) if (lo..=hi).contains(&n) => Some(n),
+            _ => {
+                self.diags.push(
+                    Diagnostic::new(
+                        Code::BadValue,
+                        format!("{expected} from {lo} to {hi}"),
+                    )
+                    .with_label(self.span(value), "out of limits")
+                    .with_help("journals' artwork guidelines name their least sizes; the common ones are min-text = 6 and min-line = 0.25"),
+                );
+                None
+            }
+        }
+    }
+
+    /// `widths = [85, 114, 174]`: column widths in millimetres, at least one, each within the
+    /// figure size limits.
+    fn widths(&mut self, value: &Spanned<DeValue<'_>>) -> Option<Vec<f64>> {
+        let expected = "`widths` is a list of column widths in mm such as [85, 114, 174]";
+        let items = self.array(value, expected)?;
+        let (lo, hi) = crate::check::SIZE_LIMITS_MM;
+        let widths: Option<Vec<f64>> = items
+            .iter()
+            .map(|item| self.number(item, "a column width in mm", (lo, hi)))
+            .collect::<Vec<_>>()
+            .into_iter()
+            .collect();
+        if items.is_empty() {
+            self.diags.push(
+                Diagnostic::new(Code::BadValue, "`widths` needs at least one column width")
+                    .with_label(self.span(value), "no width")
+                    .with_help("write, for example, widths = [85, 114, 174]"),
+            );
+            return None;
+        }
+        widths
     }
 
     fn unknown(&mut self, key: &Spanned<toml::de::DeString<'_>>, prefix: &str, known: &[&str]) {

@@ -3,7 +3,7 @@
 //! legend does not name.
 
 use crate::compute::layer::Curve;
-use crate::scene::{Fill, Mark, Point, Stroke};
+use crate::scene::{Fill, Mark, Point};
 
 use super::super::style::*;
 use super::super::PanelFrame;
@@ -33,7 +33,7 @@ pub fn draw(out: &mut Vec<Mark>, frame: &PanelFrame, curves: &[Curve]) {
         }
         out.push(Mark::Line {
             points: line,
-            stroke: Stroke::solid(colour, CURVE_LINE_MM),
+            stroke: frame.stroke(c.group, colour, CURVE_LINE_MM),
         });
     }
 }

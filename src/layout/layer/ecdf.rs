@@ -2,7 +2,7 @@
 //! rising at each distinct value, and at 1 from the last value to the right edge.
 
 use crate::compute::layer::EcdfMark;
-use crate::scene::{Mark, Point, Stroke};
+use crate::scene::{Mark, Point};
 
 use super::super::style::*;
 use super::super::PanelFrame;
@@ -22,7 +22,7 @@ pub fn draw(out: &mut Vec<Mark>, frame: &PanelFrame, marks: &[EcdfMark]) {
         let colour = frame.colour(m.group);
         out.push(Mark::Line {
             points,
-            stroke: Stroke::solid(colour, CURVE_LINE_MM),
+            stroke: frame.stroke(m.group, colour, CURVE_LINE_MM),
         });
     }
 }

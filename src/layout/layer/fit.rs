@@ -1,7 +1,7 @@
 //! `fit`: the fitted line over its translucent band.
 
 use crate::compute::layer::FitMark;
-use crate::scene::{Fill, Mark, Point, Stroke};
+use crate::scene::{Fill, Mark, Point};
 
 use super::super::style::*;
 use super::super::PanelFrame;
@@ -40,6 +40,6 @@ fn draw_fit(out: &mut Vec<Mark>, frame: &PanelFrame, f: &FitMark) {
             .iter()
             .map(|(x, y)| Point::new(frame.x_num(*x), frame.y(*y)))
             .collect(),
-        stroke: Stroke::solid(colour, MEDIAN_LINE_MM),
+        stroke: frame.stroke(f.group, colour, MEDIAN_LINE_MM),
     });
 }

@@ -18,7 +18,7 @@ pub fn draw(out: &mut Vec<Mark>, frame: &PanelFrame, paths: &[SubjectPath]) {
             .collect();
         let stroke = Stroke {
             opacity: LINE_OPACITY,
-            ..Stroke::solid(frame.colour(path.group), LINE_WIDTH_MM)
+            ..frame.stroke(path.group, frame.colour(path.group), LINE_WIDTH_MM)
         };
         out.push(Mark::Line { points, stroke });
     }

@@ -78,18 +78,6 @@ enum Centre {
     Diamond,
 }
 
-fn dot(centre: Point, colour: Colour) -> Mark {
-    Mark::Circle {
-        centre,
-        radius: POINT_RADIUS_MM,
-        fill: Some(Fill {
-            colour,
-            opacity: POINT_OPACITY,
-        }),
-        stroke: None,
-    }
-}
-
 /// Many circles of one radius as one shape: each a closed sub-path of four cubic arcs
 /// (the usual quarter-circle constant 0.5523, common practice). Centres closer than
 /// [`MERGED_DOT_GRID_MM`] (on a grid of that step) are drawn once; the shape's inside is

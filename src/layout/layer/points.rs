@@ -12,7 +12,7 @@ use crate::scene::{Fill, Mark, Point};
 
 use super::super::style::*;
 use super::super::PanelFrame;
-use super::{circles, dot};
+use super::circles;
 
 pub fn draw(out: &mut Vec<Mark>, frame: &PanelFrame, points: &PointMarks) {
     // Dots by cell (x slot and colour group), in drawing order.
@@ -45,13 +45,13 @@ pub fn draw(out: &mut Vec<Mark>, frame: &PanelFrame, points: &PointMarks) {
                 for p in points {
                     let (cx, gw) = frame.group_slot(p.x, p.group);
                     let at = Point::new(cx + p.offset * gw, frame.y(p.y));
-                    out.push(dot(at, frame.colour(p.group)));
+                    out.push(frame.dot(at, p.group));
                 }
             }
             PointMarks::Numbers(points) => {
                 for (x, y, g) in points {
                     let at = Point::new(frame.x_num(*x), frame.y(*y));
-                    out.push(dot(at, frame.colour(*g)));
+                    out.push(frame.dot(at, *g));
                 }
             }
         }
@@ -61,7 +61,7 @@ pub fn draw(out: &mut Vec<Mark>, frame: &PanelFrame, points: &PointMarks) {
         let dots = &cells[&key];
         let colour = frame.colour(key.1);
         if dots.len() <= POINTS_PER_CELL_CAP {
-            out.extend(dots.iter().map(|at| dot(*at, colour)));
+            out.extend(dots.iter().map(|at| frame.dot(*at, key.1)));
         } else {
             out.push(Mark::Path {
                 segments: circles(dots.iter().copied(), POINT_RADIUS_MM),
