@@ -200,6 +200,8 @@ pub fn compute(
     } else {
         Vec::new()
     };
+    let mut warnings = many_points(&cells);
+    warnings.append(&mut merged.warnings);
     Ok(FigureData {
         x: x_scale(&cells, &merged),
         y: y_scale(&cells, &merged),
@@ -208,7 +210,7 @@ pub fn compute(
         summary,
         width_peak: merged.width_peak,
         key,
-        warnings: many_points(&cells),
+        warnings,
     })
 }
 
@@ -307,6 +309,8 @@ struct Merged {
     y_hidden: bool,
     width_peak: f64,
     legend: Option<Legend>,
+    /// The layers' warnings, the first of each code and layer only (not one per panel).
+    warnings: Vec<Diagnostic>,
 }
 
 impl Merged {
@@ -323,6 +327,15 @@ impl Merged {
         self.width_peak = self.width_peak.max(out.width_peak);
         if out.legend.is_some() {
             self.legend = out.legend;
+        }
+        for w in out.warnings {
+            if !self
+                .warnings
+                .iter()
+                .any(|seen| seen.code == w.code && seen.span() == w.span())
+            {
+                self.warnings.push(w);
+            }
         }
         out.marks
     }

@@ -21,15 +21,19 @@ pub enum Swatch {
 }
 
 impl Swatch {
-    /// The swatch for a figure: the kind of mark its first layer draws in group colours.
+    /// The swatch for a figure: the kind of mark its first layer draws in group colours
+    /// (guides are not drawn in group colours).
     pub fn for_panel(panel: Option<&PanelData>) -> Swatch {
-        match panel.and_then(|p| p.layers.first()) {
+        let first =
+            panel.and_then(|p| p.layers.iter().find(|l| !matches!(l, LayerMarks::Guide(_))));
+        match first {
             Some(LayerMarks::Points(_)) => Swatch::Dot,
             Some(
                 LayerMarks::Lines(_)
                 | LayerMarks::Density(_)
                 | LayerMarks::Ecdf(_)
                 | LayerMarks::Fit(_)
+                | LayerMarks::Smooth(_)
                 | LayerMarks::Histogram(_),
             ) => Swatch::Line,
             _ => Swatch::Square,
