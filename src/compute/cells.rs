@@ -20,7 +20,8 @@ use std::collections::BTreeMap;
 
 use crate::check::layer::Shows;
 use crate::check::plan::{
-    Axes, AxisScale, CatAxis, CatVar, Codebook, Collapse, FigurePlan, LevelOrder, NumAxis, VarId,
+    Axes, AxisScale, CatAxis, CatVar, Codebook, Collapse, FigurePlan, LayerPlan, LevelOrder,
+    NumAxis, VarId,
 };
 use crate::data::{Codes, Names, Numbers, Table};
 use crate::diag::{Code, Diagnostic, Span};
@@ -407,31 +408,47 @@ impl<'a> Cells<'a> {
     /// Rule F0109 in the data: a subject with two values in one cell, under a layer that joins
     /// or compares one value per subject.
     fn check_one_value_per_subject(&self, placed: &Placement<f64>) -> Result<(), ComputeError> {
-        let Some(layer) = self
-            .plan
-            .layers
-            .iter()
-            .find(|l| l.traits.one_value_per_subject)
-        else {
+        let Some(layer) = self.one_value_layer() else {
             return Ok(());
         };
         let Some((subject, cell, first, second)) = repeated_subject(placed) else {
             return Ok(());
         };
-        let mut parts = vec![format!("x = \"{}\"", self.x_levels.names[cell.x])];
+        let x = format!("x = \"{}\"", self.x_levels.names[cell.x]);
+        Err(self.repeated_error(layer, subject, cell, x, (first, second)))
+    }
+
+    /// The first layer that joins or compares one value per subject and cell.
+    fn one_value_layer(&self) -> Option<&LayerPlan> {
+        self.plan
+            .layers
+            .iter()
+            .find(|l| l.traits.one_value_per_subject)
+    }
+
+    /// F0109 for `subject` twice in `cell` (its x described by `x`), at table rows `rows`.
+    fn repeated_error(
+        &self,
+        layer: &LayerPlan,
+        subject: u32,
+        cell: Cell,
+        x: String,
+        rows: (usize, usize),
+    ) -> ComputeError {
+        let mut parts = vec![x];
         if self.plan.colour.is_some() {
             parts.push(format!("colour = \"{}\"", self.groups.names[cell.group]));
         }
         if self.plan.panels.is_some() {
             parts.push(format!("panel = \"{}\"", self.panels.names[cell.panel]));
         }
-        Err(repeated_subject_error(
+        repeated_subject_error(
             &self.subject_name(subject),
             &format!("({})", parts.join(", ")),
-            (self.file_row(first), self.file_row(second)),
+            (self.file_row(rows.0), self.file_row(rows.1)),
             layer.span,
         )
-        .into())
+        .into()
     }
 
     /// Rule F0109 in the data over a numeric x: a subject with two values at one x value, under
@@ -441,12 +458,7 @@ impl<'a> Cells<'a> {
         pairs: &Placement<Pair>,
         x: &NumAxis,
     ) -> Result<(), ComputeError> {
-        let Some(layer) = self
-            .plan
-            .layers
-            .iter()
-            .find(|l| l.traits.one_value_per_subject)
-        else {
+        let Some(layer) = self.one_value_layer() else {
             return Ok(());
         };
         let mut seen: BTreeMap<(Cell, u32, u64), usize> = BTreeMap::new();
@@ -456,23 +468,8 @@ impl<'a> Cells<'a> {
                 continue;
             };
             let var = &self.book.var(x.var.var).name;
-            let mut parts = vec![format!(
-                "{var} = {}",
-                super::summary::format_number(o.value.x)
-            )];
-            if self.plan.colour.is_some() {
-                parts.push(format!("colour = \"{}\"", self.groups.names[o.cell.group]));
-            }
-            if self.plan.panels.is_some() {
-                parts.push(format!("panel = \"{}\"", self.panels.names[o.cell.panel]));
-            }
-            return Err(repeated_subject_error(
-                &self.subject_name(s),
-                &format!("({})", parts.join(", ")),
-                (self.file_row(first), self.file_row(o.row)),
-                layer.span,
-            )
-            .into());
+            let at = format!("{var} = {}", super::summary::format_number(o.value.x));
+            return Err(self.repeated_error(layer, s, o.cell, at, (first, o.row)));
         }
         Ok(())
     }

@@ -113,10 +113,22 @@ fn read(input: &ReadInput, diags: &mut Vec<Diagnostic>) -> Option<(Layer, Traits
 /// One value (a line) or two in increasing order (a band).
 fn values<'a>(call: &'a Call, diags: &mut Vec<Diagnostic>) -> Option<Vec<&'a Num>> {
     let word = &call.name.name;
-    let shape = format!("{word}(0) or {word}(10, 20)");
+    let shape = format!("{word}(0)");
     let items = &call.args.items;
     if !(1..=2).contains(&items.len()) {
-        terms::arity(call, 1, &shape, diags);
+        diags.push(
+            Diagnostic::new(
+                Code::BadArgument,
+                format!(
+                    "a guide takes one value (a line) or two (a band), found {}",
+                    items.len()
+                ),
+            )
+            .with_label(call.args.span, "here")
+            .with_help(format!(
+                "write `{word}(0)` for a line, or `{word}(10, 20)` for a band from 10 to 20"
+            )),
+        );
         return None;
     }
     let nums: Vec<&Num> = items
@@ -193,10 +205,7 @@ fn check_axis(
             )
             .with_label(call.span, "a value on a number line")
             .with_label(var.name_span, format!("{word} is {}", var.scale.as_str()))
-            .with_help(format!(
-                "guides mark a number on an interval or ratio axis; to compare categories with a reference value, put the guide on the numeric axis (`guide {}(...)`)",
-                if word == "x" { "y" } else { "x" }
-            )),
+            .with_help("a guide marks a number on an interval or ratio axis, and categories have no place between them: put the guide on the figure's numeric axis, or remove it"),
         );
         return;
     }

@@ -30,7 +30,7 @@ use super::super::cells::{Cell, Pair, Placed, Placement, Values};
 use super::super::extent::Extent;
 use super::super::summary::{format_number, RowKey, SummaryRow};
 use super::super::ComputeError;
-use super::{boot_interval, n_rows, At, Bar, Estimate, LayerMarks, LayerOutput, Stat};
+use super::{boot_interval, At, Bar, Estimate, LayerMarks, LayerOutput, Stat};
 
 /// What a `mean` layer draws in one panel.
 #[derive(Debug, Clone, PartialEq)]
@@ -185,18 +185,7 @@ fn over_values(
     let mut estimates = Vec::new();
     let mut warnings = Vec::new();
     for group in 0..at.cells.groups.len() {
-        let mut here: Vec<Pair> = pairs
-            .in_panel(at.panel)
-            .filter(|o| o.cell.group == group)
-            .map(|o| o.value)
-            .collect();
-        let k = at.key(group, "");
-        n_rows(
-            &mut rows,
-            &k,
-            here.len(),
-            pairs.n_missing(at.cell(0, group)),
-        );
+        let (mut here, k) = at.group_pairs(pairs, group, &mut rows);
         here.sort_by(|a, b| a.x.total_cmp(&b.x).then(a.y.total_cmp(&b.y)));
         let occasions: Vec<&[Pair]> = here.chunk_by(|a, b| a.x == b.x).collect();
         let single = occasions.iter().filter(|o| o.len() == 1).count();

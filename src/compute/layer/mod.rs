@@ -237,6 +237,24 @@ impl At<'_, '_> {
         }
     }
 
+    /// The pairs of colour group `group` in this panel (a numeric x), after pushing the group's
+    /// `n` and `n_missing` rows; with the group's key (`x` empty).
+    fn group_pairs(
+        &self,
+        pairs: &Placement<super::cells::Pair>,
+        group: usize,
+        rows: &mut Vec<SummaryRow>,
+    ) -> (Vec<super::cells::Pair>, RowKey) {
+        let here: Vec<super::cells::Pair> = pairs
+            .in_panel(self.panel)
+            .filter(|o| o.cell.group == group)
+            .map(|o| o.value)
+            .collect();
+        let key = self.key(group, "");
+        n_rows(rows, &key, here.len(), pairs.n_missing(self.cell(0, group)));
+        (here, key)
+    }
+
     /// Whether the figure's y axis is logarithmic.
     fn y_is_log(&self) -> bool {
         matches!(&self.cells.plan.axes, Axes::CatNum { y, .. } | Axes::NumNum { y, .. } if y.scale == AxisScale::Log)

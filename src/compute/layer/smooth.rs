@@ -30,7 +30,7 @@ use super::super::cells::{Pair, Placement};
 use super::super::extent::Extent;
 use super::super::summary::{format_number, RowKey, SummaryRow};
 use super::super::ComputeError;
-use super::{n_rows, At, LayerMarks, LayerOutput, Stat};
+use super::{At, LayerMarks, LayerOutput, Stat};
 
 /// The most points a curve is drawn through.
 pub const SMOOTH_GRID: usize = 256;
@@ -60,13 +60,7 @@ pub fn compute(
     let mut marks = Vec::new();
     let mut warnings = Vec::new();
     for g in 0..at.cells.groups.len() {
-        let here: Vec<Pair> = pairs
-            .in_panel(at.panel)
-            .filter(|o| o.cell.group == g)
-            .map(|o| o.value)
-            .collect();
-        let k = at.key(g, "");
-        n_rows(&mut rows, &k, here.len(), pairs.n_missing(at.cell(0, g)));
+        let (here, k) = at.group_pairs(pairs, g, &mut rows);
         rows.push(k.number(Stat::Span, opts.span));
         if here.len() > SMOOTH_MAX_PAIRS {
             return Err(too_many(at, g, here.len(), head).into());
