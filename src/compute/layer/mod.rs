@@ -366,8 +366,8 @@ macro_rules! stat_table {
 }
 
 stat_table! {
-    N = "n", "Number of values used: per cell; per colour group (`x` empty) for `counts`, `histogram`, `density`, `ecdf`, scatter `points`, `fit`, `smooth` and `mean` over a numeric x (which adds one per x value); for `lines`, the subjects drawn per group; for `flows`, subjects in the panel and at each occasion.";
-    NMissing = "n_missing", "Kept rows not shown because a needed value is missing (under `ci(L, within)`, also the cell's values of subjects missing another within cell); with every `n` except that of `lines`.";
+    N = "n", "Number of values used: per cell; per colour group (`x` empty) for `counts`, `histogram`, `density`, `ecdf`, scatter `points`, `fit`, `smooth` and `mean` over a numeric x (which also gives one per x value); for `lines`, the subjects drawn per group; for `flows`, subjects in the panel and at each occasion.";
+    NMissing = "n_missing", "Kept rows not shown because a needed value is missing (under `ci(L, within)`, also the cell's values of subjects missing another within cell); with every `n` except that of `lines` and the per-x-value `n` of `mean` over a numeric x (its group's row counts them).";
     Count = "count", "Rows in a level or bin (`counts`, `histogram`); for `flows`, subjects in a state, or moving between two states of consecutive occasions (zeros included).";
     Percent = "percent", "`100 · count / n` of the panel and colour group: `counts` and `histogram` with `heights(percent)` (no row for a group with no rows).";
     Density = "density", "`count / (n · width)`: `histogram` with `heights(density)`; the kernel density at `x`: `density` and `violin` with `summary(full)`, one row per point drawn.";

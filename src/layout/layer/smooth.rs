@@ -1,5 +1,5 @@
 //! `smooth`: each colour group's LOWESS curve, a line in the summary marks' colour (ink, or the
-//! group's colour), over the values it summarises.
+//! group's colour) as thick as a fitted line, over the values it summarises.
 
 use crate::compute::layer::SmoothMark;
 use crate::scene::{Mark, Point, Stroke};
@@ -9,20 +9,13 @@ use super::super::PanelFrame;
 
 pub fn draw(out: &mut Vec<Mark>, frame: &PanelFrame, curves: &[SmoothMark]) {
     for c in curves {
-        let points = c
-            .line
-            .iter()
-            .map(|(x, y)| Point::new(frame.x_num(*x), frame.y(*y)))
-            .collect();
-        // A white halo keeps the curve readable over dots and trajectories of its own colour.
-        for stroke in [
-            Stroke::solid(crate::scene::Colour::WHITE, MEDIAN_LINE_MM + HALO_MM),
-            Stroke::solid(frame.summary_colour(c.group), MEDIAN_LINE_MM),
-        ] {
-            out.push(Mark::Line {
-                points: Vec::clone(&points),
-                stroke,
-            });
-        }
+        out.push(Mark::Line {
+            points: c
+                .line
+                .iter()
+                .map(|(x, y)| Point::new(frame.x_num(*x), frame.y(*y)))
+                .collect(),
+            stroke: Stroke::solid(frame.summary_colour(c.group), MEDIAN_LINE_MM),
+        });
     }
 }
