@@ -39,7 +39,7 @@ pub const SMOOTH_MIN_PAIRS: usize = 10;
 /// The fewest pairs each local line must use, and the fewest distinct x values.
 const MIN_LOCAL: usize = 3;
 /// The most pairs of one group LOWESS is computed for.
-pub const SMOOTH_MAX_PAIRS: usize = 10_000;
+pub const SMOOTH_MAX_PAIRS: usize = 5_000;
 
 /// A smooth curve over its group's x range, in data units.
 #[derive(Debug, Clone, PartialEq)]
