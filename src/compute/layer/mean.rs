@@ -132,11 +132,9 @@ fn over_slots(opts: &MeanOpts, at: &At, values: &Values, kind: MeanKind) -> Laye
         };
         rows.push(k.count(Stat::N, m.n));
         rows.push(k.count(Stat::NMissing, m.n_missing));
-        let Some(mean) = m.mean else {
+        let Some(mean) = mean_rows(&m, kind, &k, &mut rows) else {
             continue;
         };
-        rows.push(k.number(kind.stat(), mean));
-        rows.extend(m.error_rows.iter().map(|(stat, v)| k.number(*stat, *v)));
         bars.push(Bar {
             x: cell.x,
             group: cell.group,
@@ -149,16 +147,9 @@ fn over_slots(opts: &MeanOpts, at: &At, values: &Values, kind: MeanKind) -> Laye
             interval: m.interval,
         });
     }
-    let mut y = Extent::default();
+    let mut y = extent_of(&estimates);
     if opts.bar {
         y.add(0.0);
-    }
-    for e in &estimates {
-        y.add(e.centre);
-        if let Some((lo, hi)) = e.interval {
-            y.add(lo);
-            y.add(hi);
-        }
     }
     let marks = LayerMarks::Mean(MeanMarks {
         bars: opts.bar.then_some(bars),
@@ -196,7 +187,9 @@ fn over_values(
             let x = occasion[0].x;
             let ys: Vec<f64> = occasion.iter().map(|p| p.y).collect();
             let m = mean_of(&ys, 0, opts.error, kind);
-            let Some(e) = value_rows(&m, kind, &k.at(format_number(x)), &mut rows) else {
+            let k = k.at(format_number(x));
+            rows.push(k.count(Stat::N, m.n));
+            let Some(e) = mean_rows(&m, kind, &k, &mut rows) else {
                 continue;
             };
             estimates.push(Estimate {
@@ -207,15 +200,9 @@ fn over_values(
             });
         }
     }
-    let (mut x, mut y) = (Extent::default(), Extent::default());
-    for e in &estimates {
-        x.add(e.x);
-        y.add(e.centre);
-        if let Some((lo, hi)) = e.interval {
-            y.add(lo);
-            y.add(hi);
-        }
-    }
+    let y = extent_of(&estimates);
+    let mut x = Extent::default();
+    estimates.iter().for_each(|e| x.add(e.x));
     let marks = LayerMarks::Mean(MeanMarks {
         bars: None,
         estimates: MeanEstimates::Values(estimates),
@@ -230,9 +217,21 @@ fn over_values(
     }
 }
 
-/// The rows of one x value's mean (`n`, the mean, its error bar's rows); the mean, if any.
-fn value_rows(m: &MeanCell, kind: MeanKind, k: &RowKey, rows: &mut Vec<SummaryRow>) -> Option<f64> {
-    rows.push(k.count(Stat::N, m.n));
+/// The extent on y of means with their intervals.
+fn extent_of<X>(estimates: &[Estimate<X>]) -> Extent {
+    let mut y = Extent::default();
+    for e in estimates {
+        y.add(e.centre);
+        if let Some((lo, hi)) = e.interval {
+            y.add(lo);
+            y.add(hi);
+        }
+    }
+    y
+}
+
+/// The rows of a mean and its error bar, when there is a mean; the mean.
+fn mean_rows(m: &MeanCell, kind: MeanKind, k: &RowKey, rows: &mut Vec<SummaryRow>) -> Option<f64> {
     let mean = m.mean?;
     rows.push(k.number(kind.stat(), mean));
     rows.extend(m.error_rows.iter().map(|(stat, v)| k.number(*stat, *v)));
