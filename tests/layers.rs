@@ -15,14 +15,20 @@ use figura::compute::layer::PathPoint;
 use figura::compute::LayerMarks;
 use serde_json::json;
 
-/// Builds `spec` beside `files` and returns each figure's summary rows as
-/// (layer, group, x, stat, value).
-fn summary_of(spec: &str, files: &[(&str, &str)], figure: &str) -> Vec<[String; 5]> {
+/// A temporary folder holding `spec` as `figures.figura` and `files` beside it.
+fn folder_of(spec: &str, files: &[(&str, &str)]) -> tempfile::TempDir {
     let dir = tempfile::tempdir().unwrap();
     std::fs::write(dir.path().join("figures.figura"), spec).unwrap();
     for (name, text) in files {
         std::fs::write(dir.path().join(name), text).unwrap();
     }
+    dir
+}
+
+/// Builds `spec` beside `files` and returns each figure's summary rows as
+/// (layer, group, x, stat, value).
+fn summary_of(spec: &str, files: &[(&str, &str)], figure: &str) -> Vec<[String; 5]> {
+    let dir = folder_of(spec, files);
     let out = dir.path().join("out");
     let report = build::build(
         &BuildOptions {
@@ -672,11 +678,7 @@ figure shapes { from waits; x queue; y wait; violin bandwidth(0.8) summary(full)
 
 /// Builds `spec` beside `files` and returns every diagnostic as (code, message).
 fn diagnostics_of(spec: &str, files: &[(&str, &str)]) -> Vec<(String, String)> {
-    let dir = tempfile::tempdir().unwrap();
-    std::fs::write(dir.path().join("figures.figura"), spec).unwrap();
-    for (name, text) in files {
-        std::fs::write(dir.path().join(name), text).unwrap();
-    }
+    let dir = folder_of(spec, files);
     let report = build::build(
         &BuildOptions {
             paths: vec![dir.path().join("figures.figura")],
@@ -699,12 +701,8 @@ fn laid_out(
     files: &[(&str, &str)],
     figure: &str,
 ) -> (figura::compute::FigureData, figura::scene::Scene) {
-    let dir = tempfile::tempdir().unwrap();
+    let dir = folder_of(spec, files);
     let path = dir.path().join("figures.figura");
-    std::fs::write(&path, spec).unwrap();
-    for (name, text) in files {
-        std::fs::write(dir.path().join(name), text).unwrap();
-    }
     let mut sources = figura::diag::SourceMap::new();
     let id = sources.add(&path, spec.to_string());
     let ast = figura::syntax::parse(id, sources.text(id)).expect("the spec parses");
@@ -797,6 +795,58 @@ fn joins_meet_their_dots(scene: &figura::scene::Scene, lines: usize) -> (usize, 
 // ---------------------------------------------------------------------------------------------
 // mean join: the numbers are the means' own; the lines join each colour group's dots.
 
+/// The values of column `value` of a CSV (header first), by the columns `group` and `x`.
+fn samples_by(
+    csv: &str,
+    group: usize,
+    x: usize,
+    value: usize,
+) -> BTreeMap<(String, String), Vec<f64>> {
+    let mut out: BTreeMap<(String, String), Vec<f64>> = BTreeMap::new();
+    for line in csv.lines().skip(1) {
+        let f: Vec<&str> = line.split(',').collect();
+        out.entry((f[group].to_string(), f[x].to_string()))
+            .or_default()
+            .push(f[value].parse().unwrap());
+    }
+    out
+}
+
+/// Every `mean` cell (colour group, x) of `rows` against its sample: n, the mean and the 95%
+/// t interval of `scipy.stats.t.interval`.
+fn means_match_t_intervals(rows: &[[String; 5]], samples: &BTreeMap<(String, String), Vec<f64>>) {
+    let want = reference(
+        "t_means",
+        json!({"samples": samples.values().collect::<Vec<_>>(), "level": 0.95}),
+    );
+    for (i, ((group, x), sample)) in samples.iter().enumerate() {
+        let what = format!("{group} at {x}");
+        assert_eq!(
+            value(rows, "mean", group, x, "n"),
+            sample.len() as f64,
+            "{what}"
+        );
+        rel(
+            value(rows, "mean", group, x, "mean"),
+            num(&want[i]["mean"]),
+            1e-13,
+            &what,
+        );
+        rel(
+            value(rows, "mean", group, x, "ci_low"),
+            num(&want[i]["ci"][0]),
+            1e-12,
+            &what,
+        );
+        rel(
+            value(rows, "mean", group, x, "ci_high"),
+            num(&want[i]["ci"][1]),
+            1e-12,
+            &what,
+        );
+    }
+}
+
 /// Student's sleep data with an ordinal occasion: each patient's extra sleep on drug A and B
 /// at two nights (the second night made here as the first plus 0.1 · patient number), so the
 /// within-subject intervals have two within factors.
@@ -839,45 +889,13 @@ fn joined_means_keep_their_numbers_and_meet_their_dots() {
         let (_, scene) = laid_out(&figure("join "), &files, "f");
         assert_eq!(joins_meet_their_dots(&scene, 2), (4, 4), "error({error})");
     }
-    // The means are the t interval's of each cell (scipy.stats.t.interval).
+    // Each cell's mean and t interval (scipy.stats.t.interval).
     let rows = summary_of(
         &format!("{book}figure f {{ from sleep; x night; y extra; colour drug; points; mean join error(ci(0.95)) }}\n"),
         &files,
         "f",
     );
-    let mut samples: BTreeMap<(String, String), Vec<f64>> = BTreeMap::new();
-    for line in csv.lines().skip(1) {
-        let f: Vec<&str> = line.split(',').collect();
-        samples
-            .entry((f[2].to_string(), f[1].to_string()))
-            .or_default()
-            .push(f[3].parse().unwrap());
-    }
-    let want = reference(
-        "t_means",
-        json!({"samples": samples.values().collect::<Vec<_>>(), "level": 0.95}),
-    );
-    for (i, (night, drug)) in samples.keys().enumerate() {
-        let what = format!("{night}/{drug}");
-        rel(
-            value(&rows, "mean", drug, night, "mean"),
-            num(&want[i]["mean"]),
-            1e-13,
-            &what,
-        );
-        rel(
-            value(&rows, "mean", drug, night, "ci_low"),
-            num(&want[i]["ci"][0]),
-            1e-12,
-            &what,
-        );
-        rel(
-            value(&rows, "mean", drug, night, "ci_high"),
-            num(&want[i]["ci"][1]),
-            1e-12,
-            &what,
-        );
-    }
+    means_match_t_intervals(&rows, &samples_by(&csv, 1, 2, 3));
 }
 
 #[test]
@@ -973,7 +991,6 @@ fn trajectories_follow_each_subject_in_time_order_with_means_per_occasion() {
         "time order"
     );
     assert_eq!(joins_meet_their_dots(&scene, 2), (8, 8));
-    // The mean at each week of each arm: scipy.stats.t.interval of that week's values.
     let rows = summary_of(&spec, &files, "f");
     assert_eq!(
         value(&rows, "lines", "clinic", "", "n"),
@@ -985,44 +1002,8 @@ fn trajectories_follow_each_subject_in_time_order_with_means_per_occasion() {
         15.0,
         "pairs of the arm"
     );
-    let mut samples: BTreeMap<(String, String), Vec<f64>> = BTreeMap::new();
-    for line in csv.lines().skip(1) {
-        let f: Vec<&str> = line.split(',').collect();
-        samples
-            .entry((f[1].to_string(), f[2].to_string()))
-            .or_default()
-            .push(f[3].parse().unwrap());
-    }
-    let want = reference(
-        "t_means",
-        json!({"samples": samples.values().collect::<Vec<_>>(), "level": 0.95}),
-    );
-    for (i, ((arm, week), sample)) in samples.iter().enumerate() {
-        let what = format!("{arm} week {week}");
-        assert_eq!(
-            value(&rows, "mean", arm, week, "n"),
-            sample.len() as f64,
-            "{what}"
-        );
-        rel(
-            value(&rows, "mean", arm, week, "mean"),
-            num(&want[i]["mean"]),
-            1e-13,
-            &what,
-        );
-        rel(
-            value(&rows, "mean", arm, week, "ci_low"),
-            num(&want[i]["ci"][0]),
-            1e-12,
-            &what,
-        );
-        rel(
-            value(&rows, "mean", arm, week, "ci_high"),
-            num(&want[i]["ci"][1]),
-            1e-12,
-            &what,
-        );
-    }
+    // The mean at each week of each arm: scipy.stats.t.interval of that week's values.
+    means_match_t_intervals(&rows, &samples_by(&csv, 1, 2, 3));
 }
 
 #[test]
