@@ -116,6 +116,7 @@ fn every_rule_of_the_contract_has_a_rejected_case() {
         Code::WithinNeverRepeated,
         Code::BeyondDoubleRange,
         Code::FigureCrowded,
+        Code::SmoothTooLarge,
     ];
     let all: String = cases("err")
         .iter()

@@ -11,16 +11,24 @@ use common::{close, rel};
 use std::collections::BTreeMap;
 
 use figura::build::{self, BuildOptions, NoProgress};
+use figura::compute::layer::PathPoint;
+use figura::compute::LayerMarks;
 use serde_json::json;
 
-/// Builds `spec` beside `files` and returns each figure's summary rows as
-/// (layer, group, x, stat, value).
-fn summary_of(spec: &str, files: &[(&str, &str)], figure: &str) -> Vec<[String; 5]> {
+/// A temporary folder holding `spec` as `figures.figura` and `files` beside it.
+fn folder_of(spec: &str, files: &[(&str, &str)]) -> tempfile::TempDir {
     let dir = tempfile::tempdir().unwrap();
     std::fs::write(dir.path().join("figures.figura"), spec).unwrap();
     for (name, text) in files {
         std::fs::write(dir.path().join(name), text).unwrap();
     }
+    dir
+}
+
+/// Builds `spec` beside `files` and returns each figure's summary rows as
+/// (layer, group, x, stat, value).
+fn summary_of(spec: &str, files: &[(&str, &str)], figure: &str) -> Vec<[String; 5]> {
+    let dir = folder_of(spec, files);
     let out = dir.path().join("out");
     let report = build::build(
         &BuildOptions {
@@ -663,4 +671,674 @@ figure shapes { from waits; x queue; y wait; violin bandwidth(0.8) summary(full)
             close(*d, num(&want[i]), 1e-12, peak, &format!("{queue} at {y}"));
         }
     }
+}
+
+// ---------------------------------------------------------------------------------------------
+// Joined means, trajectories, smooths and guides (issue 15): helpers.
+
+/// Builds `spec` beside `files` and returns every diagnostic as (code, message).
+fn diagnostics_of(spec: &str, files: &[(&str, &str)]) -> Vec<(String, String)> {
+    let dir = folder_of(spec, files);
+    let report = build::build(
+        &BuildOptions {
+            paths: vec![dir.path().join("figures.figura")],
+            out: Some(dir.path().join("out")),
+            ..BuildOptions::default()
+        },
+        &NoProgress,
+    )
+    .expect("the build runs");
+    report
+        .diagnostics
+        .iter()
+        .map(|d| (d.code.as_str().to_string(), d.message.clone()))
+        .collect()
+}
+
+/// One figure checked, computed and laid out through the library: its numbers and its scene.
+fn laid_out(
+    spec: &str,
+    files: &[(&str, &str)],
+    figure: &str,
+) -> (figura::compute::FigureData, figura::scene::Scene) {
+    let dir = folder_of(spec, files);
+    let path = dir.path().join("figures.figura");
+    let mut sources = figura::diag::SourceMap::new();
+    let id = sources.add(&path, spec.to_string());
+    let ast = figura::syntax::parse(id, sources.text(id)).expect("the spec parses");
+    let unit = figura::check::SpecUnit {
+        path,
+        ast,
+        sees: Vec::new(),
+        build_figures: true,
+    };
+    let (program, diags) = figura::check::check(&[unit]);
+    assert!(diags.is_empty(), "{diags:#?}");
+    let plan = program.figures.iter().find(|f| f.name == figure).unwrap();
+    let book = &program.codebooks[plan.data];
+    let table = figura::data::read_table(&build::table_spec(book), &mut sources).unwrap();
+    let data = figura::compute::compute(plan, book, &table).expect("numbers computed");
+    let laid = figura::layout::layout(plan, &data);
+    assert!(laid.crowding.is_none(), "{:?}", laid.crowding);
+    (data, laid.scene)
+}
+
+/// Every mark of a scene, with the marks inside clips.
+fn all_marks(scene: &figura::scene::Scene) -> Vec<figura::scene::Mark> {
+    use figura::scene::Mark;
+    let mut out = Vec::new();
+    let mut stack: Vec<&Mark> = scene.marks.iter().collect();
+    while let Some(m) = stack.pop() {
+        match m {
+            Mark::Clip { marks, .. } => stack.extend(marks),
+            other => out.push(other.clone()),
+        }
+    }
+    out
+}
+
+/// Asserts that there are `lines` joining lines, each running left to right through means'
+/// dots (filled circles of the estimates' radius) of its own colour, and that no dot is on two
+/// lines: joined means meet their own dots. Returns the number of dots and of those on a line.
+fn joins_meet_their_dots(scene: &figura::scene::Scene, lines: usize) -> (usize, usize) {
+    use figura::scene::Mark;
+    let marks = all_marks(scene);
+    let dots: Vec<(figura::scene::Point, figura::scene::Colour)> = marks
+        .iter()
+        .filter_map(|m| match m {
+            Mark::Circle {
+                centre,
+                radius,
+                fill: Some(f),
+                stroke: Some(_),
+            } if (*radius - 0.8).abs() < 1e-12 => Some((*centre, f.colour)),
+            _ => None,
+        })
+        .collect();
+    assert!(!dots.is_empty(), "no mean drawn");
+    let at_dot = |p: &figura::scene::Point| {
+        dots.iter()
+            .find(|(c, _)| (c.x - p.x).abs() < 1e-9 && (c.y - p.y).abs() < 1e-9)
+    };
+    let joins: Vec<(&Vec<figura::scene::Point>, figura::scene::Colour)> = marks
+        .iter()
+        .filter_map(|m| match m {
+            Mark::Line { points, stroke } if points.iter().all(|p| at_dot(p).is_some()) => {
+                Some((points, stroke.colour))
+            }
+            _ => None,
+        })
+        .collect();
+    assert_eq!(joins.len(), lines, "one line per colour group");
+    for (points, colour) in &joins {
+        assert!(points.windows(2).all(|w| w[0].x < w[1].x), "in x order");
+        for p in points.iter() {
+            assert_eq!(
+                at_dot(p).unwrap().1,
+                *colour,
+                "a line meets its own group's dots"
+            );
+        }
+    }
+    let mut joined = 0;
+    for (c, _) in &dots {
+        let on = joins
+            .iter()
+            .filter(|(points, _)| points.iter().any(|p| p == c))
+            .count();
+        assert!(on <= 1, "a dot on two lines");
+        joined += on;
+    }
+    (dots.len(), joined)
+}
+
+// ---------------------------------------------------------------------------------------------
+// mean join: the numbers are the means' own; the lines join each colour group's dots.
+
+/// The values of column `value` of a CSV (header first), by the columns `group` and `x`.
+fn samples_by(
+    csv: &str,
+    group: usize,
+    x: usize,
+    value: usize,
+) -> BTreeMap<(String, String), Vec<f64>> {
+    let mut out: BTreeMap<(String, String), Vec<f64>> = BTreeMap::new();
+    for line in csv.lines().skip(1) {
+        let f: Vec<&str> = line.split(',').collect();
+        out.entry((f[group].to_string(), f[x].to_string()))
+            .or_default()
+            .push(f[value].parse().unwrap());
+    }
+    out
+}
+
+/// Every `mean` cell (colour group, x) of `rows` against its sample: n, the mean and the 95%
+/// t interval of `scipy.stats.t.interval`.
+fn means_match_t_intervals(rows: &[[String; 5]], samples: &BTreeMap<(String, String), Vec<f64>>) {
+    let want = reference(
+        "t_means",
+        json!({"samples": samples.values().collect::<Vec<_>>(), "level": 0.95}),
+    );
+    for (i, ((group, x), sample)) in samples.iter().enumerate() {
+        let what = format!("{group} at {x}");
+        assert_eq!(
+            value(rows, "mean", group, x, "n"),
+            sample.len() as f64,
+            "{what}"
+        );
+        rel(
+            value(rows, "mean", group, x, "mean"),
+            num(&want[i]["mean"]),
+            1e-13,
+            &what,
+        );
+        rel(
+            value(rows, "mean", group, x, "ci_low"),
+            num(&want[i]["ci"][0]),
+            1e-12,
+            &what,
+        );
+        rel(
+            value(rows, "mean", group, x, "ci_high"),
+            num(&want[i]["ci"][1]),
+            1e-12,
+            &what,
+        );
+    }
+}
+
+/// Student's sleep data with an ordinal occasion: each patient's extra sleep on drug A and B
+/// at two nights (the second night made here as the first plus 0.1 · patient number), so the
+/// within-subject intervals have two within factors.
+fn sleep_nights() -> String {
+    let mut csv = String::from("patient,drug,night,extra_hours\n");
+    for line in sleep_table().lines().skip(1) {
+        let f: Vec<&str> = line.split(',').collect();
+        let (patient, drug, extra): (&str, &str, f64) = (f[0], f[1], f[2].parse().unwrap());
+        let p: f64 = patient
+            .trim_start_matches(|c: char| !c.is_ascii_digit())
+            .parse()
+            .unwrap();
+        csv.push_str(&format!("{patient},{drug},first,{extra:?}\n"));
+        csv.push_str(&format!("{patient},{drug},second,{:?}\n", extra + 0.1 * p));
+    }
+    csv
+}
+
+#[test]
+fn joined_means_keep_their_numbers_and_meet_their_dots() {
+    let book = r#"data sleep "sleep.csv" {
+  patient: id
+  drug: nominal levels("A", "B")
+  night: ordinal levels("first", "second")
+  extra: interval column("extra_hours") unit("h")
+  subject patient
+  within drug, night
+}
+"#;
+    let csv = sleep_nights();
+    let files = [("sleep.csv", csv.as_str())];
+    for error in ["ci(0.95)", "ci(0.95, within)", "se", "boot(0.95)"] {
+        let figure = |join: &str| {
+            format!("{book}figure f {{ from sleep; x night; y extra; colour drug; points; mean {join}error({error}) }}\n")
+        };
+        // `join` draws a line; it changes no number of the summary.
+        let joined = summary_of(&figure("join "), &files, "f");
+        let plain = summary_of(&figure(""), &files, "f");
+        assert_eq!(joined, plain, "error({error})");
+        let (_, scene) = laid_out(&figure("join "), &files, "f");
+        assert_eq!(joins_meet_their_dots(&scene, 2), (4, 4), "error({error})");
+    }
+    // Each cell's mean and t interval (scipy.stats.t.interval).
+    let rows = summary_of(
+        &format!("{book}figure f {{ from sleep; x night; y extra; colour drug; points; mean join error(ci(0.95)) }}\n"),
+        &files,
+        "f",
+    );
+    means_match_t_intervals(&rows, &samples_by(&csv, 1, 2, 3));
+}
+
+#[test]
+fn a_joined_line_breaks_at_a_level_without_a_mean() {
+    // Made here: three doses, the middle one measured in group "a" only.
+    let csv = "plot,dose,soil,mass\nP1,low,a,3\nP2,low,a,4\nP3,mid,a,5\nP4,high,a,7\nP5,high,a,6\n\
+               P6,low,b,2\nP7,high,b,5\nP8,high,b,6\n";
+    let spec = r#"data plots "plots.csv" {
+  plot: id
+  dose: ordinal levels("low", "mid", "high")
+  soil: nominal levels("a", "b")
+  mass: ratio
+}
+figure f { from plots; x dose; y mass; colour soil; points; mean join }
+"#;
+    let (_, scene) = laid_out(spec, &[("plots.csv", csv)], "f");
+    // Group a: one line through three means; group b has no mean at "mid": no line across it.
+    assert_eq!(joins_meet_their_dots(&scene, 1), (5, 3));
+}
+
+// ---------------------------------------------------------------------------------------------
+// Trajectories over a numeric time, with means per occasion and a smooth on top.
+
+/// Made here: 8 patients in two arms, strength at weeks 0, 2, 6 and 12 (patient 3 misses week
+/// 6), y = 10 + p + week · (0.5 + 0.1 p) + 0.7 sin(3 p + week).
+fn visits_csv() -> String {
+    let mut csv = String::from("patient,arm,week,grip\n");
+    for p in 1..=8 {
+        let arm = if p % 2 == 0 { "home" } else { "clinic" };
+        for week in [0.0, 2.0, 6.0, 12.0] {
+            if p == 3 && week == 6.0 {
+                continue;
+            }
+            let y = 10.0
+                + p as f64
+                + week * (0.5 + 0.1 * p as f64)
+                + 0.7 * (3.0 * p as f64 + week).sin();
+            csv.push_str(&format!("H{p},{arm},{week},{y:?}\n"));
+        }
+    }
+    csv
+}
+
+const VISITS_BOOK: &str = r#"data visits "visits.csv" {
+  patient: id
+  arm: nominal levels("clinic", "home")
+  week: ratio
+  grip: ratio unit("kg")
+  subject patient
+  between arm
+}
+"#;
+
+#[test]
+fn trajectories_follow_each_subject_in_time_order_with_means_per_occasion() {
+    let csv = visits_csv();
+    let spec = format!(
+        "{VISITS_BOOK}figure f {{ from visits; x week; y grip; colour arm; lines by(patient); mean join error(ci(0.95)) }}\n"
+    );
+    let files = [("visits.csv", csv.as_str())];
+    let (data, scene) = laid_out(&spec, &files, "f");
+    // Each patient's path: the patient's rows, in week order (the data themselves).
+    let LayerMarks::Lines(paths) = &data.panels[0].layers[0] else {
+        panic!("lines first")
+    };
+    assert_eq!(paths.len(), 8, "one path per patient");
+    let mut by_patient: BTreeMap<String, Vec<(f64, f64)>> = BTreeMap::new();
+    for line in csv.lines().skip(1) {
+        let f: Vec<&str> = line.split(',').collect();
+        by_patient
+            .entry(f[0].to_string())
+            .or_default()
+            .push((f[2].parse().unwrap(), f[3].parse().unwrap()));
+    }
+    let mut want: Vec<Vec<(f64, f64)>> = by_patient.into_values().collect();
+    let mut got: Vec<Vec<(f64, f64)>> = paths
+        .iter()
+        .map(|p| {
+            p.points
+                .iter()
+                .map(|q| match *q {
+                    PathPoint::Value { x, y } => (x, y),
+                    PathPoint::Slot { .. } => panic!("a numeric x"),
+                })
+                .collect()
+        })
+        .collect();
+    want.sort_by(|a, b| a[0].1.total_cmp(&b[0].1));
+    got.sort_by(|a, b| a[0].1.total_cmp(&b[0].1));
+    assert_eq!(got, want);
+    assert!(
+        got.iter().all(|p| p.windows(2).all(|w| w[0].0 < w[1].0)),
+        "time order"
+    );
+    assert_eq!(joins_meet_their_dots(&scene, 2), (8, 8));
+    let rows = summary_of(&spec, &files, "f");
+    assert_eq!(
+        value(&rows, "lines", "clinic", "", "n"),
+        4.0,
+        "patients drawn"
+    );
+    assert_eq!(
+        value(&rows, "mean", "clinic", "", "n"),
+        15.0,
+        "pairs of the arm"
+    );
+    // The mean at each week of each arm: scipy.stats.t.interval of that week's values.
+    means_match_t_intervals(&rows, &samples_by(&csv, 1, 2, 3));
+}
+
+#[test]
+fn a_subject_twice_at_one_time_is_an_error_unless_trials_collapse_per_time() {
+    // Made here: patient H1 measured twice at week 2 (trials 1 and 2).
+    let csv = "patient,trial,week,grip\nH1,1,0,10\nH1,1,2,12\nH1,2,2,14\nH2,1,0,11\nH2,1,2,15\n";
+    let book = |replicates: &str| {
+        format!(
+            r#"data visits "visits.csv" {{
+  patient: id
+  trial: interval
+  week: ratio
+  grip: ratio
+  subject patient
+  {replicates}
+}}
+figure f {{ from visits; x week; y grip; lines by(patient); mean }}
+"#
+        )
+    };
+    let diags = diagnostics_of(&book(""), &[("visits.csv", csv)]);
+    assert_eq!(diags.len(), 1, "{diags:#?}");
+    assert_eq!(diags[0].0, "F0109");
+    assert!(
+        diags[0].1.contains("\"H1\"") && diags[0].1.contains("week = 2"),
+        "{}",
+        diags[0].1
+    );
+    assert!(diags[0].1.contains("data rows 3 and 4"), "{}", diags[0].1);
+    // With `replicates`, H1's trials at week 2 collapse to their mean, 13, and the trajectory
+    // keeps its two times (not one point per patient).
+    let (data, _) = laid_out(
+        &book("replicates trial collapse(mean)"),
+        &[("visits.csv", csv)],
+        "f",
+    );
+    let LayerMarks::Lines(paths) = &data.panels[0].layers[0] else {
+        panic!("lines first")
+    };
+    assert_eq!(
+        paths[0].points,
+        vec![
+            PathPoint::Value { x: 0.0, y: 10.0 },
+            PathPoint::Value { x: 2.0, y: 13.0 }
+        ]
+    );
+    let rows = summary_of(
+        &book("replicates trial collapse(mean)"),
+        &[("visits.csv", csv)],
+        "f",
+    );
+    assert_eq!(value(&rows, "mean", "", "2", "mean"), 14.0, "(13 + 15) / 2");
+}
+
+#[test]
+fn means_over_times_few_subjects_share_warn_and_point_to_smooth() {
+    // Made here: every patient seen on a day of its own.
+    let mut csv = String::from("patient,day,grip\n");
+    for p in 0..12 {
+        csv.push_str(&format!("H{p},{},{}\n", p * 3 + 1, 10 + p));
+    }
+    let spec = r#"data visits "visits.csv" {
+  patient: id
+  day: ratio
+  grip: ratio
+  subject patient
+}
+figure f { from visits; x day; y grip; points; mean }
+"#;
+    let diags = diagnostics_of(spec, &[("visits.csv", &csv)]);
+    assert_eq!(diags.len(), 1, "{diags:#?}");
+    assert_eq!(diags[0].0, "W0014");
+    assert!(
+        diags[0].1.contains("12 of the 12 x values"),
+        "{}",
+        diags[0].1
+    );
+}
+
+// ---------------------------------------------------------------------------------------------
+// smooth: LOWESS against statsmodels.
+
+/// Made here: a wavy trend with a deterministic wobble and one wild value, at x values that
+/// are all distinct: x = i + 0.37 sin i, y = 10 + 3 sin(x / 6) + 0.8 sin 7.1i, y₁₇ + 9; and
+/// 300 pairs of a second group, x = i / 10 + 0.003 sin i, y = 5 + cos(x) + 0.4 sin 3.3i.
+fn wavy_groups() -> Vec<(&'static str, Vec<(f64, f64)>)> {
+    let a = (0..40)
+        .map(|i| {
+            let i = i as f64;
+            let x = i + 0.37 * i.sin();
+            let wild = if i == 17.0 { 9.0 } else { 0.0 };
+            (
+                x,
+                10.0 + 3.0 * (x / 6.0).sin() + 0.8 * (7.1 * i).sin() + wild,
+            )
+        })
+        .collect();
+    let b = (0..300)
+        .map(|i| {
+            let i = i as f64;
+            let x = i / 10.0 + 0.003 * i.sin();
+            (x, 5.0 + x.cos() + 0.4 * (3.3 * i).sin())
+        })
+        .collect();
+    vec![("a", a), ("b", b)]
+}
+
+fn wavy_csv(groups: &[(&str, Vec<(f64, f64)>)]) -> String {
+    let mut csv = String::from("unit,site,x,y\n");
+    for (site, pairs) in groups {
+        for (i, (x, y)) in pairs.iter().enumerate() {
+            csv.push_str(&format!("{site}{i},{site},{x:?},{y:?}\n"));
+        }
+    }
+    csv
+}
+
+const WAVY_BOOK: &str = r#"data wavy "wavy.csv" {
+  unit: id
+  site: nominal levels("a", "b")
+  x: ratio
+  y: ratio
+}
+"#;
+
+#[test]
+fn smooths_match_statsmodels_lowess_at_every_point_drawn() {
+    let groups = wavy_groups();
+    let csv = wavy_csv(&groups);
+    for (span, option) in [(2.0 / 3.0, String::new()), (0.3, "span(0.3) ".to_string())] {
+        let spec = format!(
+            "{WAVY_BOOK}figure f {{ from wavy; x x; y y; colour site; points; smooth {option}summary(full) }}\n"
+        );
+        let rows = summary_of(&spec, &[("wavy.csv", &csv)], "f");
+        let drawn: Vec<Vec<(f64, f64)>> = groups
+            .iter()
+            .map(|(site, _)| series(&rows, "smooth", site, "fitted"))
+            .collect();
+        let request: Vec<serde_json::Value> = groups
+            .iter()
+            .zip(&drawn)
+            .map(|((_, pairs), line)| {
+                json!({
+                    "x": pairs.iter().map(|p| p.0).collect::<Vec<_>>(),
+                    "y": pairs.iter().map(|p| p.1).collect::<Vec<_>>(),
+                    "frac": span,
+                    "at": line.iter().map(|p| p.0).collect::<Vec<_>>(),
+                })
+            })
+            .collect();
+        let want = reference("lowess", json!(request));
+        for (g, (site, pairs)) in groups.iter().enumerate() {
+            let line = &drawn[g];
+            // Through every distinct x (40), or 256 points across the range (300 > 256), the
+            // first and last at the data's ends.
+            let expected_points = if pairs.len() > 256 { 256 } else { pairs.len() };
+            assert_eq!(line.len(), expected_points, "{site}");
+            assert_eq!(line[0].0, pairs[0].0, "{site} starts at the smallest x");
+            assert_eq!(
+                line[line.len() - 1].0,
+                pairs[pairs.len() - 1].0,
+                "{site} ends at the largest x"
+            );
+            assert_eq!(value(&rows, "smooth", site, "", "n"), pairs.len() as f64);
+            assert_eq!(value(&rows, "smooth", site, "", "n_missing"), 0.0);
+            assert_eq!(value(&rows, "smooth", site, "", "span"), span);
+            assert_eq!(
+                value(&rows, "smooth", site, "", "neighbours"),
+                num(&want[g]["neighbours"]),
+                "{site}: neighbours int(frac n + 1e-10)"
+            );
+            let smooth: Vec<f64> = serde_json::from_value(want[g]["smooth"].clone()).unwrap();
+            for ((x, got), reference) in line.iter().zip(&smooth) {
+                close(
+                    *got,
+                    *reference,
+                    1e-9,
+                    10.0,
+                    &format!("{site} span {span} at {x}"),
+                );
+            }
+        }
+    }
+}
+
+#[test]
+fn a_smooth_on_log_axes_is_the_lowess_of_the_logs() {
+    let groups = wavy_groups();
+    let pairs: Vec<(f64, f64)> = groups[0].1.iter().map(|(x, y)| (x + 1.0, *y)).collect();
+    let csv = wavy_csv(&[("a", pairs.clone())]);
+    let spec = format!(
+        "{WAVY_BOOK}figure f {{ from wavy; x x scale(log); y y scale(log); points; smooth span(0.5) summary(full) }}\n"
+    );
+    let rows = summary_of(&spec, &[("wavy.csv", &csv)], "f");
+    let line = series(&rows, "smooth", "", "fitted");
+    // statsmodels lowess of ln y on ln x, read at ln x and exponentiated.
+    let want = reference(
+        "lowess",
+        json!([{
+            "x": pairs.iter().map(|p| p.0.ln()).collect::<Vec<_>>(),
+            "y": pairs.iter().map(|p| p.1.ln()).collect::<Vec<_>>(),
+            "frac": 0.5,
+            "at": line.iter().map(|p| p.0.ln()).collect::<Vec<_>>(),
+        }]),
+    );
+    let smooth: Vec<f64> = serde_json::from_value(want[0]["smooth"].clone()).unwrap();
+    assert_eq!(line.len(), pairs.len());
+    for ((x, got), reference) in line.iter().zip(&smooth) {
+        rel(*got, reference.exp(), 1e-9, &format!("at {x}"));
+    }
+}
+
+#[test]
+fn a_smooth_of_too_few_pairs_draws_nothing_and_says_why() {
+    // Made here: 6 pairs in group a (too few), 12 in group b (enough).
+    let mut csv = String::from("unit,site,x,y\n");
+    for i in 0..18 {
+        let site = if i < 6 { "a" } else { "b" };
+        csv.push_str(&format!("u{i},{site},{i},{}\n", (i * i) % 7));
+    }
+    let spec =
+        format!("{WAVY_BOOK}figure f {{ from wavy; x x; y y; colour site; points; smooth }}\n");
+    let diags = diagnostics_of(&spec, &[("wavy.csv", &csv)]);
+    assert_eq!(diags.len(), 1, "{diags:#?}");
+    assert_eq!(diags[0].0, "W0015");
+    assert!(
+        diags[0].1.contains("colour group \"a\"")
+            && diags[0].1.contains("6 pairs, fewer than the 10"),
+        "{}",
+        diags[0].1
+    );
+    let (data, _) = laid_out(&spec, &[("wavy.csv", &csv)], "f");
+    let LayerMarks::Smooth(curves) = &data.panels[0].layers[1] else {
+        panic!("smooth second")
+    };
+    assert_eq!(curves.len(), 1, "a curve for group b only");
+    // A span that leaves each local line two pairs: no curve either.
+    let narrow =
+        format!("{WAVY_BOOK}figure f {{ from wavy; x x; y y; points; smooth span(0.1) }}\n");
+    let diags = diagnostics_of(&narrow, &[("wavy.csv", &csv)]);
+    assert!(
+        diags[0].1.contains("leaves each local line 2 pairs"),
+        "{diags:#?}"
+    );
+}
+
+#[test]
+fn a_smooth_of_more_pairs_than_the_limit_is_a_located_error() {
+    let mut csv = String::from("unit,site,x,y\n");
+    for i in 0..5_001 {
+        csv.push_str(&format!("u{i},a,{i},{}\n", i % 13));
+    }
+    let spec = format!("{WAVY_BOOK}figure f {{ from wavy; x x; y y; points; smooth }}\n");
+    let diags = diagnostics_of(&spec, &[("wavy.csv", &csv)]);
+    assert_eq!(diags.len(), 1, "{diags:#?}");
+    assert_eq!(diags[0].0, "F0126");
+    assert!(diags[0].1.contains("5001 pairs"), "{}", diags[0].1);
+}
+
+// ---------------------------------------------------------------------------------------------
+// guide: reference lines and bands from the spec.
+
+#[test]
+fn guides_are_in_the_summary_on_the_axis_and_in_the_key() {
+    let csv = visits_csv();
+    let spec = format!(
+        r#"{VISITS_BOOK}figure f {{
+  from visits
+  x week
+  y grip
+  points
+  guide y(0)
+  guide x(14, 16) label("follow-up")
+  guide y(40) label("normal limit")
+}}
+"#
+    );
+    let files = [("visits.csv", csv.as_str())];
+    let rows = summary_of(&spec, &files, "f");
+    let guides: Vec<(String, f64)> = rows
+        .iter()
+        .filter(|r| r[0] == "guide")
+        .map(|r| (r[3].clone(), r[4].parse().unwrap()))
+        .collect();
+    assert_eq!(
+        guides,
+        [
+            ("y_line".to_string(), 0.0),
+            ("x_band_low".to_string(), 14.0),
+            ("x_band_high".to_string(), 16.0),
+            ("y_line".to_string(), 40.0)
+        ]
+    );
+    let (data, scene) = laid_out(&spec, &files, "f");
+    // The axes reach the guides as they reach the data (grip runs from about 11 to 32).
+    let figura::compute::YScale::Numbers(y) = &data.y else {
+        panic!("a numeric y")
+    };
+    assert_eq!(y.extent, (0.0, 40.0));
+    let figura::compute::XScale::Numbers(x) = &data.x else {
+        panic!("a numeric x")
+    };
+    assert_eq!(x.extent, (0.0, 16.0));
+    // The unlabelled line is named in the key; the labelled ones say what they are on the plot.
+    assert_eq!(data.key, ["Dashed line: y = 0."]);
+    let texts: Vec<String> = scene.text_boxes().into_iter().map(|t| t.text).collect();
+    assert!(
+        texts.contains(&"follow-up".to_string()) && texts.contains(&"normal limit".to_string())
+    );
+}
+
+#[test]
+fn guide_labels_that_cannot_stand_apart_make_the_figure_too_small() {
+    // Three labels wider than half the panel, at lines less than a label's height apart: two
+    // find a place (above and below the lines), the third none.
+    let csv = visits_csv();
+    let spec = format!(
+        r#"{VISITS_BOOK}figure f {{
+  from visits
+  x week
+  y grip
+  points
+  guide y(20) label("a label for a reference line")
+  guide y(20.5) label("another label beside it")
+  guide y(21) label("and a third one here")
+  size 50mm x 45mm
+}}
+"#
+    );
+    let diags = diagnostics_of(&spec, &[("visits.csv", &csv)]);
+    assert_eq!(diags.len(), 1, "{diags:#?}");
+    assert_eq!(diags[0].0, "F0124");
+    assert!(
+        diags[0].1.contains("of a guide has no room"),
+        "{}",
+        diags[0].1
+    );
 }

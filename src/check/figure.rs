@@ -154,6 +154,24 @@ pub fn check_figure(
         );
         return None;
     }
+    let only_guides = parts
+        .layers
+        .iter()
+        .all(|(d, _)| d.shows == Shows::Reference);
+    if let (true, Some((_, guide))) = (only_guides, parts.layers.first()) {
+        diags.push(
+            Diagnostic::new(
+                Code::MissingStatement,
+                format!(
+                    "figure `{}` has guides but no layer that shows the data",
+                    block.name.name
+                ),
+            )
+            .with_label(guide.head.span, "marks a value for the data")
+            .with_help("add a layer such as `points` or `box`: a guide is read against the data"),
+        );
+        return None;
+    }
     let Some(x) = x else {
         if parts.x.is_none() {
             diags.push(

@@ -20,7 +20,8 @@ use std::collections::BTreeMap;
 
 use crate::check::layer::Shows;
 use crate::check::plan::{
-    Axes, AxisScale, CatAxis, CatVar, Codebook, Collapse, FigurePlan, LevelOrder, NumAxis, VarId,
+    Axes, AxisScale, CatAxis, CatVar, Codebook, Collapse, FigurePlan, LayerPlan, LevelOrder,
+    NumAxis, VarId,
 };
 use crate::data::{Codes, Names, Numbers, Table};
 use crate::diag::{Code, Diagnostic, Span};
@@ -358,10 +359,18 @@ impl<'a> Cells<'a> {
         let complete = |own: &Numbers, row: usize| xs.get(row).and(ys.get(row)).and(own.get(row));
         let mut placed_x = sorter.place(|row| complete(xs, row));
         let mut placed_y = sorter.place(|row| complete(ys, row));
-        let trials = self.book.replicates.as_ref().and_then(|rep| {
-            collapse(&mut placed_y, numeric_collapse(rep.collapse));
-            collapse(&mut placed_x, numeric_collapse(rep.collapse))
-        });
+        // Trials collapse into one point per subject and cell, unless a layer follows each
+        // subject over x (then per subject and x value, after pairing).
+        let occasions = self.plan.layers.iter().any(|l| l.traits.x_occasions);
+        let mut trials = self
+            .book
+            .replicates
+            .as_ref()
+            .filter(|_| !occasions)
+            .and_then(|rep| {
+                collapse(&mut placed_y, numeric_collapse(rep.collapse));
+                collapse(&mut placed_x, numeric_collapse(rep.collapse))
+            });
         // Both placements saw the same rows, so their observations pair up one to one.
         let obs = placed_x
             .obs
@@ -377,11 +386,20 @@ impl<'a> Cells<'a> {
                 },
             })
             .collect();
-        let pairs = Placement {
+        let mut pairs = Placement {
             obs,
             missing: placed_x.missing,
             unplaced: placed_x.unplaced,
         };
+        if occasions {
+            trials = match &self.book.replicates {
+                Some(rep) => collapse_at_x(&mut pairs, numeric_collapse(rep.collapse)),
+                None => {
+                    self.check_one_value_per_occasion(&pairs, x)?;
+                    None
+                }
+            };
+        }
         self.check_log(x, pairs.obs.iter().map(|o| (o.row, o.value.x)))?;
         self.check_log(y, pairs.obs.iter().map(|o| (o.row, o.value.y)))?;
         Ok((pairs, trials))
@@ -390,31 +408,70 @@ impl<'a> Cells<'a> {
     /// Rule F0109 in the data: a subject with two values in one cell, under a layer that joins
     /// or compares one value per subject.
     fn check_one_value_per_subject(&self, placed: &Placement<f64>) -> Result<(), ComputeError> {
-        let Some(layer) = self
-            .plan
-            .layers
-            .iter()
-            .find(|l| l.traits.one_value_per_subject)
-        else {
+        let Some(layer) = self.one_value_layer() else {
             return Ok(());
         };
         let Some((subject, cell, first, second)) = repeated_subject(placed) else {
             return Ok(());
         };
-        let mut parts = vec![format!("x = \"{}\"", self.x_levels.names[cell.x])];
+        let x = format!("x = \"{}\"", self.x_levels.names[cell.x]);
+        Err(self.repeated_error(layer, subject, cell, x, (first, second)))
+    }
+
+    /// The first layer that joins or compares one value per subject and cell.
+    fn one_value_layer(&self) -> Option<&LayerPlan> {
+        self.plan
+            .layers
+            .iter()
+            .find(|l| l.traits.one_value_per_subject)
+    }
+
+    /// F0109 for `subject` twice in `cell` (its x described by `x`), at table rows `rows`.
+    fn repeated_error(
+        &self,
+        layer: &LayerPlan,
+        subject: u32,
+        cell: Cell,
+        x: String,
+        rows: (usize, usize),
+    ) -> ComputeError {
+        let mut parts = vec![x];
         if self.plan.colour.is_some() {
             parts.push(format!("colour = \"{}\"", self.groups.names[cell.group]));
         }
         if self.plan.panels.is_some() {
             parts.push(format!("panel = \"{}\"", self.panels.names[cell.panel]));
         }
-        Err(repeated_subject_error(
+        repeated_subject_error(
             &self.subject_name(subject),
             &format!("({})", parts.join(", ")),
-            (self.file_row(first), self.file_row(second)),
+            (self.file_row(rows.0), self.file_row(rows.1)),
             layer.span,
         )
-        .into())
+        .into()
+    }
+
+    /// Rule F0109 in the data over a numeric x: a subject with two values at one x value, under
+    /// a layer that joins one value per subject and x value (a trajectory).
+    fn check_one_value_per_occasion(
+        &self,
+        pairs: &Placement<Pair>,
+        x: &NumAxis,
+    ) -> Result<(), ComputeError> {
+        let Some(layer) = self.one_value_layer() else {
+            return Ok(());
+        };
+        let mut seen: BTreeMap<(Cell, u32, u64), usize> = BTreeMap::new();
+        for o in &pairs.obs {
+            let Some(s) = o.subject else { continue };
+            let Some(first) = seen.insert((o.cell, s, o.value.x.to_bits()), o.row) else {
+                continue;
+            };
+            let var = &self.book.var(x.var.var).name;
+            let at = format!("{var} = {}", super::summary::format_number(o.value.x));
+            return Err(self.repeated_error(layer, s, o.cell, at, (first, o.row)));
+        }
+        Ok(())
     }
 
     /// Rule F0114 in the data: a value at or below zero on a log axis; `values` are (row, value).
@@ -495,6 +552,7 @@ impl<'a> Cells<'a> {
             Shows::Distribution => 1,
             Shows::Values => 2,
             Shows::Counts => 3,
+            Shows::Reference => 4,
         };
         let reports_cells = |i: usize| {
             let stat = n_stat(self.plan.layers[i].decl.shows);
@@ -552,11 +610,45 @@ type Trials = Option<(usize, usize)>;
 /// Collapses repeated trials: one value per subject per cell, `reduce` of its trials' values
 /// (in row order, at least one). Returns the fewest and most trials a collapsed value had.
 fn collapse(placed: &mut Placement<f64>, reduce: fn(&mut [f64]) -> f64) -> Trials {
-    let mut by_key: BTreeMap<(Cell, u32), Vec<Obs<f64>>> = BTreeMap::new();
+    collapse_by(
+        placed,
+        |o| o.subject.map(|s| (o.cell, s)),
+        |trials| {
+            let mut values: Vec<f64> = trials.iter().map(|o| o.value).collect();
+            reduce(&mut values)
+        },
+    )
+}
+
+/// Collapses the trials of each subject at each x value of a numeric x (the occasions of a
+/// trajectory): their y reduced by `reduce`, x kept.
+fn collapse_at_x(pairs: &mut Placement<Pair>, reduce: fn(&mut [f64]) -> f64) -> Trials {
+    collapse_by(
+        pairs,
+        |o| o.subject.map(|s| (o.cell, s, o.value.x.to_bits())),
+        |trials| {
+            let mut ys: Vec<f64> = trials.iter().map(|o| o.value.y).collect();
+            Pair {
+                x: trials[0].value.x,
+                y: reduce(&mut ys),
+            }
+        },
+    )
+}
+
+/// Collapses the observations that share a `key` (those without one, rows without a subject,
+/// stay as they are) into one, `reduce` of them (in row order, at least one), at the row of
+/// the first. Returns the fewest and most observations collapsed into one.
+fn collapse_by<T: Copy, K: Ord>(
+    placed: &mut Placement<T>,
+    key: impl Fn(&Obs<T>) -> Option<K>,
+    reduce: impl Fn(&[Obs<T>]) -> T,
+) -> Trials {
+    let mut by_key: BTreeMap<K, Vec<Obs<T>>> = BTreeMap::new();
     let mut without_subject = Vec::new();
     for o in placed.obs.drain(..) {
-        match o.subject {
-            Some(s) => by_key.entry((o.cell, s)).or_default().push(o),
+        match key(&o) {
+            Some(k) => by_key.entry(k).or_default().push(o),
             None => without_subject.push(o),
         }
     }
@@ -567,14 +659,11 @@ fn collapse(placed: &mut Placement<f64>, reduce: fn(&mut [f64]) -> f64) -> Trial
             None => Some((n, n)),
             Some((lo, hi)) => Some((n.min(lo), n.max(hi))),
         });
-    let mut out: Vec<Obs<f64>> = by_key
+    let mut out: Vec<Obs<T>> = by_key
         .into_values()
-        .map(|trials| {
-            let mut values: Vec<f64> = trials.iter().map(|o| o.value).collect();
-            Obs {
-                value: reduce(&mut values),
-                ..trials[0]
-            }
+        .map(|trials| Obs {
+            value: reduce(&trials),
+            ..trials[0]
         })
         .collect();
     out.extend(without_subject);

@@ -205,6 +205,8 @@ pub fn compute(
         .any(|n| n.windows(2).any(|w| w[0] != w[1]));
     let marks = key::key(&cells, n_source, groups_differ);
     let key = if plan.key { marks.clone() } else { Vec::new() };
+    let mut warnings = many_points(&cells);
+    warnings.append(&mut merged.warnings);
     Ok(FigureData {
         x: x_scale(&cells, &merged),
         y: y_scale(&cells, &merged),
@@ -214,7 +216,7 @@ pub fn compute(
         width_peak: merged.width_peak,
         key,
         marks,
-        warnings: many_points(&cells),
+        warnings,
     })
 }
 
@@ -329,6 +331,8 @@ struct Merged {
     y_hidden: bool,
     width_peak: f64,
     legend: Option<Legend>,
+    /// The layers' warnings, the first of each code and layer only (not one per panel).
+    warnings: Vec<Diagnostic>,
 }
 
 impl Merged {
@@ -345,6 +349,15 @@ impl Merged {
         self.width_peak = self.width_peak.max(out.width_peak);
         if out.legend.is_some() {
             self.legend = out.legend;
+        }
+        for w in out.warnings {
+            if !self
+                .warnings
+                .iter()
+                .any(|seen| seen.code == w.code && seen.span() == w.span())
+            {
+                self.warnings.push(w);
+            }
         }
         out.marks
     }

@@ -95,6 +95,8 @@ code_table! {
     WithinNeverRepeated = "F0122", Error, "A `within` factor at which no subject was measured at two levels (found in the data).";
     BeyondDoubleRange = "F0123", Error, "A statistic of the data beyond the range of double-precision numbers (found in the data).";
     FigureCrowded = "F0124", Error, "The figure's content does not fit its size: text would overlap, shrink below 6 pt or leave the page (found when it is laid out).";
+    JoinWithoutOrder = "F0125", Error, "`mean join` across an x whose levels have no order: a nominal x that is not a within factor with declared levels, or an x reordered by `order(...)`.";
+    SmoothTooLarge = "F0126", Error, "`smooth` of more pairs in one panel and colour group than LOWESS is computed for (found in the data).";
 
     // Form of statements and files.
     UnknownStatement = "F0201", Error, "A statement word that does not exist in this kind of block.";
@@ -132,6 +134,8 @@ code_table! {
     TooWide = "W0011", Warning, "A figure wider than the journal's widest column (`[journal] widths`).";
     ColoursTooClose = "W0012", Warning, "Two colours of a variable's levels that readers with a colour-vision deficiency may not tell apart.";
     ColoursAlikeInGrey = "W0013", Warning, "A figure's group colours look alike in greyscale, and no shapes or dashes tell the groups apart.";
+    MeansAtScatteredX = "W0014", Warning, "`mean` over a numeric x whose values the data do not share: most means are of a single value (found in the data).";
+    SmoothTooFewPairs = "W0015", Warning, "`smooth` of a colour group with too few pairs for local lines: no curve is drawn for it (found in the data).";
 
     // Data files.
     Unreadable = "D0001", Error, "The data file is missing, a folder, or cannot be read.";

@@ -48,13 +48,17 @@ impl Swatch {
 
     /// The swatch of the kind of mark a panel's first layer draws in group colours.
     fn for_panel(panel: Option<&PanelData>) -> Swatch {
-        match panel.and_then(|p| p.layers.first()) {
+        // Guides are not drawn in group colours.
+        let first =
+            panel.and_then(|p| p.layers.iter().find(|l| !matches!(l, LayerMarks::Guide(_))));
+        match first {
             Some(LayerMarks::Points(_)) => Swatch::Dot,
             Some(
                 LayerMarks::Lines(_)
                 | LayerMarks::Density(_)
                 | LayerMarks::Ecdf(_)
                 | LayerMarks::Fit(_)
+                | LayerMarks::Smooth(_)
                 | LayerMarks::Histogram(_),
             ) => Swatch::Line,
             _ => Swatch::Square,

@@ -26,6 +26,11 @@ pub fn free_corner(panel: Rect, size: (f64, f64), marks: &[Mark]) -> Option<Rect
         .find(|r| marks.iter().all(|m| !blocks(m, &r.grown(pad))))
 }
 
+/// How many of `marks` reach into `r` (0: it is clear).
+pub fn blockers(r: &Rect, marks: &[Mark]) -> usize {
+    marks.iter().filter(|m| blocks(m, r)).count()
+}
+
 /// Whether a mark reaches into `r`.
 fn blocks(mark: &Mark, r: &Rect) -> bool {
     match mark {

@@ -568,6 +568,10 @@ impl Content<'_> {
         let y = self.y_axis(panel_h, &mut y_problems);
         if !too_short {
             problems.extend(y_problems);
+            let rect = Rect::new(0.0, 0.0, panel_w, panel_h);
+            if let Some(p) = super::layer::guide::label_problem(data, rect, &x, &y) {
+                problems.push(problem(Needs::Width, p));
+            }
         }
         let grid = Grid {
             cols,

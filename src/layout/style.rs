@@ -172,6 +172,16 @@ pub const GROUP_DASHES_MM: [&[f64]; 8] = [
 /// A legend's line swatch is this many swatch sides long when its groups are dashed, so the
 /// pattern shows.
 pub const DASHED_SWATCH_SIDES: f64 = 3.0;
+/// Means over a numeric x: the distance between neighbouring colour groups' means at one x,
+/// so their intervals do not hide each other.
+pub const MEAN_DODGE_MM: f64 = 1.2;
+/// Reference lines (`guide`): grey, dashed, behind the data; bands a faint tint of ink; their
+/// labels keep this far from the line and from the panel's edges.
+pub const GUIDE_INK: Colour = Colour::from_hex(0x808080);
+pub const GUIDE_LINE_MM: f64 = 0.3;
+pub const GUIDE_DASH_MM: [f64; 2] = [1.4, 0.9];
+pub const GUIDE_BAND_OPACITY: f64 = 0.08;
+pub const GUIDE_LABEL_GAP_MM: f64 = 0.6;
 /// Legend: a swatch's side as a share of the line height; the clear space kept between a
 /// legend placed inside a panel and the data.
 pub const SWATCH_SHARE: f64 = 0.75;
@@ -240,6 +250,11 @@ pub fn caption() -> TextStyle {
     text(7.0, Weight::Regular, MUTED)
 }
 
+/// A reference line's label (`guide ... label("...")`), inside the panel.
+pub fn guide_label() -> TextStyle {
+    text(6.5, Weight::Regular, MUTED)
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -258,6 +273,7 @@ mod tests {
             legend_label(),
             key_text(),
             caption(),
+            guide_label(),
         ] {
             assert!(style.size_pt >= MIN_TEXT_PT, "{style:?}");
         }

@@ -17,6 +17,10 @@ sides read and write exactly):
   reference.py reflected  the density reflected at zero, sum of scipy.stats.norm.pdf((x - v)/h)
                           + norm.pdf((x + v)/h) over n h for x >= 0 (Silverman 1986 §2.10
                           restated)
+  reference.py lowess     statsmodels.nonparametric.lowess(y, x, frac, it=3, delta=0): the smooth
+                          at its sorted x, read at the points asked for with numpy.interp (exact
+                          at the data's x); and the neighbours per local line, int(frac n + 1e-10)
+  reference.py t_means    numpy mean, sd (ddof 1) and se, and scipy.stats.t.interval of each sample
 """
 
 import json
@@ -145,6 +149,37 @@ def mode_reflected(request):
     return np.where(x >= 0, d / (n * h), 0.0).tolist()
 
 
+def mode_lowess(request):
+    from statsmodels.nonparametric.smoothers_lowess import lowess
+
+    out = []
+    for group in request:
+        x = np.array(group["x"], dtype=float)
+        y = np.array(group["y"], dtype=float)
+        fit = lowess(y, x, frac=group["frac"], it=3, delta=0.0, return_sorted=True)
+        at = np.array(group["at"], dtype=float)
+        out.append(
+            {
+                "smooth": np.interp(at, fit[:, 0], fit[:, 1]).tolist(),
+                "neighbours": max(2, min(len(x), int(group["frac"] * len(x) + 1e-10))),
+            }
+        )
+    return out
+
+
+def mode_t_means(request):
+    level = request["level"]
+    out = []
+    for sample in request["samples"]:
+        v = np.array(sample, dtype=float)
+        n = len(v)
+        sd = float(np.std(v, ddof=1))
+        se = sd / np.sqrt(n)
+        low, high = stats.t.interval(level, n - 1, loc=float(v.mean()), scale=se)
+        out.append({"mean": float(v.mean()), "sd": sd, "se": se, "ci": [float(low), float(high)]})
+    return out
+
+
 MODES = {
     "ecdf": mode_ecdf,
     "ols": mode_ols,
@@ -153,6 +188,8 @@ MODES = {
     "median_ci": mode_median_ci,
     "bca": mode_bca,
     "reflected": mode_reflected,
+    "lowess": mode_lowess,
+    "t_means": mode_t_means,
 }
 
 if __name__ == "__main__":

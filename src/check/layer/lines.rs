@@ -1,4 +1,5 @@
-//! `lines by(SUBJECT)`: each subject's values joined across the levels of x.
+//! `lines by(SUBJECT)`: each subject's values joined across the levels of x, or over a numeric
+//! x (a time) in time order: each subject's trajectory.
 
 use crate::diag::{Code, Diagnostic};
 
@@ -10,9 +11,9 @@ use super::{
 
 pub static DECL: LayerDecl = LayerDecl {
     word: "lines",
-    draws: "each subject's values joined across the levels of x",
+    draws: "each subject's values joined across the levels of x, or in order of a numeric x (each subject's trajectory over time)",
     options: &[OptionDecl::call("by", "by(SUBJECT)")],
-    x: XNeed::Categories,
+    x: XNeed::Either,
     y: YNeed::Numbers {
         refusal: Refusal::Numbers,
     },
@@ -32,7 +33,8 @@ pub struct LinesOpts {
 fn read(input: &ReadInput, diags: &mut Vec<Diagnostic>) -> Option<(Layer, Traits)> {
     let book = input.book;
     let (by, _) = options::by_subject(&DECL, book, input.opts, &input.stmt.head, diags)?;
-    if let Some(axes) = input.axes {
+    let numeric_x = input.axes.is_some_and(|a| a.x.scale.is_numeric());
+    if let Some(axes) = input.axes.filter(|_| !numeric_x) {
         let x = axes.x;
         let xvar = book.var(x.var);
         if book.is_between(x.var) {
@@ -54,6 +56,7 @@ fn read(input: &ReadInput, diags: &mut Vec<Diagnostic>) -> Option<(Layer, Traits
     }
     let traits = Traits {
         one_value_per_subject: true,
+        x_occasions: numeric_x,
         ..Traits::default()
     };
     Some((Layer::Lines(LinesOpts { by }), traits))
@@ -63,6 +66,6 @@ fn read(input: &ReadInput, diags: &mut Vec<Diagnostic>) -> Option<(Layer, Traits
 pub fn key(_opts: &LinesOpts, ctx: &KeyContext) -> Option<MarkKey> {
     Some(MarkKey::new(
         "Thin lines",
-        format!("join each {}'s values", ctx.subject()),
+        format!("each {}'s values, joined", ctx.subject()),
     ))
 }

@@ -21,6 +21,7 @@ mod density;
 mod ecdf;
 mod fit;
 mod flows;
+mod guide;
 mod histogram;
 pub mod key;
 mod lines;
@@ -29,6 +30,7 @@ mod median;
 pub(super) mod options;
 mod points;
 pub(super) mod shape;
+mod smooth;
 mod violin;
 
 use crate::diag::{Diagnostic, Span};
@@ -44,12 +46,14 @@ pub use density::DensityOpts;
 pub use ecdf::EcdfOpts;
 pub use fit::FitOpts;
 pub use flows::FlowsOpts;
+pub use guide::{GuideAxis, GuideOpts};
 pub use histogram::HistogramOpts;
 pub use key::{KeyContext, MarkKey};
 pub use lines::LinesOpts;
 pub use mean::MeanOpts;
 pub use median::MedianOpts;
 pub use points::PointsOpts;
+pub use smooth::{span_text, SmoothOpts};
 pub use violin::ViolinOpts;
 
 /// Every layer, in the order of the language reference.
@@ -65,7 +69,9 @@ pub static LAYERS: &[&LayerDecl] = &[
     &density::DECL,
     &ecdf::DECL,
     &fit::DECL,
+    &smooth::DECL,
     &flows::DECL,
+    &guide::DECL,
 ];
 
 /// The declaration of the layer named `word`.
@@ -87,7 +93,9 @@ pub enum Layer {
     Density(DensityOpts),
     Ecdf(EcdfOpts),
     Fit(FitOpts),
+    Smooth(SmoothOpts),
     Flows(FlowsOpts),
+    Guide(GuideOpts),
 }
 
 impl Layer {
@@ -106,7 +114,9 @@ impl Layer {
             Layer::Density(o) => density::key(o, ctx),
             Layer::Ecdf(o) => ecdf::key(o, ctx),
             Layer::Fit(o) => fit::key(o, ctx),
+            Layer::Smooth(o) => smooth::key(o, ctx),
             Layer::Flows(o) => flows::key(o, ctx),
+            Layer::Guide(o) => guide::key(o, ctx),
         }
     }
 }
@@ -140,6 +150,9 @@ pub struct Traits {
     /// The layer follows each subject's own rows, so repeated trials are never collapsed for it
     /// (`flows`: one state per subject and occasion, whatever the data block says).
     pub keeps_trials: bool,
+    /// The layer reads a numeric x as occasions of each subject (trajectories, means per x
+    /// value): repeated trials collapse per subject and x value, not into one point per subject.
+    pub x_occasions: bool,
 }
 
 /// What a layer needs on x.
@@ -161,6 +174,8 @@ pub enum YNeed {
     NumbersOrOrdinal { refusal: Refusal },
     /// A nominal or ordinal y.
     Categories,
+    /// Any figure: the layer draws in the units of whatever axes it has (guides).
+    Any,
 }
 
 /// Which rule a layer that summarises numbers breaks when given categories.
@@ -185,6 +200,8 @@ pub enum Shows {
     Estimate,
     /// Counts of rows.
     Counts,
+    /// Nothing of the data: a reference from the spec (guides).
+    Reference,
 }
 
 /// One option of a layer: `name(args)` or a bare flag word.
@@ -270,6 +287,7 @@ impl LayerDecl {
             YNeed::Numbers { .. } => scale.is_numeric(),
             YNeed::NumbersOrOrdinal { .. } => scale.is_numeric() || scale == Scale::Ordinal,
             YNeed::Categories => scale.is_categorical(),
+            YNeed::Any => true,
         }
     }
 }
@@ -326,6 +344,7 @@ pub fn reference_table() -> String {
             YNeed::Numbers { .. } => "interval, ratio",
             YNeed::NumbersOrOrdinal { .. } => "interval, ratio, ordinal",
             YNeed::Categories => "nominal, ordinal",
+            YNeed::Any => "any or none",
         };
         let options = if d.options.is_empty() {
             "—".to_string()

@@ -22,7 +22,7 @@ pub fn fits(
 ) -> bool {
     let problem = match (decl.y, y) {
         (YNeed::None { what }, Some(y)) => Some(y_not_used(decl, head, y, what)),
-        (YNeed::None { .. }, None) => x_problem(decl, head, book, x, false),
+        (YNeed::None { .. } | YNeed::Any, None) => x_problem(decl, head, book, x, false),
         (_, None) => Some(y_missing(decl, head)),
         (_, Some(y)) if !decl.takes_y(y.scale) => Some(y_problem(decl, head, book, y)),
         (_, Some(_)) => x_problem(decl, head, book, x, true),
@@ -70,7 +70,7 @@ fn y_problem(decl: &LayerDecl, head: Span, book: &Codebook, y: &AxisVar) -> Diag
             .with_label(y.name_span, format!("y is {scale}"))
             .with_help("put the nominal or ordinal state on y");
         }
-        YNeed::None { .. } => Refusal::Numbers,
+        YNeed::None { .. } | YNeed::Any => Refusal::Numbers,
     };
     match (refusal, y.scale) {
         (Refusal::Mean, Scale::Nominal | Scale::Ordinal) => Diagnostic::new(

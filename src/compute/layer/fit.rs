@@ -30,7 +30,7 @@ use super::super::cells::{Pair, Placement};
 use super::super::extent::Extent;
 use super::super::summary::{format_number, RowKey, SummaryRow};
 use super::super::ComputeError;
-use super::{n_rows, At, LayerMarks, LayerOutput, Stat};
+use super::{At, LayerMarks, LayerOutput, Stat};
 
 /// Points at which a fitted line and its band are sampled across the data's x range.
 pub const FIT_GRID: usize = 64;
@@ -115,13 +115,7 @@ pub fn compute(
     let mut fits = Vec::new();
     let (mut x, mut y) = (Extent::default(), Extent::default());
     for g in 0..at.cells.groups.len() {
-        let here: Vec<Pair> = pairs
-            .in_panel(at.panel)
-            .filter(|o| o.cell.group == g)
-            .map(|o| o.value)
-            .collect();
-        let k = at.key(g, "");
-        n_rows(&mut rows, &k, here.len(), pairs.n_missing(at.cell(0, g)));
+        let (here, k) = at.group_pairs(pairs, g, &mut rows);
         let Some(fit) = fit_group(&here, opts, model, g, &k, &mut rows) else {
             continue;
         };

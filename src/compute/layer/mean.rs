@@ -7,20 +7,49 @@
 //! `gm × f`), and `sd` and `se` are reported as multiplicative factors `exp(sd of ln y)` and
 //! `exp(se of ln y)`.
 //!
+//! Over a numeric x the means are taken at each distinct x value of a panel and colour group:
+//! the occasions the data share (weeks 0, 4, 12 of a follow-up). When most x values of a group
+//! hold a single value, the x values are not shared occasions and most "means" are single
+//! values: the figure warns (W0014) and points to `smooth`.
+//!
+//! `join` changes no number: the line joins the means drawn.
+//!
 //! Summary rows per cell: `n`, `n_missing`, and when the mean exists `mean` (or
 //! `geometric_mean`) and the error bar's rows (`sd`, `se`, `geometric_sd`, `geometric_se`, or
-//! `ci_low` and `ci_high`).
+//! `ci_low` and `ci_high`). Over a numeric x: `n` and `n_missing` per colour group (`x`
+//! empty), then per x value `n`, the mean and its error bar's rows.
 
 use std::collections::BTreeMap;
 
 use crate::check::layer::MeanOpts;
 use crate::check::plan::ErrorBar;
+use crate::diag::{Code, Diagnostic, Span};
 use crate::stats::{self, BootstrapStatistic, Spread};
 
-use super::super::cells::{Cell, Values};
+use super::super::cells::{Cell, Pair, Placed, Placement, Values};
 use super::super::extent::Extent;
+use super::super::summary::{format_number, RowKey, SummaryRow};
 use super::super::ComputeError;
 use super::{boot_interval, At, Bar, Estimate, LayerMarks, LayerOutput, Stat};
+
+/// What a `mean` layer draws in one panel.
+#[derive(Debug, Clone, PartialEq)]
+pub struct MeanMarks {
+    /// Bars from zero under the means (`bar`).
+    pub bars: Option<Vec<Bar>>,
+    pub estimates: MeanEstimates,
+    /// Arithmetic or geometric (on a log axis), so the figure can say which.
+    pub kind: MeanKind,
+    /// Each colour group's means joined in x order (`join`).
+    pub join: bool,
+}
+
+/// The means: per x slot and colour group, or per value of a numeric x and colour group.
+#[derive(Debug, Clone, PartialEq)]
+pub enum MeanEstimates {
+    Slots(Vec<Estimate>),
+    Values(Vec<Estimate<f64>>),
+}
 
 /// What a `mean` layer shows in one cell.
 #[derive(Debug, Clone, Default)]
@@ -68,12 +97,21 @@ impl MeanKind {
     }
 }
 
-pub fn compute(opts: &MeanOpts, at: &At, values: &Values) -> Result<LayerOutput, ComputeError> {
+pub fn compute(opts: &MeanOpts, at: &At, head: Span) -> Result<LayerOutput, ComputeError> {
     let kind = if at.y_is_log() {
         MeanKind::Geometric
     } else {
         MeanKind::Arithmetic
     };
+    match &at.cells.placed {
+        Placed::Values(values) => Ok(over_slots(opts, at, values, kind)),
+        Placed::Pairs(pairs) => Ok(over_values(opts, at, pairs, kind, head)),
+        Placed::Rows(_) | Placed::Levels(_) => Err(at.misplaced("numbers")),
+    }
+}
+
+/// The means of the cells of a categorical x.
+fn over_slots(opts: &MeanOpts, at: &At, values: &Values, kind: MeanKind) -> LayerOutput {
     let within = match opts.error {
         Some(ErrorBar::CiWithin { level }) => Some(within_cells(at, values, level, kind)),
         _ => None,
@@ -85,15 +123,18 @@ pub fn compute(opts: &MeanOpts, at: &At, values: &Values) -> Result<LayerOutput,
         let k = at.cell_key(cell);
         let m = match &within {
             Some(w) => w.get(&cell).cloned().unwrap_or_default(),
-            None => mean_cell(values, cell, opts.error, kind),
+            None => mean_of(
+                values.sorted(cell),
+                values.placed.n_missing(cell),
+                opts.error,
+                kind,
+            ),
         };
         rows.push(k.count(Stat::N, m.n));
         rows.push(k.count(Stat::NMissing, m.n_missing));
-        let Some(mean) = m.mean else {
+        let Some(mean) = mean_rows(&m, kind, &k, &mut rows) else {
             continue;
         };
-        rows.push(k.number(kind.stat(), mean));
-        rows.extend(m.error_rows.iter().map(|(stat, v)| k.number(*stat, *v)));
         bars.push(Bar {
             x: cell.x,
             group: cell.group,
@@ -106,35 +147,113 @@ pub fn compute(opts: &MeanOpts, at: &At, values: &Values) -> Result<LayerOutput,
             interval: m.interval,
         });
     }
-    let mut y = Extent::default();
+    let mut y = extent_of(&estimates);
     if opts.bar {
         y.add(0.0);
     }
-    for e in &estimates {
+    let marks = LayerMarks::Mean(MeanMarks {
+        bars: opts.bar.then_some(bars),
+        estimates: MeanEstimates::Slots(estimates),
+        kind,
+        join: opts.join,
+    });
+    LayerOutput {
+        y,
+        y_from_zero: opts.bar,
+        ..LayerOutput::new(marks, rows)
+    }
+}
+
+/// The means at each distinct value of a numeric x, per colour group.
+fn over_values(
+    opts: &MeanOpts,
+    at: &At,
+    pairs: &Placement<Pair>,
+    kind: MeanKind,
+    head: Span,
+) -> LayerOutput {
+    let mut rows = Vec::new();
+    let mut estimates = Vec::new();
+    let mut warnings = Vec::new();
+    for group in 0..at.cells.groups.len() {
+        let (mut here, k) = at.group_pairs(pairs, group, &mut rows);
+        here.sort_by(|a, b| a.x.total_cmp(&b.x).then(a.y.total_cmp(&b.y)));
+        let occasions: Vec<&[Pair]> = here.chunk_by(|a, b| a.x == b.x).collect();
+        let single = occasions.iter().filter(|o| o.len() == 1).count();
+        if warnings.is_empty() && 2 * single > occasions.len() {
+            warnings.push(scattered_x(head, single, occasions.len()));
+        }
+        for occasion in occasions {
+            let x = occasion[0].x;
+            let ys: Vec<f64> = occasion.iter().map(|p| p.y).collect();
+            let m = mean_of(&ys, 0, opts.error, kind);
+            let k = k.at(format_number(x));
+            rows.push(k.count(Stat::N, m.n));
+            let Some(e) = mean_rows(&m, kind, &k, &mut rows) else {
+                continue;
+            };
+            estimates.push(Estimate {
+                x,
+                group,
+                centre: e,
+                interval: m.interval,
+            });
+        }
+    }
+    let y = extent_of(&estimates);
+    let mut x = Extent::default();
+    estimates.iter().for_each(|e| x.add(e.x));
+    let marks = LayerMarks::Mean(MeanMarks {
+        bars: None,
+        estimates: MeanEstimates::Values(estimates),
+        kind,
+        join: opts.join,
+    });
+    LayerOutput {
+        x,
+        y,
+        warnings,
+        ..LayerOutput::new(marks, rows)
+    }
+}
+
+/// The extent on y of means with their intervals.
+fn extent_of<X>(estimates: &[Estimate<X>]) -> Extent {
+    let mut y = Extent::default();
+    for e in estimates {
         y.add(e.centre);
         if let Some((lo, hi)) = e.interval {
             y.add(lo);
             y.add(hi);
         }
     }
-    let marks = LayerMarks::Mean {
-        bars: opts.bar.then_some(bars),
-        estimates,
-        kind,
-    };
-    Ok(LayerOutput {
-        y,
-        y_from_zero: opts.bar,
-        ..LayerOutput::new(marks, rows)
-    })
+    y
 }
 
-/// The mean of every value in a cell, with an error bar that needs no other cell.
-fn mean_cell(values: &Values, cell: Cell, error: Option<ErrorBar>, kind: MeanKind) -> MeanCell {
-    let sorted = values.sorted(cell);
+/// The rows of a mean and its error bar, when there is a mean; the mean.
+fn mean_rows(m: &MeanCell, kind: MeanKind, k: &RowKey, rows: &mut Vec<SummaryRow>) -> Option<f64> {
+    let mean = m.mean?;
+    rows.push(k.number(kind.stat(), mean));
+    rows.extend(m.error_rows.iter().map(|(stat, v)| k.number(*stat, *v)));
+    Some(mean)
+}
+
+/// W0014: most x values of a group hold one value, so the means are mostly single values.
+fn scattered_x(head: Span, single: usize, distinct: usize) -> Diagnostic {
+    Diagnostic::new(
+        Code::MeansAtScatteredX,
+        format!("`mean` over a numeric x: {single} of the {distinct} x values of a colour group hold a single value, so most means are single values"),
+    )
+    .with_label(head, "a mean at each x value")
+    .with_help("a mean per x value suits occasions the data share (week 0, 4, 12); for times that differ between subjects, show the trend with `smooth`")
+}
+
+/// The mean of a cell's sorted values (with `n_missing` missing), with an error bar that needs
+/// no other cell.
+fn mean_of(sorted: &[f64], n_missing: usize, error: Option<ErrorBar>, kind: MeanKind) -> MeanCell {
     let mut out = MeanCell {
         n: sorted.len(),
-        n_missing: values.placed.n_missing(cell),
+        n_missing,
         ..MeanCell::default()
     };
     out.mean = match kind {

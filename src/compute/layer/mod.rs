@@ -11,11 +11,13 @@ mod density;
 mod ecdf;
 mod fit;
 mod flows;
+mod guide;
 mod histogram;
 mod lines;
 mod mean;
 mod median;
 mod points;
+mod smooth;
 mod violin;
 
 use crate::check::plan::{Axes, AxisScale, BootMethod, Layer, LayerPlan};
@@ -29,11 +31,13 @@ use super::{ComputeError, Legend};
 pub use boxplot::BoxMark;
 pub use fit::{FitMark, FitModel};
 pub use flows::FlowMarks;
+pub use guide::GuideMark;
 pub use histogram::Bin;
-pub use lines::SubjectPath;
-pub use mean::MeanKind;
+pub use lines::{PathPoint, SubjectPath};
+pub use mean::{MeanEstimates, MeanKind, MeanMarks};
 pub use median::LevelMark;
 pub use points::{CatPoint, PointMarks};
+pub use smooth::SmoothMark;
 pub use violin::{ViolinMark, VIOLIN_GRID};
 
 pub use density::Curve;
@@ -46,13 +50,7 @@ pub enum LayerMarks {
     Points(PointMarks),
     Box(Vec<BoxMark>),
     Violin(Vec<ViolinMark>),
-    /// Means, with the bars under them when drawn as bars from zero; `kind` says whether they
-    /// are arithmetic or geometric means (on a log axis), so the figure can say which.
-    Mean {
-        bars: Option<Vec<Bar>>,
-        estimates: Vec<Estimate>,
-        kind: MeanKind,
-    },
+    Mean(MeanMarks),
     Median(MedianMarks),
     Lines(Vec<SubjectPath>),
     Counts(CountMarks),
@@ -60,7 +58,9 @@ pub enum LayerMarks {
     Density(Vec<Curve>),
     Ecdf(Vec<EcdfMark>),
     Fit(Vec<FitMark>),
+    Smooth(Vec<SmoothMark>),
     Flows(FlowMarks),
+    Guide(GuideMark),
 }
 
 /// A bar on a categorical axis (counts, or a mean drawn as a bar).
@@ -79,10 +79,11 @@ pub struct CountMarks {
     pub intervals: Vec<Estimate>,
 }
 
-/// A central value with an optional interval.
+/// A central value with an optional interval, at an x slot (or, `Estimate<f64>`, at a value of
+/// a numeric x).
 #[derive(Debug, Clone, Copy, PartialEq)]
-pub struct Estimate {
-    pub x: usize,
+pub struct Estimate<X = usize> {
+    pub x: X,
     pub group: usize,
     pub centre: f64,
     pub interval: Option<(f64, f64)>,
@@ -122,6 +123,8 @@ pub struct LayerOutput {
     pub width_peak: f64,
     /// A legend the layer brings (flows: its states), in place of the colour legend.
     pub legend: Option<Legend>,
+    /// Warnings found in the data (a smooth of too few pairs).
+    pub warnings: Vec<crate::diag::Diagnostic>,
 }
 
 impl LayerOutput {
@@ -135,6 +138,7 @@ impl LayerOutput {
             y_use: YUse::Data,
             width_peak: 0.0,
             legend: None,
+            warnings: Vec::new(),
         }
     }
 }
@@ -154,15 +158,17 @@ pub fn compute(
         Layer::Points(o) => points::compute(o, &at),
         Layer::Box(o) => boxplot::compute(o, &at, at.values()?),
         Layer::Violin(o) => violin::compute(o, &at, at.values()?),
-        Layer::Mean(o) => mean::compute(o, &at, at.values()?),
+        Layer::Mean(o) => mean::compute(o, &at, layer.head),
         Layer::Median(o) => median::compute(o, &at),
-        Layer::Lines(o) => lines::compute(o, &at, at.values()?),
+        Layer::Lines(o) => lines::compute(o, &at),
         Layer::Counts(o) => counts::compute(o, &at, at.rows()?),
         Layer::Histogram(o) => histogram::compute(o, &at, at.values()?),
         Layer::Density(o) => density::compute(o, &at, at.values()?),
         Layer::Ecdf(o) => ecdf::compute(o, &at, at.values()?),
         Layer::Fit(o) => fit::compute(o, &at, at.pairs()?),
+        Layer::Smooth(o) => smooth::compute(o, &at, at.pairs()?, layer.head),
         Layer::Flows(o) => flows::compute(o, &at, layer.span),
+        Layer::Guide(o) => Ok(guide::compute(o, &at)),
     }
 }
 
@@ -229,6 +235,24 @@ impl At<'_, '_> {
             n_rows(rows, &key, sorted.len(), values.placed.n_missing(cell));
             f(group, sorted, &key, rows);
         }
+    }
+
+    /// The pairs of colour group `group` in this panel (a numeric x), after pushing the group's
+    /// `n` and `n_missing` rows; with the group's key (`x` empty).
+    fn group_pairs(
+        &self,
+        pairs: &Placement<super::cells::Pair>,
+        group: usize,
+        rows: &mut Vec<SummaryRow>,
+    ) -> (Vec<super::cells::Pair>, RowKey) {
+        let here: Vec<super::cells::Pair> = pairs
+            .in_panel(self.panel)
+            .filter(|o| o.cell.group == group)
+            .map(|o| o.value)
+            .collect();
+        let key = self.key(group, "");
+        n_rows(rows, &key, here.len(), pairs.n_missing(self.cell(0, group)));
+        (here, key)
     }
 
     /// Whether the figure's y axis is logarithmic.
@@ -342,8 +366,8 @@ macro_rules! stat_table {
 }
 
 stat_table! {
-    N = "n", "Number of values used: per cell; per colour group (`x` empty) for `counts`, `histogram`, `density`, `ecdf`, scatter `points` and `fit`; for `lines`, the subjects drawn per group; for `flows`, subjects in the panel and at each occasion.";
-    NMissing = "n_missing", "Kept rows not shown because a needed value is missing (under `ci(L, within)`, also the cell's values of subjects missing another within cell); with every `n` except that of `lines`.";
+    N = "n", "Number of values used: per cell; per colour group (`x` empty) for `counts`, `histogram`, `density`, `ecdf`, scatter `points`, `fit`, `smooth` and `mean` over a numeric x (which also gives one per x value); for `lines`, the subjects drawn per group; for `flows`, subjects in the panel and at each occasion.";
+    NMissing = "n_missing", "Kept rows not shown because a needed value is missing (under `ci(L, within)`, also the cell's values of subjects missing another within cell); with every `n` except that of `lines` and the per-x-value `n` of `mean` over a numeric x (its group's row counts them).";
     Count = "count", "Rows in a level or bin (`counts`, `histogram`); for `flows`, subjects in a state, or moving between two states of consecutive occasions (zeros included).";
     Percent = "percent", "`100 · count / n` of the panel and colour group: `counts` and `histogram` with `heights(percent)` (no row for a group with no rows).";
     Density = "density", "`count / (n · width)`: `histogram` with `heights(density)`; the kernel density at `x`: `density` and `violin` with `summary(full)`, one row per point drawn.";
@@ -360,7 +384,9 @@ stat_table! {
     R = "r", "Pearson's correlation of x and y (of their logs on log axes; only when y varies): `fit`.";
     RSquared = "r_squared", "`r²`, the share of the variance of y the line explains (only when y varies): `fit`.";
     ResidualSd = "residual_sd", "Residual standard deviation `s = √(RSS / (n − 2))`: `fit` with three pairs or more.";
-    Fitted = "fitted", "The fitted line at `x`, one row per point drawn (back on the axis's scale): `fit summary(full)`.";
+    Fitted = "fitted", "The fitted line or smooth at `x`, one row per point drawn (back on the axis's scale): `fit summary(full)`, `smooth summary(full)`.";
+    Span = "span", "The share of the pairs each local line uses, as `span(F)` gives it: `smooth`.";
+    Neighbours = "neighbours", "The number of pairs each local line uses, `⌊span · n⌋` (at least 2): `smooth`.";
     BandLow = "band_low", "Lower edge of the band at `x`, one row per point drawn: `fit band(L) summary(full)`.";
     BandHigh = "band_high", "Upper edge of the band at `x`, as `band_low`.";
     Mean = "mean", "The mean: `mean` on a linear axis.";
@@ -383,6 +409,12 @@ stat_table! {
     NOutliers = "n_outliers", "The number of outliers, in place of the `outliers` rows when a box has more than 30 (its extremes are `min` and `max`).";
     Min = "min", "Smallest value: `box`.";
     Max = "max", "Largest value: `box`.";
+    XLine = "x_line", "Where a reference line crosses x: `guide x(V)`.";
+    YLine = "y_line", "Where a reference line crosses y: `guide y(V)`.";
+    XBandLow = "x_band_low", "Lower end of a reference band across x: `guide x(LO, HI)`.";
+    XBandHigh = "x_band_high", "Upper end of a reference band across x, as `x_band_low`.";
+    YBandLow = "y_band_low", "Lower end of a reference band across y: `guide y(LO, HI)`.";
+    YBandHigh = "y_band_high", "Upper end of a reference band across y, as `y_band_low`.";
 }
 
 impl std::fmt::Display for Stat {

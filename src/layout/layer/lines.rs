@@ -1,6 +1,7 @@
-//! `lines`: each subject's values joined, meeting the dots they join.
+//! `lines`: each subject's values joined, meeting the dots they join (over a categorical x
+//! they take the dots' jitter; over a numeric x they run through the values themselves).
 
-use crate::compute::layer::SubjectPath;
+use crate::compute::layer::{PathPoint, SubjectPath};
 use crate::scene::{Mark, Point, Stroke};
 
 use super::super::style::*;
@@ -11,9 +12,12 @@ pub fn draw(out: &mut Vec<Mark>, frame: &PanelFrame, paths: &[SubjectPath]) {
         let points = path
             .points
             .iter()
-            .map(|(slot, offset, y)| {
-                let (cx, gw) = frame.group_slot(*slot, path.group);
-                Point::new(cx + offset * gw, frame.y(*y))
+            .map(|p| match *p {
+                PathPoint::Slot { x, offset, y } => {
+                    let (cx, gw) = frame.group_slot(x, path.group);
+                    Point::new(cx + offset * gw, frame.y(y))
+                }
+                PathPoint::Value { x, y } => Point::new(frame.x_num(x), frame.y(y)),
             })
             .collect();
         let stroke = Stroke {

@@ -10,11 +10,13 @@ mod density;
 mod ecdf;
 mod fit;
 mod flows;
+pub(super) mod guide;
 mod histogram;
 mod lines;
 mod mean;
 mod median;
 mod points;
+mod smooth;
 mod violin;
 
 use crate::compute::layer::{Bar, Estimate};
@@ -24,17 +26,21 @@ use crate::scene::{Colour, Fill, Mark, PathSegment, Point, Stroke};
 use super::style::*;
 use super::PanelFrame;
 
-/// Every layer of a panel, in the order written.
+/// Every layer of a panel, in the order written; guides behind them all, their labels on top.
 pub fn draw(frame: &PanelFrame, panel: &PanelData) -> Vec<Mark> {
     let mut out = Vec::new();
+    for layer in &panel.layers {
+        if let LayerMarks::Guide(g) = layer {
+            guide::draw_behind(&mut out, frame, g);
+        }
+    }
+    let behind = out.len();
     for layer in &panel.layers {
         match layer {
             LayerMarks::Points(points) => points::draw(&mut out, frame, points),
             LayerMarks::Box(boxes) => boxplot::draw(&mut out, frame, boxes),
             LayerMarks::Violin(violins) => violin::draw(&mut out, frame, violins),
-            LayerMarks::Mean {
-                bars, estimates, ..
-            } => mean::draw(&mut out, frame, bars, estimates),
+            LayerMarks::Mean(means) => mean::draw(&mut out, frame, means),
             LayerMarks::Median(medians) => median::draw(&mut out, frame, medians),
             LayerMarks::Lines(paths) => lines::draw(&mut out, frame, paths),
             LayerMarks::Counts(counts) => counts::draw(&mut out, frame, counts),
@@ -42,9 +48,14 @@ pub fn draw(frame: &PanelFrame, panel: &PanelData) -> Vec<Mark> {
             LayerMarks::Density(curves) => density::draw(&mut out, frame, curves),
             LayerMarks::Ecdf(steps) => ecdf::draw(&mut out, frame, steps),
             LayerMarks::Fit(fits) => fit::draw(&mut out, frame, fits),
+            LayerMarks::Smooth(curves) => smooth::draw(&mut out, frame, curves),
             LayerMarks::Flows(flows) => flows::draw(&mut out, frame, flows),
+            // Drawn behind every layer, above.
+            LayerMarks::Guide(_) => {}
         }
     }
+    let (labels, _) = guide::labels(frame, &panel.layers, &out[behind..]);
+    out.extend(labels);
     out
 }
 
@@ -115,7 +126,11 @@ fn circles(centres: impl Iterator<Item = Point>, radius: f64) -> Vec<PathSegment
 
 /// An estimate's interval as an error bar with caps, over a white halo (nothing without one).
 fn draw_interval(out: &mut Vec<Mark>, frame: &PanelFrame, e: &Estimate) {
-    let (cx, gw) = frame.group_slot(e.x, e.group);
+    interval_at(out, frame, frame.group_slot(e.x, e.group), e);
+}
+
+/// [`draw_interval`] at a place across x: its centre and the width its group may use.
+fn interval_at<X>(out: &mut Vec<Mark>, frame: &PanelFrame, (cx, gw): (f64, f64), e: &Estimate<X>) {
     let colour = frame.summary_colour(e.group);
     // A summary mark sits on top of the values it summarises: a white halo under the interval
     // keeps it readable over points of its own colour.
@@ -142,7 +157,17 @@ fn draw_interval(out: &mut Vec<Mark>, frame: &PanelFrame, e: &Estimate) {
 }
 
 fn draw_estimate(out: &mut Vec<Mark>, frame: &PanelFrame, e: &Estimate, centre_shape: Centre) {
-    let (cx, _) = frame.group_slot(e.x, e.group);
+    estimate_at(out, frame, frame.group_slot(e.x, e.group), e, centre_shape);
+}
+
+/// [`draw_estimate`] at a place across x: its centre and the width its group may use.
+fn estimate_at<X>(
+    out: &mut Vec<Mark>,
+    frame: &PanelFrame,
+    (cx, gw): (f64, f64),
+    e: &Estimate<X>,
+    centre_shape: Centre,
+) {
     let colour = frame.summary_colour(e.group);
     // With colour groups, an ink outline keeps the centre readable over points of its colour.
     let outline = if frame.n_groups > 1 {
@@ -150,7 +175,7 @@ fn draw_estimate(out: &mut Vec<Mark>, frame: &PanelFrame, e: &Estimate, centre_s
     } else {
         Colour::WHITE
     };
-    draw_interval(out, frame, e);
+    interval_at(out, frame, (cx, gw), e);
     let centre = Point::new(cx, frame.y(e.centre));
     let stroke = Some(Stroke::solid(outline, ESTIMATE_OUTLINE_MM));
     match centre_shape {
