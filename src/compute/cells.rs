@@ -495,6 +495,7 @@ impl<'a> Cells<'a> {
             Shows::Distribution => 1,
             Shows::Values => 2,
             Shows::Counts => 3,
+            Shows::Comparison => 4,
         };
         let reports_cells = |i: usize| {
             let stat = n_stat(self.plan.layers[i].decl.shows);

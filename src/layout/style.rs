@@ -39,6 +39,10 @@ pub const MIN_TEXT_PT: f64 = 6.0;
 /// Narrowest and shortest data area of a panel.
 pub const MIN_PANEL_WIDTH_MM: f64 = 12.0;
 pub const MIN_PANEL_HEIGHT_MM: f64 = 10.0;
+/// The strip of estimates under a panel (`difference`): its share of the height the data area
+/// and it have together, and its least height.
+pub const ESTIMATE_SHARE: f64 = 0.3;
+pub const MIN_ESTIMATE_HEIGHT_MM: f64 = 12.0;
 /// Most lines a category label, a panel label or a legend label may wrap onto.
 pub const MAX_LABEL_LINES: usize = 2;
 
@@ -134,6 +138,11 @@ pub const FLOW_BAR_MIN_MM: f64 = 1.6;
 pub const FLOW_STATE_GAP_MM: f64 = 1.6;
 pub const FLOW_GAPS_MAX_SHARE: f64 = 0.25;
 pub const FLOW_RIBBON_OPACITY: f64 = 0.42;
+/// Stacked bars of shares (`stack`): the share of an x level's band a bar takes, and at most
+/// this; the white line between its segments.
+pub const STACK_BAR_SHARE: f64 = 0.6;
+pub const STACK_BAR_MAX_MM: f64 = 14.0;
+pub const STACK_SEPARATOR_MM: f64 = 0.15;
 /// Legend: a swatch's side as a share of the line height; the clear space kept between a
 /// legend placed inside a panel and the data.
 pub const SWATCH_SHARE: f64 = 0.75;
