@@ -180,14 +180,12 @@ pub fn check_figure(
                 Diagnostic::new(
                     Code::LayerDoesNotFit,
                     format!(
-                        "{} are coloured by their states; `colour` cannot split them",
+                        "{} colours its marks by the levels of y; `colour` cannot split them",
                         alone.decl.quoted()
                     ),
                 )
                 .with_label(c.span, "a second colouring")
-                .with_help(
-                    "remove `colour`, or show each group's flows in its own panel with `panels`",
-                ),
+                .with_help("remove `colour`, or show each group in its own panel with `panels`"),
             );
         }
     }
@@ -253,7 +251,7 @@ fn fit_layers(
                         ),
                     )
                     .with_label(p.head.span, "does not fit")
-                    .with_help(format!("draw {} in a figure of their own", alone.word)),
+                    .with_help(format!("draw {} in a figure of its own", alone.quoted())),
                 );
                 false
             }
