@@ -25,14 +25,27 @@ pub struct StackOpts {
     /// `diverging`: the neutral level of y (its index among the declared levels), on which the
     /// bars are centred.
     pub diverging: Option<usize>,
-    /// The neutral level's display text, for the key.
+    /// The neutral level's display text, and y's title, for the key.
     pub midpoint_label: Option<String>,
+    pub y_title: String,
 }
 
 fn read(input: &ReadInput, diags: &mut Vec<Diagnostic>) -> Option<(Layer, Traits)> {
+    let y_title = input
+        .axes
+        .and_then(|a| a.y)
+        .map(|y| {
+            let var = input.book.var(y.var);
+            y.title
+                .clone()
+                .or(var.label.clone())
+                .unwrap_or(var.name.clone())
+        })
+        .unwrap_or_default();
     let mut opts = StackOpts {
         diverging: None,
         midpoint_label: None,
+        y_title,
     };
     if let (Some(flag), Some(axes)) = (input.opts.flag("diverging"), input.axes) {
         let midpoint = midpoint(input, axes, flag.span, diags)?;
@@ -85,11 +98,12 @@ fn midpoint(
 
 /// Stacked bars of percentages.
 pub fn key(opts: &StackOpts, _ctx: &KeyContext) -> Option<MarkKey> {
+    let y = &opts.y_title;
     let meaning = match &opts.midpoint_label {
         Some(m) => format!(
-            "percent of each level at each category, centred on the neutral level ({m}): lower levels below zero, higher above"
+            "percent of each level of {y}, centred on the neutral level ({m}): lower levels below zero, higher above"
         ),
-        None => "percent of each level at each category, first level at the bottom".to_string(),
+        None => format!("percent of each level of {y}, the first at the bottom"),
     };
     Some(MarkKey::new("Bars", meaning))
 }
