@@ -13,9 +13,32 @@ use std::collections::BTreeMap;
 use figura::build::{self, BuildOptions, NoProgress};
 use serde_json::json;
 
-/// Builds `spec` beside `files` and returns each figure's summary rows as
-/// (layer, group, x, stat, value).
+/// Builds `spec` beside `files` and returns the summary rows of `figure` as
+/// (layer, group, x, stat, value); the build must report nothing.
 fn summary_of(spec: &str, files: &[(&str, &str)], figure: &str) -> Vec<[String; 5]> {
+    let (_dir, out, report) = build_in(spec, files);
+    assert!(report.diagnostics.is_empty(), "{:#?}", report.diagnostics);
+    read_summary(&out, figure)
+}
+
+/// The summary rows of `figure` in the output folder `out`, as (layer, group, x, stat, value).
+fn read_summary(out: &std::path::Path, figure: &str) -> Vec<[String; 5]> {
+    let text = std::fs::read_to_string(out.join(format!("{figure}.summary.csv"))).unwrap();
+    csv::Reader::from_reader(text.as_bytes())
+        .records()
+        .map(|r| {
+            let r = r.unwrap();
+            [1, 2, 3, 4, 5].map(|i| r[i].to_string())
+        })
+        .collect()
+}
+
+/// Builds `spec` beside `files` into a temporary folder: the folder (kept while it lives), the
+/// output folder and the build's report.
+fn build_in(
+    spec: &str,
+    files: &[(&str, &str)],
+) -> (tempfile::TempDir, std::path::PathBuf, build::BuildReport) {
     let dir = tempfile::tempdir().unwrap();
     std::fs::write(dir.path().join("figures.figura"), spec).unwrap();
     for (name, text) in files {
@@ -31,15 +54,7 @@ fn summary_of(spec: &str, files: &[(&str, &str)], figure: &str) -> Vec<[String; 
         &NoProgress,
     )
     .expect("the build runs");
-    assert!(report.diagnostics.is_empty(), "{:#?}", report.diagnostics);
-    let text = std::fs::read_to_string(out.join(format!("{figure}.summary.csv"))).unwrap();
-    csv::Reader::from_reader(text.as_bytes())
-        .records()
-        .map(|r| {
-            let r = r.unwrap();
-            [1, 2, 3, 4, 5].map(|i| r[i].to_string())
-        })
-        .collect()
+    (dir, out, report)
 }
 
 /// The one number at (layer, group, x, stat).
@@ -669,30 +684,6 @@ figure shapes { from waits; x queue; y wait; violin bandwidth(0.8) summary(full)
 // difference from("LEVEL"): paired t and Welch intervals; stack: shares; points arrange(swarm);
 // the small-n rules (W0005, intervals left out and said so in the key).
 
-/// Builds `spec` beside `files` into a temporary folder: the folder (kept while it lives), the
-/// output folder and the build's report.
-fn build_in(
-    spec: &str,
-    files: &[(&str, &str)],
-) -> (tempfile::TempDir, std::path::PathBuf, build::BuildReport) {
-    let dir = tempfile::tempdir().unwrap();
-    std::fs::write(dir.path().join("figures.figura"), spec).unwrap();
-    for (name, text) in files {
-        std::fs::write(dir.path().join(name), text).unwrap();
-    }
-    let out = dir.path().join("out");
-    let report = build::build(
-        &BuildOptions {
-            paths: vec![dir.path().join("figures.figura")],
-            out: Some(out.clone()),
-            ..BuildOptions::default()
-        },
-        &NoProgress,
-    )
-    .expect("the build runs");
-    (dir, out, report)
-}
-
 /// The text of every `<text>` element of an SVG, in order, joined by spaces.
 fn svg_text(svg: &str) -> String {
     svg.split("<text")
@@ -847,17 +838,7 @@ figure pair { from sleep; x drug; y extra; points; difference from("A") }
     let files = [("pots.csv", csv), ("sleep.csv", sleep)];
     let (_dir, out, report) = build_in(spec, &files);
     assert!(report.diagnostics.is_empty(), "{:#?}", report.diagnostics);
-    let rows = |figure: &str| {
-        let text = std::fs::read_to_string(out.join(format!("{figure}.summary.csv"))).unwrap();
-        csv::Reader::from_reader(text.as_bytes())
-            .records()
-            .map(|r| {
-                let r = r.unwrap();
-                [1, 2, 3, 4, 5].map(|i| r[i].to_string())
-            })
-            .collect::<Vec<_>>()
-    };
-    let diff = rows("diff");
+    let diff = read_summary(&out, "diff");
     // Welch restated by hand: 50 − 33 for coir; peat keeps its interval.
     assert_eq!(
         value(&diff, "difference", "", "coir", "difference"),
@@ -871,7 +852,7 @@ figure pair { from sleep; x drug; y extra; points; difference from("A") }
         key.contains("no interval where a level has fewer than 2 values"),
         "{key}"
     );
-    let pair = rows("pair");
+    let pair = read_summary(&out, "pair");
     // One complete pair (patient 1): 1.9 − 0.7, no interval; the unpaired B value is missing.
     assert_eq!(value(&pair, "difference", "", "B", "n"), 1.0);
     assert_eq!(value(&pair, "difference", "", "B", "n_missing"), 1.0);
@@ -893,8 +874,9 @@ fn few_values_under_a_box_or_violin_and_an_empty_reference_warn() {
   pot: nominal levels("clay", "peat", "coir")
   height: ratio unit("mm")
 }
-figure boxes { from pots; x pot; y height; points; box }
-figure shapes { from pots; x pot; y height; points; violin }
+figure boxes { from pots; x pot; y height; box }
+figure shapes { from pots; x pot; y height; violin; mean }
+figure shown { from pots; x pot; y height; points; box }
 figure diff { from pots; x pot; y height; where pot != "clay"; points; difference from("clay") }
 "#;
     let mut csv = String::from("plant,pot,height\n");
@@ -909,7 +891,8 @@ figure diff { from pots; x pot; y height; where pot != "clay"; points; differenc
         .filter(|d| d.code == figura::diag::Code::FewValues)
         .collect();
     assert_eq!(warnings.len(), 3, "{:#?}", report.diagnostics);
-    // A box or violin of 3 values (fewer than 5: common practice) names its smallest cell.
+    // A box or violin of 3 values (fewer than 5: common practice) names its smallest cell;
+    // with `points` the values are seen, and nothing is said.
     assert!(
         warnings[0]
             .message

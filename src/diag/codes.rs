@@ -123,7 +123,7 @@ code_table! {
     BarWithoutPoints = "W0002", Warning, "`mean bar` without `points`.";
     CrowdingAllowed = "W0003", Warning, "The figure's content does not fit its size, and `--allow-crowding` built it anyway.";
     ManyPoints = "W0004", Warning, "`points` with more values in one cell than dots can show apart (found in the data).";
-    FewValues = "W0005", Warning, "A layer drawn from fewer values than it needs: a box or violin of fewer than 5 values, a difference without values at its reference level (found in the data).";
+    FewValues = "W0005", Warning, "A layer drawn from fewer values than it needs: a box or violin of fewer than 5 values without `points`, a difference without values at its reference level (found in the data).";
 
     // Data files.
     Unreadable = "D0001", Error, "The data file is missing, a folder, or cannot be read.";

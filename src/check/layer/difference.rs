@@ -119,7 +119,8 @@ fn reference_level(
         return None;
     };
     let shape = "from(\"LEVEL\")";
-    let (index, span) = options::declared_level(from, levels, &x.name, shape, diags)?;
+    let unknown = |name: &str| format!("\"{name}\" is not a level of `{}`", x.name);
+    let (index, span) = options::declared_level(from, levels, shape, unknown, diags)?;
     if levels.len() < 2 {
         diags.push(
             Diagnostic::new(

@@ -323,13 +323,13 @@ pub fn by_subject(
 }
 
 /// The level a call's single argument names — a text, a number or a name, as `levels(...)`
-/// writes them — as its index among `var`'s declared `levels`, with the argument's span; an
-/// unknown level is reported with the closest declared one.
+/// writes them — as its index among the declared `levels`, with the argument's span; an
+/// unknown level is reported as `unknown(name)` says, with the closest declared level offered.
 pub fn declared_level(
     c: &Call,
     levels: &[String],
-    var: &str,
     shape: &str,
+    unknown: impl FnOnce(&str) -> String,
     diags: &mut Vec<Diagnostic>,
 ) -> Option<(usize, Span)> {
     let (name, span) = match terms::single(c, shape, diags)? {
@@ -347,7 +347,7 @@ pub fn declared_level(
     let help = match did_you_mean(name, levels.iter().map(String::as_str)) {
         Some(s) => format!("did you mean \"{s}\"?"),
         None => format!(
-            "the levels of `{var}` are {}",
+            "the declared levels are {}",
             levels
                 .iter()
                 .map(|l| format!("\"{l}\""))
@@ -356,12 +356,9 @@ pub fn declared_level(
         ),
     };
     diags.push(
-        Diagnostic::new(
-            Code::BadArgument,
-            format!("\"{name}\" is not a level of `{var}`"),
-        )
-        .with_label(span, "not a declared level")
-        .with_help(help),
+        Diagnostic::new(Code::BadArgument, unknown(name))
+            .with_label(span, "not a declared level")
+            .with_help(help),
     );
     None
 }

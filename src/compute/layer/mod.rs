@@ -20,6 +20,7 @@ mod points;
 mod stack;
 mod violin;
 
+use crate::check::layer::Shows;
 use crate::check::plan::{Axes, AxisScale, BootMethod, Layer, LayerPlan};
 use crate::diag::{Code, Diagnostic, Span};
 use crate::stats;
@@ -333,8 +334,8 @@ fn boot_interval(
 }
 
 /// Fewest values a box or violin describes a distribution from: below it, quartiles and a
-/// density rest on too few values to mean much, and the figure warns (W0005; common practice,
-/// no single standard).
+/// density rest on too few values to mean much, and a figure that does not show the values
+/// themselves warns (W0005; common practice, no single standard).
 pub const LEAST_FOR_SHAPE: usize = 5;
 
 /// Tracks the cell of a layer with the fewest values (at least one) for [`few_values`].
@@ -350,9 +351,17 @@ impl Smallest {
 }
 
 /// W0005: a shape (`what`: "a box", "a violin") drawn from fewer than [`LEAST_FOR_SHAPE`]
-/// values, naming its smallest cell.
+/// values, naming its smallest cell, in a figure whose dots do not show the values.
 fn few_values(at: &At, smallest: Smallest, what: &str) -> Option<Diagnostic> {
-    let (n, key) = smallest.0.filter(|(n, _)| *n < LEAST_FOR_SHAPE)?;
+    let shows_values = at
+        .cells
+        .plan
+        .layers
+        .iter()
+        .any(|l| l.decl.shows == Shows::Values);
+    let (n, key) = smallest
+        .0
+        .filter(|(n, _)| *n < LEAST_FOR_SHAPE && !shows_values)?;
     let mut place = vec![format!("x = \"{}\"", key.x)];
     if !key.group.is_empty() {
         place.push(format!("colour = \"{}\"", key.group));
@@ -368,7 +377,7 @@ fn few_values(at: &At, smallest: Smallest, what: &str) -> Option<Diagnostic> {
         )
         .with_label(at.head, format!("drawn from {n} {values}"))
         .with_help(format!(
-            "show so few values as `points`; {what} needs about {LEAST_FOR_SHAPE} values to mean much (common practice)"
+            "add `points` to show so few values; {what} needs about {LEAST_FOR_SHAPE} values to mean much (common practice)"
         )),
     )
 }
