@@ -42,7 +42,7 @@ pub const MIN_PANEL_HEIGHT_MM: f64 = 10.0;
 /// The strip of estimates under a panel (`difference`): its share of the height the data area
 /// and it have together, and its least height.
 pub const ESTIMATE_SHARE: f64 = 0.3;
-pub const MIN_ESTIMATE_HEIGHT_MM: f64 = 12.0;
+pub const MIN_ESTIMATE_HEIGHT_MM: f64 = 10.0;
 /// Most lines a category label, a panel label or a legend label may wrap onto.
 pub const MAX_LABEL_LINES: usize = 2;
 

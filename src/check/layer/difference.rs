@@ -228,5 +228,5 @@ pub fn key(opts: &DifferenceOpts, ctx: &KeyContext) -> Option<MarkKey> {
             opts.reference_label
         )
     };
-    Some(MarkKey::new("Lower panel", meaning))
+    Some(MarkKey::new("Below the data", meaning))
 }
