@@ -22,7 +22,7 @@ figure times {
   x shoe
   y time
   points jitter(0.2)
-  box
+  median
 }
 "#;
 
@@ -193,7 +193,7 @@ fn build_spec(spec: &[u8]) -> (Outcome, tempfile::TempDir) {
 
 fn spec_with(figure_lines: &str) -> String {
     SPEC.replace("DATA", "times.csv")
-        .replace("  box\n", &format!("  box\n{figure_lines}"))
+        .replace("  median\n", &format!("  median\n{figure_lines}"))
 }
 
 #[test]

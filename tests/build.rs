@@ -419,6 +419,7 @@ figure good {{
   from plots
   x mulch
   y beetles
+  points
   box
 }}
 "#

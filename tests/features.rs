@@ -1176,6 +1176,7 @@ figure heights {
   x light
   y height
   violin
+  points
 }
 "#;
     // Every shaded tray measured 5: the quartiles are 5, and no bandwidth rule has a spread.

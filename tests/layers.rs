@@ -25,9 +25,32 @@ fn folder_of(spec: &str, files: &[(&str, &str)]) -> tempfile::TempDir {
     dir
 }
 
-/// Builds `spec` beside `files` and returns each figure's summary rows as
-/// (layer, group, x, stat, value).
+/// Builds `spec` beside `files` and returns the summary rows of `figure` as
+/// (layer, group, x, stat, value); the build must report nothing.
 fn summary_of(spec: &str, files: &[(&str, &str)], figure: &str) -> Vec<[String; 5]> {
+    let (_dir, out, report) = build_in(spec, files);
+    assert!(report.diagnostics.is_empty(), "{:#?}", report.diagnostics);
+    read_summary(&out, figure)
+}
+
+/// The summary rows of `figure` in the output folder `out`, as (layer, group, x, stat, value).
+fn read_summary(out: &std::path::Path, figure: &str) -> Vec<[String; 5]> {
+    let text = std::fs::read_to_string(out.join(format!("{figure}.summary.csv"))).unwrap();
+    csv::Reader::from_reader(text.as_bytes())
+        .records()
+        .map(|r| {
+            let r = r.unwrap();
+            [1, 2, 3, 4, 5].map(|i| r[i].to_string())
+        })
+        .collect()
+}
+
+/// Builds `spec` beside `files` into a temporary folder: the folder (kept while it lives), the
+/// output folder and the build's report.
+fn build_in(
+    spec: &str,
+    files: &[(&str, &str)],
+) -> (tempfile::TempDir, std::path::PathBuf, build::BuildReport) {
     let dir = folder_of(spec, files);
     let out = dir.path().join("out");
     let report = build::build(
@@ -39,15 +62,7 @@ fn summary_of(spec: &str, files: &[(&str, &str)], figure: &str) -> Vec<[String; 
         &NoProgress,
     )
     .expect("the build runs");
-    assert!(report.diagnostics.is_empty(), "{:#?}", report.diagnostics);
-    let text = std::fs::read_to_string(out.join(format!("{figure}.summary.csv"))).unwrap();
-    csv::Reader::from_reader(text.as_bytes())
-        .records()
-        .map(|r| {
-            let r = r.unwrap();
-            [1, 2, 3, 4, 5].map(|i| r[i].to_string())
-        })
-        .collect()
+    (dir, out, report)
 }
 
 /// The one number at (layer, group, x, stat).
@@ -1340,5 +1355,360 @@ fn guide_labels_that_cannot_stand_apart_make_the_figure_too_small() {
         diags[0].1.contains("of a guide has no room"),
         "{}",
         diags[0].1
+    );
+}
+
+// ---------------------------------------------------------------------------------------------
+// difference from("LEVEL"): paired t and Welch intervals; stack: shares; points arrange(swarm);
+// the small-n rules (W0016, intervals left out and said so in the key).
+
+/// The text of every `<text>` element of an SVG, in order, joined by spaces.
+fn svg_text(svg: &str) -> String {
+    svg.split("<text")
+        .skip(1)
+        .filter_map(|t| Some(t.split_once('>')?.1.split('<').next()?.to_string()))
+        .collect::<Vec<_>>()
+        .join(" ")
+}
+
+#[test]
+fn paired_differences_match_student_1908_and_scipy() {
+    let spec = format!(
+        "{SLEEP_BOOK}\nfigure diff {{ from sleep; x drug; y extra; points jitter(0.2); lines by(patient); difference from(\"A\") dots }}\nfigure diff90 {{ from sleep; x drug; y extra; points; difference from(\"A\") error(ci(0.9)) }}\n"
+    );
+    let table = sleep_table();
+    let samples = sleep_by_drug();
+    let (a, b) = (&samples["A"], &samples["B"]);
+    for (figure, level) in [("diff", 0.95), ("diff90", 0.9)] {
+        let rows = summary_of(&spec, &[("sleep.csv", &table)], figure);
+        // Student (1908): the differences B − A of the ten patients have mean 1.58 and
+        // t = 4.06 on 9 degrees of freedom.
+        rel(
+            value(&rows, "difference", "", "B", "difference"),
+            1.58,
+            1e-12,
+            "mean difference",
+        );
+        assert_eq!(value(&rows, "difference", "", "B", "df"), 9.0);
+        assert_eq!(value(&rows, "difference", "", "B", "n"), 10.0);
+        assert_eq!(value(&rows, "difference", "", "B", "n_missing"), 0.0);
+        assert!(
+            !has(&rows, "difference", "", "A", "n"),
+            "no row for the reference"
+        );
+        // scipy.stats.ttest_rel(B, A).confidence_interval(L).
+        let want = reference("paired", json!([[b, a, level]]));
+        rel(num(&want[0]["t"]), 4.06, 1e-3, "scipy's t, as published");
+        for (stat, i) in [("ci_low", 0), ("ci_high", 1)] {
+            rel(
+                value(&rows, "difference", "", "B", stat),
+                num(&want[0]["ci"][i]),
+                1e-12,
+                stat,
+            );
+        }
+    }
+}
+
+/// Heights of plants in three pots under two soils, made here: pot p, soil s, plant i of n
+/// has 30 + 6p + 4s + (2 + p + s) · sin(2.1 i + p) (every group its own size and spread).
+fn pots_csv() -> (String, BTreeMap<(usize, usize), Vec<f64>>) {
+    let mut csv = String::from("plant,pot,soil,height\n");
+    let mut groups = BTreeMap::new();
+    let sizes = [[7, 4], [12, 9], [5, 2]];
+    for (p, pot) in ["clay", "peat", "coir"].iter().enumerate() {
+        for (s, soil) in ["dry", "wet"].iter().enumerate() {
+            for i in 0..sizes[p][s] {
+                let (pf, sf, i) = (p as f64, s as f64, i as f64);
+                let h = 30.0 + 6.0 * pf + 4.0 * sf + (2.0 + pf + sf) * (2.1 * i + pf).sin();
+                csv.push_str(&format!("P{p}{s}{i},{pot},{soil},{h:?}\n"));
+                groups.entry((p, s)).or_insert_with(Vec::new).push(h);
+            }
+        }
+    }
+    (csv, groups)
+}
+
+const POTS_BOOK: &str = r#"data pots "pots.csv" {
+  plant: id
+  pot: nominal levels("clay", "peat", "coir")
+  soil: nominal levels("dry", "wet")
+  height: ratio unit("mm")
+  subject plant
+  between pot
+}
+"#;
+
+#[test]
+fn differences_between_groups_match_welch_as_scipy_computes_it() {
+    let spec = format!(
+        "{POTS_BOOK}\nfigure diff {{ from pots; x pot; y height; colour soil; points arrange(swarm); difference from(\"clay\") error(ci(0.9)); size 120mm x 90mm }}\n"
+    );
+    let (csv, groups) = pots_csv();
+    let rows = summary_of(&spec, &[("pots.csv", &csv)], "diff");
+    let cases: Vec<(usize, usize)> = vec![(1, 0), (1, 1), (2, 0), (2, 1)];
+    let request: Vec<serde_json::Value> = cases
+        .iter()
+        .map(|(p, s)| json!([groups[&(*p, *s)], groups[&(0, *s)], 0.9]))
+        .collect();
+    // scipy.stats.ttest_ind(level, reference, equal_var=False).confidence_interval(0.9).
+    let want = reference("welch", json!(request));
+    for (i, (p, s)) in cases.iter().enumerate() {
+        let (pot, soil) = (["clay", "peat", "coir"][*p], ["dry", "wet"][*s]);
+        let what = format!("{pot} {soil}");
+        let w = &want[i];
+        rel(
+            value(&rows, "difference", soil, pot, "difference"),
+            num(&w["difference"]),
+            1e-12,
+            &what,
+        );
+        rel(
+            value(&rows, "difference", soil, pot, "df"),
+            num(&w["df"]),
+            1e-12,
+            &what,
+        );
+        let width = num(&w["ci"][1]) - num(&w["ci"][0]);
+        close(
+            value(&rows, "difference", soil, pot, "ci_low"),
+            num(&w["ci"][0]),
+            1e-12,
+            width,
+            &what,
+        );
+        close(
+            value(&rows, "difference", soil, pot, "ci_high"),
+            num(&w["ci"][1]),
+            1e-12,
+            width,
+            &what,
+        );
+        assert_eq!(
+            value(&rows, "difference", soil, pot, "n"),
+            groups[&(*p, *s)].len() as f64
+        );
+    }
+}
+
+#[test]
+fn a_difference_from_too_few_values_has_no_interval_and_the_key_says_so() {
+    // Made here: "coir" has one plant, so its difference from "clay" is drawn without an
+    // interval; "peat" keeps its interval. And a paired design with a single complete pair.
+    let spec = r#"data pots "pots.csv" {
+  plant: id
+  pot: nominal levels("clay", "peat", "coir")
+  height: ratio unit("mm")
+}
+figure diff { from pots; x pot; y height; points; difference from("clay") }
+data sleep "sleep.csv" {
+  patient: id
+  drug: nominal levels("A", "B")
+  extra: interval column("extra_hours")
+  subject patient
+  within drug
+}
+figure pair { from sleep; x drug; y extra; points; difference from("A") }
+"#;
+    let csv =
+        "plant,pot,height\nA,clay,30\nB,clay,34\nC,clay,35\nD,peat,40\nE,peat,37\nF,coir,50\n";
+    let sleep = "patient,drug,extra_hours\n1,A,0.7\n1,B,1.9\n2,A,-1.6\n3,B,0.1\n";
+    let files = [("pots.csv", csv), ("sleep.csv", sleep)];
+    let (_dir, out, report) = build_in(spec, &files);
+    assert!(report.diagnostics.is_empty(), "{:#?}", report.diagnostics);
+    let diff = read_summary(&out, "diff");
+    // Welch restated by hand: 50 − 33 for coir; peat keeps its interval.
+    assert_eq!(
+        value(&diff, "difference", "", "coir", "difference"),
+        50.0 - 33.0
+    );
+    assert!(!has(&diff, "difference", "", "coir", "ci_low"));
+    assert!(!has(&diff, "difference", "", "coir", "df"));
+    assert!(has(&diff, "difference", "", "peat", "ci_low"));
+    let key = svg_text(&std::fs::read_to_string(out.join("diff.svg")).unwrap());
+    assert!(
+        key.contains("no interval where a level has fewer than 2 values"),
+        "{key}"
+    );
+    let pair = read_summary(&out, "pair");
+    // One complete pair (patient 1): 1.9 − 0.7, no interval; the unpaired B value is missing.
+    assert_eq!(value(&pair, "difference", "", "B", "n"), 1.0);
+    assert_eq!(value(&pair, "difference", "", "B", "n_missing"), 1.0);
+    rel(
+        value(&pair, "difference", "", "B", "difference"),
+        1.9 - 0.7,
+        1e-15,
+        "one pair",
+    );
+    assert!(!has(&pair, "difference", "", "B", "ci_low"));
+    let key = svg_text(&std::fs::read_to_string(out.join("pair.svg")).unwrap());
+    assert!(key.contains("no interval from fewer than 2 pairs"), "{key}");
+}
+
+#[test]
+fn few_values_under_a_box_or_violin_and_an_empty_reference_warn() {
+    let spec = r#"data pots "pots.csv" {
+  plant: id
+  pot: nominal levels("clay", "peat", "coir")
+  height: ratio unit("mm")
+}
+figure boxes { from pots; x pot; y height; box }
+figure shapes { from pots; x pot; y height; violin; mean }
+figure shown { from pots; x pot; y height; points; box }
+figure diff { from pots; x pot; y height; where pot != "clay"; points; difference from("clay") }
+"#;
+    let mut csv = String::from("plant,pot,height\n");
+    for i in 0..8 {
+        csv.push_str(&format!("C{i},clay,{}\nP{i},peat,{}\n", 30 + i, 40 - i));
+    }
+    csv.push_str("X1,coir,50\nX2,coir,52\nX3,coir,57\n");
+    let (_dir, _out, report) = build_in(spec, &[("pots.csv", &csv)]);
+    let warnings: Vec<&figura::diag::Diagnostic> = report
+        .diagnostics
+        .iter()
+        .filter(|d| d.code == figura::diag::Code::FewValues)
+        .collect();
+    assert_eq!(warnings.len(), 3, "{:#?}", report.diagnostics);
+    // A box or violin of 3 values (fewer than 5: common practice) names its smallest cell;
+    // with `points` the values are seen, and nothing is said.
+    assert!(
+        warnings[0]
+            .message
+            .contains("a box of 3 values (x = \"coir\")"),
+        "{}",
+        warnings[0].message
+    );
+    assert!(
+        warnings[1].message.contains("a violin of 3 values"),
+        "{}",
+        warnings[1].message
+    );
+    assert!(
+        warnings[2]
+            .message
+            .contains("no values at the reference level \"clay\""),
+        "{}",
+        warnings[2].message
+    );
+    assert!(report.failures.is_empty(), "warnings never stop a figure");
+}
+
+#[test]
+fn stacked_shares_are_each_levels_count_over_the_x_levels_values() {
+    // Made here: ratings 1–5 of three items by 23 respondents, r = 1 + (3i + 7j) mod 5 for
+    // respondent i and item j, with respondent 4's rating of item "b" missing.
+    let spec = r#"data survey "survey.csv" {
+  respondent: id
+  item: nominal levels("a", "b", "c")
+  rating: ordinal levels(1, 2, 3, 4, 5) midpoint(3)
+  subject respondent
+  within item
+}
+figure shares { from survey; x item; y rating; stack }
+figure centred { from survey; x item; y rating; stack diverging }
+"#;
+    let mut csv = String::from("respondent,item,rating\n");
+    let mut by_item: Vec<Vec<String>> = vec![Vec::new(); 3];
+    for i in 0..23 {
+        for (j, item) in ["a", "b", "c"].iter().enumerate() {
+            if i == 4 && j == 1 {
+                csv.push_str(&format!("R{i},{item},\n"));
+                continue;
+            }
+            let r = 1 + (3 * i + 7 * j) % 5;
+            csv.push_str(&format!("R{i},{item},{r}\n"));
+            by_item[j].push(r.to_string());
+        }
+    }
+    let levels = ["1", "2", "3", "4", "5"];
+    let request: Vec<serde_json::Value> = by_item.iter().map(|v| json!([v, levels])).collect();
+    // numpy.unique(..., return_counts=True).
+    let want = reference("shares", json!(request));
+    for figure in ["shares", "centred"] {
+        let rows = summary_of(spec, &[("survey.csv", &csv)], figure);
+        for (j, item) in ["a", "b", "c"].iter().enumerate() {
+            let w = &want[j];
+            assert_eq!(value(&rows, "stack", "", item, "n"), num(&w["n"]));
+            assert_eq!(
+                value(&rows, "stack", "", item, "n_missing"),
+                f64::from(j == 1)
+            );
+            for (k, level) in levels.iter().enumerate() {
+                assert_eq!(
+                    value(&rows, "stack", level, item, "count"),
+                    num(&w["count"][k])
+                );
+                rel(
+                    value(&rows, "stack", level, item, "percent"),
+                    num(&w["percent"][k]),
+                    1e-15,
+                    &format!("{item} {level}"),
+                );
+            }
+        }
+    }
+}
+
+/// The data dots (radius 0.55 mm, 60% opaque) of an SVG: (cx, cy).
+fn dots(svg: &str) -> Vec<(f64, f64)> {
+    svg.split("<circle ")
+        .skip(1)
+        .filter(|c| c.contains("r=\"0.55\"") && c.contains("fill-opacity=\"0.6\""))
+        .map(|c| {
+            let attr = |name: &str| -> f64 {
+                let start = c.find(&format!("{name}=\"")).unwrap() + name.len() + 2;
+                c[start..].split('"').next().unwrap().parse().unwrap()
+            };
+            (attr("cx"), attr("cy"))
+        })
+        .collect()
+}
+
+#[test]
+fn a_swarm_places_each_dot_where_the_sweep_says_and_again_identically() {
+    // Made here: 40 waiting times w = 10 + 6 · frac(0.618 i)² (golden-ratio steps, so no two
+    // are equal), one queue, in a figure wide enough that no row of dots is narrowed.
+    let spec = r#"data waits "waits.csv" {
+  visit: id
+  queue: nominal levels("one")
+  wait: ratio unit("min")
+}
+figure swarm { from waits; x queue; y wait; points arrange(swarm); size 80mm x 90mm }
+"#;
+    let mut csv = String::from("visit,queue,wait\n");
+    for i in 0..40 {
+        let f = (0.618_033_988_75 * i as f64).fract();
+        csv.push_str(&format!("V{i},one,{:?}\n", 10.0 + 6.0 * f * f));
+    }
+    let files = [("waits.csv", csv.as_str())];
+    let (_first, out, report) = build_in(spec, &files);
+    assert!(report.diagnostics.is_empty(), "{:#?}", report.diagnostics);
+    let svg = std::fs::read_to_string(out.join("swarm.svg")).unwrap();
+    let placed = dots(&svg);
+    assert_eq!(placed.len(), 40);
+    // The sweep restated in Python on the drawn heights (upwards: −cy): the lowest dot sits on
+    // the band's centre line, every other dot at its offset from it.
+    let heights: Vec<f64> = placed.iter().map(|(_, cy)| -cy).collect();
+    let want = reference("swarm", json!({"heights": heights, "radius": 0.55}));
+    let lowest = (0..placed.len())
+        .max_by(|&i, &j| placed[i].1.total_cmp(&placed[j].1))
+        .unwrap();
+    let centre = placed[lowest].0;
+    for (i, (cx, _)) in placed.iter().enumerate() {
+        // The SVG writes three decimals.
+        close(cx - centre, num(&want[i]), 2e-3, 1.0, &format!("dot {i}"));
+    }
+    // No two dots overlap (beyond the SVG's rounding).
+    for i in 0..placed.len() {
+        for j in 0..i {
+            let d = (placed[i].0 - placed[j].0).hypot(placed[i].1 - placed[j].1);
+            assert!(d >= 1.1 - 3e-3, "dots {i} and {j} are {d} mm apart");
+        }
+    }
+    // Built again elsewhere: the same bytes.
+    let (_second, again, _) = build_in(spec, &files);
+    assert_eq!(
+        svg,
+        std::fs::read_to_string(again.join("swarm.svg")).unwrap()
     );
 }

@@ -566,6 +566,11 @@ fn write_stress_set(d: &Path) {
         "ordinal.figura",
         "include \"plots.figura\"\n\nfigure ordinal_medians {\n  from plots\n  x site\n  y rating\n  median\n  size 120mm x 60mm\n  title \"Farmers' satisfaction by site\" show\n  caption \"A caption long enough to wrap onto more than one line of the figure, with words that need room, so the layout must make room for it under the key and keep it on the page.\"\n}\n",
     );
+    write(
+        d,
+        "estimates.figura",
+        "include \"plots.figura\"\n\nfigure ten_panels_of_differences {\n  from plots\n  x condition\n  y yield\n  panels site\n  points arrange(swarm)\n  mean error(ci(0.95))\n  difference from(\"cond 0\")\n  size 180mm x 220mm\n}\n\nfigure differences_in_a_column {\n  from plots\n  x condition\n  y yield\n  colour visit\n  points arrange(stack)\n  difference from(\"cond 0\")\n}\n\nfigure shares_of_ratings {\n  from plots\n  x site\n  y rating\n  panels condition\n  stack\n  size 180mm x 120mm\n}\n",
+    );
     // Many values for large n and many bins.
     let mut big = String::from("unit,group,value\n");
     let mut state: u64 = 0x9e37_79b9_7f4a_7c15;

@@ -176,6 +176,31 @@ def nests(rng):
     nests_parquet(rows)
 
 
+def survey(rng):
+    """A library survey: 150 students on two campuses rate five statements about the library
+    (strongly disagree to strongly agree, neutral in the middle).
+
+    Each student has a general leaning; each statement its own. The south campus library was
+    refurbished, so its students agree more about the seats and the quiet. A few ratings were
+    left blank.
+    """
+    agree = ["strongly disagree", "disagree", "neither", "agree", "strongly agree"]
+    items = {"hours": 0.3, "staff": 0.9, "quiet": -0.4, "seats": -0.8, "online": 0.1}
+    refurbished = {"quiet": 0.9, "seats": 1.2}
+    rows = []
+    for s in range(1, 151):
+        campus = "north" if s % 5 < 3 else "south"
+        leaning = rng.gauss(0, 0.6)
+        for item, shift in items.items():
+            z = leaning + shift + (refurbished.get(item, 0.0) if campus == "south" else 0.0)
+            z += rng.gauss(0, 0.8)
+            rating = agree[min(4, max(0, round(2 + z)))]
+            if (s, item) in ((12, "online"), (57, "quiet"), (101, "hours")):
+                rating = ""
+            rows.append([f"S{s:03d}", campus, item, rating])
+    write("survey.csv", ["student", "campus", "item", "rating"], rows)
+
+
 def cell_xml(ref, value, strings):
     """One worksheet cell: a number, or text kept in the shared-string table."""
     if value == "":
@@ -307,6 +332,7 @@ def main():
     leaves(random.Random(59))
     nests(random.Random(71))
     recovery(random.Random(83))
+    survey(random.Random(83))
 
 
 if __name__ == "__main__":

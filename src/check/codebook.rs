@@ -8,6 +8,7 @@ use crate::syntax::ast::{Block, Ident, Plain, Statement, Term};
 
 use super::colours;
 use super::display;
+use super::layer::options;
 use super::plan::{Codebook, Collapse, Replicates, Scale, VarId, Variable};
 use super::terms::{self, Accepts};
 
@@ -471,39 +472,8 @@ fn midpoint(
     levels: &[String],
     diags: &mut Vec<Diagnostic>,
 ) -> Option<usize> {
-    let shape = "midpoint(\"neutral\")";
-    let (name, span) = match terms::single(c, shape, diags)? {
-        Term::Str(s) => (s.value.clone(), s.span),
-        Term::Num(n) => (n.text.clone(), n.span),
-        Term::Word(w) => (w.name.clone(), w.span),
-        other => {
-            terms::expect_str(other, shape, diags);
-            return None;
-        }
-    };
-    if let Some(i) = levels.iter().position(|l| *l == name) {
-        return Some(i);
-    }
-    let help = match did_you_mean(&name, levels.iter().map(String::as_str)) {
-        Some(s) => format!("did you mean \"{s}\"? the midpoint is one of the declared levels"),
-        None => format!(
-            "the midpoint is one of the declared levels: {}",
-            levels
-                .iter()
-                .map(|l| format!("\"{l}\""))
-                .collect::<Vec<_>>()
-                .join(", ")
-        ),
-    };
-    diags.push(
-        Diagnostic::new(
-            Code::BadArgument,
-            format!("\"{name}\" is not a level, so it cannot be the midpoint"),
-        )
-        .with_label(span, "not a declared level")
-        .with_help(help),
-    );
-    None
+    let unknown = |name: &str| format!("\"{name}\" is not a level, so it cannot be the midpoint");
+    options::declared_level(c, levels, "midpoint(\"neutral\")", unknown, diags).map(|(i, _)| i)
 }
 
 fn checked_labels(

@@ -13,7 +13,7 @@ use super::colours;
 use super::display;
 use super::filter::check_filter;
 use super::layer::{self, shape, Fitted, LayerPlan, Shows, LAYERS};
-use super::plan::{CatVar, Codebook, FigurePlan, Filter, Formats, GroupMarks, Scale};
+use super::plan::{CatVar, Codebook, FigurePlan, Filter, Formats, GroupMarks, Layer, Scale};
 use super::terms;
 
 /// Default printed size: 85 mm × 65 mm (a single journal column).
@@ -203,17 +203,16 @@ pub fn check_figure(
                 Diagnostic::new(
                     Code::LayerDoesNotFit,
                     format!(
-                        "{} are coloured by their states; `colour` cannot split them",
+                        "{} colours its marks by the levels of y; `colour` cannot split them",
                         alone.decl.quoted()
                     ),
                 )
                 .with_label(c.span, "a second colouring")
-                .with_help(
-                    "remove `colour`, or show each group's flows in its own panel with `panels`",
-                ),
+                .with_help("remove `colour`, or show each group in its own panel with `panels`"),
             );
         }
     }
+    check_company(&layers, diags);
     if count_errors(diags) == errors_before_axes {
         warn_hidden_data(&layers, diags);
     }
@@ -277,7 +276,7 @@ fn fit_layers(
                         ),
                     )
                     .with_label(p.head.span, "does not fit")
-                    .with_help(format!("draw {} in a figure of their own", alone.word)),
+                    .with_help(format!("draw {} in a figure of its own", alone.quoted())),
                 );
                 false
             }
@@ -291,6 +290,60 @@ fn fit_layers(
         }
     }
     out
+}
+
+/// Layers that need others beside them, or cannot have some: a comparison (`difference`) is
+/// drawn under the data it compares, once per figure; lines cannot meet arranged dots, whose
+/// places the layout finds.
+fn check_company(layers: &[LayerPlan], diags: &mut Vec<Diagnostic>) {
+    let comparisons: Vec<&LayerPlan> = layers
+        .iter()
+        .filter(|l| l.decl.shows == Shows::Comparison)
+        .collect();
+    if let (Some(first), true) = (comparisons.first(), comparisons.len() == layers.len()) {
+        diags.push(
+            Diagnostic::new(
+                Code::LayerDoesNotFit,
+                format!(
+                    "{} is drawn under the data it compares, and no layer draws them",
+                    first.decl.quoted()
+                ),
+            )
+            .with_label(first.head, "compares the levels of x")
+            .with_help(
+                "add `points`, `box` or `mean` to show each level's values above the differences",
+            ),
+        );
+    }
+    if let [first, second, ..] = comparisons.as_slice() {
+        diags.push(
+            Diagnostic::new(
+                Code::LayerDoesNotFit,
+                format!(
+                    "a figure has one axis of differences, and {} is given twice",
+                    second.decl.quoted()
+                ),
+            )
+            .with_label(second.head, "a second comparison")
+            .with_label(first.head, "the first")
+            .with_help("keep one; to compare with another reference level, make a second figure"),
+        );
+    }
+    let arranged = layers
+        .iter()
+        .find(|l| matches!(&l.layer, Layer::Points(p) if p.arrange.is_some()));
+    let lines = layers.iter().find(|l| matches!(l.layer, Layer::Lines(_)));
+    if let (Some(points), Some(lines)) = (arranged, lines) {
+        diags.push(
+            Diagnostic::new(
+                Code::LayerDoesNotFit,
+                "lines cannot join arranged dots: each dot's place across the band depends on the others",
+            )
+            .with_label(lines.head, "joins each subject's values")
+            .with_label(points.span, "dots placed side by side")
+            .with_help("use `points jitter(...)` with `lines`: a subject's dots and its line then meet"),
+        );
+    }
 }
 
 /// The two warnings of §6: a mean with nothing that shows spread or values; bars without points.

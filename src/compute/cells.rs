@@ -553,6 +553,7 @@ impl<'a> Cells<'a> {
             Shows::Values => 2,
             Shows::Counts => 3,
             Shows::Reference => 4,
+            Shows::Comparison => 5,
         };
         let reports_cells = |i: usize| {
             let stat = n_stat(self.plan.layers[i].decl.shows);

@@ -16,7 +16,14 @@ use super::cells::{repeated_subject, Cells, Placed};
 /// The key's sentences, in the order of the layers, each ending in a full stop.
 /// `groups_differ`: the colour groups of some category have different n (the n row then
 /// gives each group's).
-pub fn key(cells: &Cells, n_source: Option<usize>, groups_differ: bool) -> Vec<String> {
+/// `notes[i]`: words layer `i` adds to its sentence because of the data (too few values for
+/// an interval somewhere).
+pub fn key(
+    cells: &Cells,
+    n_source: Option<usize>,
+    groups_differ: bool,
+    notes: &[Option<&str>],
+) -> Vec<String> {
     let plan = cells.plan;
     let book = cells.book;
     let subject = book.subject.map(|s| words(&book.var(s).name));
@@ -36,8 +43,15 @@ pub fn key(cells: &Cells, n_source: Option<usize>, groups_differ: bool) -> Vec<S
             out.push(format!("{marks}: {t}."));
         }
     }
-    for key in keys.iter().flatten() {
-        let sentence = format!("{}: {}.", key.marks, key.meaning);
+    for (key, note) in keys
+        .iter()
+        .zip(notes)
+        .filter_map(|(k, n)| Some((k.as_ref()?, n)))
+    {
+        let sentence = match note {
+            Some(note) => format!("{}: {}; {note}.", key.marks, key.meaning),
+            None => format!("{}: {}.", key.marks, key.meaning),
+        };
         if !out.contains(&sentence) {
             out.push(sentence);
         }

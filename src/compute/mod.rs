@@ -68,6 +68,8 @@ pub struct NumScale {
     pub log: bool,
     /// Bars start at zero, so zero must be on the axis.
     pub include_zero: bool,
+    /// Its tick labels give sizes without a sign: heights stacked either side of zero.
+    pub magnitudes: bool,
 }
 
 /// The x axis.
@@ -138,6 +140,8 @@ pub struct FigureData {
     pub y: YScale,
     pub legend: Option<Legend>,
     pub panels: Vec<PanelData>,
+    /// The axis of estimates drawn under every panel (`difference`), when a layer draws one.
+    pub estimates: Option<NumScale>,
     pub summary: Vec<SummaryRow>,
     /// The largest width quantity any layer draws (a violin's density, a flow's subjects): every
     /// such mark of the figure is drawn on one scale.
@@ -166,6 +170,7 @@ pub fn compute(
     let mut panels = Vec::with_capacity(cells.panels.len());
     let mut summary = Vec::new();
     let mut rows_by_layer = vec![Vec::new(); plan.layers.len()];
+    let mut notes = vec![None; plan.layers.len()];
     for p in 0..cells.panels.len() {
         let mut marks = Vec::with_capacity(plan.layers.len());
         for (i, l) in plan.layers.iter().enumerate() {
@@ -173,6 +178,7 @@ pub fn compute(
             check_finite(&out, l)?;
             summary.extend_from_slice(&out.rows);
             rows_by_layer[i].extend_from_slice(&out.rows);
+            notes[i] = notes[i].or(out.note);
             marks.push(merged.add(out));
         }
         panels.push(PanelData {
@@ -203,7 +209,7 @@ pub fn compute(
         .iter()
         .flat_map(|p| &p.n_by_x)
         .any(|n| n.windows(2).any(|w| w[0] != w[1]));
-    let marks = key::key(&cells, n_source, groups_differ);
+    let marks = key::key(&cells, n_source, groups_differ, &notes);
     let key = if plan.key { marks.clone() } else { Vec::new() };
     let mut warnings = many_points(&cells);
     warnings.append(&mut merged.warnings);
@@ -212,6 +218,14 @@ pub fn compute(
         y: y_scale(&cells, &merged),
         legend,
         panels,
+        estimates: merged.estimates.take().map(|(title, extent)| NumScale {
+            title,
+            extent: extent.get(),
+            range: None,
+            log: false,
+            include_zero: true,
+            magnitudes: false,
+        }),
         summary,
         width_peak: merged.width_peak,
         key,
@@ -227,7 +241,11 @@ fn check_finite(out: &layer::LayerOutput, l: &LayerPlan) -> Result<(), ComputeEr
         StatValue::Number(v) => v.is_finite(),
         StatValue::Level(_) => true,
     });
-    if rows_finite && !out.x.saw_not_finite() && !out.y.saw_not_finite() {
+    let estimates_finite = out
+        .estimate_axis
+        .as_ref()
+        .is_none_or(|(_, e)| !e.saw_not_finite());
+    if rows_finite && estimates_finite && !out.x.saw_not_finite() && !out.y.saw_not_finite() {
         return Ok(());
     }
     Err(Diagnostic::new(
@@ -328,10 +346,14 @@ struct Merged {
     y_from_zero: bool,
     /// The heights title of the last layer that draws its own heights.
     heights: Option<&'static str>,
+    /// Those heights are stacked either side of zero.
+    split: bool,
     y_hidden: bool,
     width_peak: f64,
     legend: Option<Legend>,
-    /// The layers' warnings, the first of each code and layer only (not one per panel).
+    /// The title and values of the axis of estimates under the panels.
+    estimates: Option<(String, Extent)>,
+    /// Warnings of every layer, each once (a layer warns in each panel it finds a problem).
     warnings: Vec<Diagnostic>,
 }
 
@@ -344,18 +366,26 @@ impl Merged {
         match out.y_use {
             YUse::Data => {}
             YUse::Heights(title) => self.heights = Some(title),
+            YUse::Split(title) => {
+                self.heights = Some(title);
+                self.split = true;
+            }
             YUse::Hidden => self.y_hidden = true,
         }
         self.width_peak = self.width_peak.max(out.width_peak);
         if out.legend.is_some() {
             self.legend = out.legend;
         }
+        if let Some((title, extent)) = out.estimate_axis {
+            let merged = self.estimates.get_or_insert((title, Extent::default()));
+            merged.1.merge(extent);
+        }
         for w in out.warnings {
-            if !self
+            let seen = self
                 .warnings
                 .iter()
-                .any(|seen| seen.code == w.code && seen.span() == w.span())
-            {
+                .any(|d| d.code == w.code && d.span() == w.span());
+            if !seen {
                 self.warnings.push(w);
             }
         }
@@ -370,6 +400,7 @@ fn num_scale(cells: &Cells, axis: &NumAxis, extent: Extent, include_zero: bool) 
         range: axis.range,
         log: axis.scale == AxisScale::Log,
         include_zero,
+        magnitudes: false,
     }
 }
 
@@ -396,8 +427,17 @@ fn y_scale(cells: &Cells, merged: &Merged) -> YScale {
             range: None,
             log: false,
             include_zero: true,
+            magnitudes: false,
         }),
         Axes::CatCat { .. } if merged.y_hidden => YScale::Hidden,
+        Axes::CatCat { .. } if merged.heights.is_some() => YScale::Numbers(NumScale {
+            title: merged.heights.unwrap_or("Percent").to_string(),
+            extent: merged.y.get(),
+            range: None,
+            log: false,
+            include_zero: true,
+            magnitudes: merged.split,
+        }),
         Axes::CatCat { y, .. } => YScale::Categories {
             title: cells.title(y.var.var, &y.title),
             levels: cells.y_levels.clone().unwrap_or_else(Levels::single),

@@ -136,6 +136,7 @@ code_table! {
     ColoursAlikeInGrey = "W0013", Warning, "A figure's group colours look alike in greyscale, and no shapes or dashes tell the groups apart.";
     MeansAtScatteredX = "W0014", Warning, "`mean` over a numeric x whose values the data do not share: most means are of a single value (found in the data).";
     SmoothTooFewPairs = "W0015", Warning, "`smooth` of a colour group with too few pairs for local lines: no curve is drawn for it (found in the data).";
+    FewValues = "W0016", Warning, "A layer drawn from fewer values than it needs: a box or violin of fewer than 5 values without `points`, a difference without values at its reference level (found in the data).";
 
     // Data files.
     Unreadable = "D0001", Error, "The data file is missing, a folder, or cannot be read.";

@@ -10,7 +10,8 @@
 //!   axis), and otherwise `m×10ᵏ` with the exponent written in superscript digits (the font's
 //!   own raised, smaller figures): `2.5×10⁴⁰`, `−3×10⁻³⁰`; on a log axis a power of ten is
 //!   written `10ᵏ`. Negative numbers start with a minus sign (drawn as an en dash, which the
-//!   bundled font has and which matches a minus in length and height).
+//!   bundled font has and which matches a minus in length and height), except on an axis of
+//!   sizes either side of zero (a diverging stack), whose labels are unsigned.
 
 use crate::compute::NumScale;
 use crate::stats;
@@ -50,6 +51,16 @@ impl NumAxisMap {
     /// Builds the axis for a numeric scale with about `target` labelled ticks (at least 3 when
     /// the data allow: a step that leaves fewer inside the axis is passed over).
     pub fn new(scale: &NumScale, target: usize) -> NumAxisMap {
+        let mut map = Self::signed(scale, target);
+        if scale.magnitudes {
+            for label in &mut map.labels {
+                *label = label.trim_start_matches(MINUS).to_string();
+            }
+        }
+        map
+    }
+
+    fn signed(scale: &NumScale, target: usize) -> NumAxisMap {
         if scale.log {
             return Self::log(scale, target);
         }
@@ -402,6 +413,7 @@ mod tests {
             range: None,
             log: false,
             include_zero: false,
+            magnitudes: false,
         }
     }
 

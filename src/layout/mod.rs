@@ -234,7 +234,7 @@ struct Drawn {
 }
 
 /// Draws a solved page, all but the legend.
-fn draw(plan: &FigurePlan, data: &FigureData, page: &Page) -> Drawn {
+fn draw<'a>(plan: &FigurePlan, data: &'a FigureData, page: &'a Page) -> Drawn {
     let grid = &page.grid;
     let mut marks = vec![Mark::Rect {
         x: 0.0,
@@ -272,24 +272,37 @@ fn draw(plan: &FigurePlan, data: &FigureData, page: &Page) -> Drawn {
     let corner_index = grid.cols.min(data.panels.len()).saturating_sub(1);
     for (i, panel) in data.panels.iter().enumerate() {
         let rect = grid.panel_rect(i);
-        let frame = PanelFrame {
+        let x_map = || match (&grid.x, &data.x) {
+            (XAxis::Numbers { map, .. }, _) => XMap::Numbers(map),
+            (XAxis::Categories(_), XScale::Categories { levels, .. }) => {
+                XMap::Bands { n: levels.len() }
+            }
+            (XAxis::Categories(_), XScale::Numbers(_)) => XMap::Bands { n: 1 },
+        };
+        let frame_at = |rect: Rect, y: YMap<'a>| PanelFrame {
             rect,
-            x: match (&grid.x, &data.x) {
-                (XAxis::Numbers { map, .. }, _) => XMap::Numbers(map),
-                (XAxis::Categories(_), XScale::Categories { levels, .. }) => {
-                    XMap::Bands { n: levels.len() }
-                }
-                (XAxis::Categories(_), XScale::Numbers(_)) => XMap::Bands { n: 1 },
-            },
-            y: match &y_map {
-                YMap::Numbers(a) => YMap::Numbers(a),
-                YMap::Levels { n } => YMap::Levels { n: *n },
-            },
+            x: x_map(),
+            y,
             n_groups: data.legend.as_ref().map_or(1, |l| l.levels.len()),
             colours,
             shows_points,
             width_peak: data.width_peak,
             marks: data.legend.as_ref().map(|l| l.marks).unwrap_or_default(),
+        };
+        let frame = frame_at(
+            rect,
+            match &y_map {
+                YMap::Numbers(a) => YMap::Numbers(a),
+                YMap::Levels { n } => YMap::Levels { n: *n },
+            },
+        );
+        // The strip of estimates under the data area, with its own y axis.
+        let strip = match (&grid.estimates, grid.estimate_rect(i)) {
+            (Some(e), Some(strip_rect)) => match &e.y {
+                YAxis::Numbers { map, .. } => Some((e, frame_at(strip_rect, YMap::Numbers(map)))),
+                _ => None,
+            },
+            _ => None,
         };
         let labelled = i % grid.cols == 0;
         if let Some(lines) = grid.panel_labels.get(i).filter(|l| !l.is_empty()) {
@@ -303,7 +316,7 @@ fn draw(plan: &FigurePlan, data: &FigureData, page: &Page) -> Drawn {
             frame::grid_lines(&mut marks, &frame, &grid.y);
         }
         frame::y_axis(&mut marks, &frame, &grid.y, labelled);
-        let drawn = layer::draw(&frame, panel);
+        let (drawn, under) = layer::draw(&frame, strip.as_ref().map(|(_, f)| f), panel);
         if i == corner_index {
             corner_panel = Some((rect, drawn.clone()));
         }
@@ -312,9 +325,24 @@ fn draw(plan: &FigurePlan, data: &FigureData, page: &Page) -> Drawn {
             rect: rect.grown(CLIP_GRACE_MM),
             marks: drawn,
         });
+        if let Some((e, strip_frame)) = &strip {
+            if labelled {
+                marks.extend(e.title.marks(rect.x, e.title_top(rect.bottom())));
+            }
+            if plan.grid {
+                frame::grid_lines(&mut marks, strip_frame, &e.y);
+            }
+            frame::y_axis(&mut marks, strip_frame, &e.y, labelled);
+            marks.push(Mark::Clip {
+                rect: strip_frame.rect.grown(CLIP_GRACE_MM),
+                marks: under,
+            });
+        }
+        // The x axis goes under the lowest area: the strip of estimates, when there is one.
+        let bottom = strip.as_ref().map_or(&frame, |(_, f)| f);
         frame::x_axis(
             &mut marks,
-            &frame,
+            bottom,
             &grid.x,
             !matches!(grid.y, YAxis::Hidden),
         );
@@ -323,8 +351,14 @@ fn draw(plan: &FigurePlan, data: &FigureData, page: &Page) -> Drawn {
                 XAxis::Categories(c) => c.height,
                 XAxis::Numbers { .. } => 0.0,
             };
-            let top = frame::labels_top(rect) + labels_h + GAP_MM / 2.0;
-            frame::n_row(&mut marks, rect, row, top, labelled.then_some(colours));
+            let top = frame::labels_top(bottom.rect) + labels_h + GAP_MM / 2.0;
+            frame::n_row(
+                &mut marks,
+                bottom.rect,
+                row,
+                top,
+                labelled.then_some(colours),
+            );
         }
     }
     Drawn {

@@ -2,7 +2,9 @@
 //!
 //! From the outside in: the title (when drawn) and the legend (when it goes on top) at the
 //! top, then the y-axis title; the caption, the key and the x-axis title at the bottom; the
-//! y labels' column on the left; the rest is the grid of panels. Every text is measured before
+//! y labels' column on the left; the rest is the grid of panels. A figure of differences adds
+//! under each panel's data area a strip of estimates ([`EstimateStrip`]): a smaller data area
+//! with its own y axis and a heading, sharing the panel's x axis, which is drawn under it. Every text is measured before
 //! it is placed. The grid tries every number of columns and keeps the one whose panels are
 //! largest (about as wide as [`PANEL_ASPECT`] times their height) among those where everything fits: each
 //! panel at least [`MIN_PANEL_WIDTH_MM`] × [`MIN_PANEL_HEIGHT_MM`], category labels and n rows
@@ -82,6 +84,24 @@ pub enum XAxis {
     Categories(CategoryLabels),
 }
 
+/// The strip of estimates under each panel's data area (`difference`): its heading (the axis
+/// title, at the panel's left edge in the first column), the space above it that holds the
+/// heading, its height and its y axis.
+#[derive(Debug, Clone)]
+pub struct EstimateStrip {
+    pub title: Paragraph,
+    pub gap: f64,
+    pub height: f64,
+    pub y: YAxis,
+}
+
+impl EstimateStrip {
+    /// Where its heading starts under a data area whose bottom is `bottom`.
+    pub fn title_top(&self, bottom: f64) -> f64 {
+        bottom + CLIP_GRACE_MM + GAP_MM / 2.0
+    }
+}
+
 /// The grid of panels and everything around each panel.
 #[derive(Debug, Clone)]
 pub struct Grid {
@@ -99,8 +119,11 @@ pub struct Grid {
     /// area for the top y tick label when there are no panel labels.
     pub strip_h: f64,
     pub head_room: f64,
-    /// Height of everything under a data area: axis, ticks, labels, n row.
+    /// Height of everything under a data area (under its strip of estimates, when there is
+    /// one): axis, ticks, labels, n row.
     pub below_h: f64,
+    /// The strip of estimates under each data area, when a layer draws one.
+    pub estimates: Option<EstimateStrip>,
     pub col_gap: f64,
     pub y: YAxis,
     pub x: XAxis,
@@ -114,7 +137,8 @@ pub struct Grid {
 
 impl Grid {
     fn row_height(&self) -> f64 {
-        self.strip_h + self.head_room + self.panel_h + self.below_h + PANEL_GAP_MM
+        let estimates = self.estimates.as_ref().map_or(0.0, |e| e.gap + e.height);
+        self.strip_h + self.head_room + self.panel_h + estimates + self.below_h + PANEL_GAP_MM
     }
 
     /// The data area of panel `i`.
@@ -126,6 +150,18 @@ impl Grid {
             self.panel_w,
             self.panel_h,
         )
+    }
+
+    /// The strip of estimates under panel `i`'s data area, when the figure has one.
+    pub fn estimate_rect(&self, i: usize) -> Option<Rect> {
+        let e = self.estimates.as_ref()?;
+        let panel = self.panel_rect(i);
+        Some(Rect::new(
+            panel.x,
+            panel.bottom() + e.gap,
+            panel.width,
+            e.height,
+        ))
     }
 
     /// Left and right edges of the columns' data areas.
@@ -393,7 +429,11 @@ impl Content<'_> {
         // it in a few rounds.
         let (mut grid, mut problems) = self.grid_with(cols, rows, top, bottom, 0.0);
         for _ in 0..2 {
-            let w = y_labels_width(&grid.y);
+            let strip = grid
+                .estimates
+                .as_ref()
+                .map_or(0.0, |e| y_labels_width(&e.y));
+            let w = y_labels_width(&grid.y).max(strip);
             if (w - grid.y_labels_w).abs() < 1e-9 {
                 break;
             }
@@ -522,6 +562,8 @@ impl Content<'_> {
             0.0
         };
         let avail = bottom - top - (rows - 1) as f64 * PANEL_GAP_MM;
+        let heading = self.estimate_heading(cols, panel_w, col_gap, &mut problems);
+        let estimates_gap = heading.as_ref().map_or(0.0, estimate_gap);
         let panel_height = |n_rows: &[NRow]| {
             let n_h = n_rows.iter().map(|r| r.height).fold(0.0, f64::max);
             let below_h = AXIS_OFFSET_MM
@@ -529,18 +571,27 @@ impl Content<'_> {
                 + GAP_MM
                 + labels_h
                 + if n_h > 0.0 { GAP_MM / 2.0 + n_h } else { 0.0 };
-            (avail / rows as f64 - strip_h - head_room - below_h, below_h)
+            let total = avail / rows as f64 - strip_h - head_room - below_h;
+            match &heading {
+                None => (total, below_h, 0.0),
+                Some(_) => {
+                    // The data area and the strip share what the gap between them leaves.
+                    let areas = total - estimates_gap;
+                    let strip = estimate_height(areas);
+                    (areas - strip, below_h, strip)
+                }
+            }
         };
         // Colour groups' n on lines of their own, unless the panels then come out too short:
         // then joined under each category.
         let mut n_rows = self.n_rows(panel_w, false, &mut problems);
-        let (mut panel_h, mut below_h) = panel_height(&n_rows);
+        let (mut panel_h, mut below_h, mut strip_height) = panel_height(&n_rows);
         if panel_h < MIN_PANEL_HEIGHT_MM && n_rows.iter().any(|r| r.per_group) {
             let mut compact_problems = Vec::new();
             let compact = self.n_rows(panel_w, true, &mut compact_problems);
             if compact_problems.is_empty() {
                 n_rows = compact;
-                (panel_h, below_h) = panel_height(&n_rows);
+                (panel_h, below_h, strip_height) = panel_height(&n_rows);
             }
         }
         let too_short = panel_h < MIN_PANEL_HEIGHT_MM;
@@ -566,6 +617,15 @@ impl Content<'_> {
         // Tick labels that cannot fit a panel too short anyway need no second word.
         let mut y_problems = Vec::new();
         let y = self.y_axis(panel_h, &mut y_problems);
+        let estimates = heading.and_then(|title| {
+            let scale = self.data.estimates.as_ref()?;
+            Some(EstimateStrip {
+                title,
+                gap: estimates_gap,
+                height: strip_height,
+                y: numeric_y_axis(scale, strip_height, &mut y_problems),
+            })
+        });
         if !too_short {
             problems.extend(y_problems);
             let rect = Rect::new(0.0, 0.0, panel_w, panel_h);
@@ -583,6 +643,7 @@ impl Content<'_> {
             strip_h,
             head_room,
             below_h,
+            estimates,
             col_gap,
             y,
             x,
@@ -612,6 +673,29 @@ impl Content<'_> {
                 })
             })
             .collect()
+    }
+
+    /// The heading of the strip of estimates, wrapped to the width of the grid's columns, when
+    /// the figure has one.
+    fn estimate_heading(
+        &self,
+        cols: usize,
+        panel_w: f64,
+        col_gap: f64,
+        problems: &mut Vec<Problem>,
+    ) -> Option<Paragraph> {
+        let scale = self.data.estimates.as_ref()?;
+        let width = (cols as f64 * panel_w + (cols - 1) as f64 * col_gap).max(1.0);
+        let heading = Paragraph::new(&scale.title, axis_title(), width);
+        if heading.lines.len() > MAX_LABEL_LINES || !heading.fits(width) {
+            problems.push(problem(
+                Needs::Width,
+                format!(
+                    "the title of the differences' axis needs more than {MAX_LABEL_LINES} lines"
+                ),
+            ));
+        }
+        Some(heading)
     }
 
     /// Each panel's label wrapped to the panel's width, and the height of the strip they take.
@@ -648,36 +732,7 @@ impl Content<'_> {
     /// The y axis for panels `panel_h` high: ticks far enough apart for their labels.
     fn y_axis(&self, panel_h: f64, problems: &mut Vec<Problem>) -> YAxis {
         match &self.data.y {
-            YScale::Numbers(s) => {
-                let style = tick_label();
-                let room = text::line_height(&style) + Y_LABEL_GAP_MM;
-                let target =
-                    ((panel_h / MM_PER_Y_TICK).floor() as usize + 1).clamp(Y_TICKS.0, Y_TICKS.1);
-                // Labels a little apart, else touching (never overlapping).
-                let fitting = [room, text::line_height(&style)]
-                    .into_iter()
-                    .find_map(|room| {
-                        (2..=target)
-                            .rev()
-                            .map(|t| NumAxisMap::new(s, t))
-                            .find(|map| tick_spacing(map, panel_h) >= room)
-                    });
-                let map = fitting.unwrap_or_else(|| {
-                    problems.push(problem(
-                        Needs::Height,
-                        format!(
-                            "the y tick labels need more than the {} of a panel",
-                            mm(panel_h)
-                        ),
-                    ));
-                    NumAxisMap::new(s, 2)
-                });
-                YAxis::Numbers {
-                    map,
-                    extent: s.extent,
-                    style,
-                }
-            }
+            YScale::Numbers(s) => numeric_y_axis(s, panel_h, problems),
             YScale::Categories { levels, title } => {
                 let n = levels.len().max(1);
                 let slot = panel_h / n as f64;
@@ -716,6 +771,52 @@ impl Content<'_> {
             YScale::Hidden => YAxis::Hidden,
         }
     }
+}
+
+/// A numeric y axis for a data area `panel_h` high: ticks far enough apart for their labels.
+fn numeric_y_axis(s: &NumScale, panel_h: f64, problems: &mut Vec<Problem>) -> YAxis {
+    let style = tick_label();
+    let room = text::line_height(&style) + Y_LABEL_GAP_MM;
+    let target = ((panel_h / MM_PER_Y_TICK).floor() as usize + 1).clamp(Y_TICKS.0, Y_TICKS.1);
+    // Labels a little apart, else touching (never overlapping).
+    let fitting = [room, text::line_height(&style)]
+        .into_iter()
+        .find_map(|room| {
+            (2..=target)
+                .rev()
+                .map(|t| NumAxisMap::new(s, t))
+                .find(|map| tick_spacing(map, panel_h) >= room)
+        });
+    let map = fitting.unwrap_or_else(|| {
+        problems.push(problem(
+            Needs::Height,
+            format!(
+                "the y tick labels need more than the {} of a panel",
+                mm(panel_h)
+            ),
+        ));
+        NumAxisMap::new(s, 2)
+    });
+    YAxis::Numbers {
+        map,
+        extent: s.extent,
+        style,
+    }
+}
+
+/// The height of the strip of estimates when it and the data area above it share `areas`
+/// millimetres: [`ESTIMATE_SHARE`] of them, at least [`MIN_ESTIMATE_HEIGHT_MM`].
+fn estimate_height(areas: f64) -> f64 {
+    (areas * ESTIMATE_SHARE).max(MIN_ESTIMATE_HEIGHT_MM)
+}
+
+/// The space between a data area and its strip of estimates: room for the strip's heading
+/// clear of both areas' marks, and for the tick labels at the data area's bottom and the
+/// strip's top to keep apart.
+fn estimate_gap(heading: &Paragraph) -> f64 {
+    let heading = 2.0 * CLIP_GRACE_MM + GAP_MM + heading.height();
+    let ticks = text::line_height(&tick_label()) + Y_LABEL_GAP_MM;
+    heading.max(ticks)
 }
 
 /// The side of the colour swatch that heads each group's line of the n row.

@@ -39,6 +39,10 @@ pub const MIN_TEXT_PT: f64 = 6.0;
 /// Narrowest and shortest data area of a panel.
 pub const MIN_PANEL_WIDTH_MM: f64 = 12.0;
 pub const MIN_PANEL_HEIGHT_MM: f64 = 10.0;
+/// The strip of estimates under a panel (`difference`): its share of the height the data area
+/// and it have together, and its least height.
+pub const ESTIMATE_SHARE: f64 = 0.3;
+pub const MIN_ESTIMATE_HEIGHT_MM: f64 = 10.0;
 /// Most lines a category label, a panel label or a legend label may wrap onto.
 pub const MAX_LABEL_LINES: usize = 2;
 
@@ -182,6 +186,11 @@ pub const GUIDE_LINE_MM: f64 = 0.3;
 pub const GUIDE_DASH_MM: [f64; 2] = [1.4, 0.9];
 pub const GUIDE_BAND_OPACITY: f64 = 0.08;
 pub const GUIDE_LABEL_GAP_MM: f64 = 0.6;
+/// Stacked bars of shares (`stack`): the share of an x level's band a bar takes, and at most
+/// this; the white line between its segments.
+pub const STACK_BAR_SHARE: f64 = 0.6;
+pub const STACK_BAR_MAX_MM: f64 = 14.0;
+pub const STACK_SEPARATOR_MM: f64 = 0.15;
 /// Legend: a swatch's side as a share of the line height; the clear space kept between a
 /// legend placed inside a panel and the data.
 pub const SWATCH_SHARE: f64 = 0.75;

@@ -71,8 +71,8 @@ fn kind(stat: &str) -> Kind {
     match stat {
         "n" | "n_missing" | "count" => Kind::Count,
         "percent" => Kind::Percent,
-        "mean" | "sd" | "se" | "ci_low" | "ci_high" | "median" | "q1" | "q3" | "whisker_low"
-        | "whisker_high" | "min" | "max" | "outliers" => Kind::Measured,
+        "mean" | "difference" | "sd" | "se" | "ci_low" | "ci_high" | "median" | "q1" | "q3"
+        | "whisker_low" | "whisker_high" | "min" | "max" | "outliers" => Kind::Measured,
         "r" => Kind::Correlation,
         "bandwidth" | "intercept" => Kind::Plain { unit: true },
         _ => Kind::Plain { unit: false },

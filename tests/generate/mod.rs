@@ -417,8 +417,20 @@ fn figure(u: &mut Unstructured, book: &Codebook, index: usize) -> String {
             lines.push(format!("y {}{}", m.name, num_axis_options(u, &m, true)));
             let n_layers = 1 + below(u, 3);
             for _ in 0..n_layers {
-                let layer = match below(u, 6) {
-                    0 => format!("points{}", pick(u, &["", " jitter(0.3)", " jitter(1)"])),
+                let layer = match below(u, 7) {
+                    0 => format!(
+                        "points{}",
+                        pick(
+                            u,
+                            &[
+                                "",
+                                " jitter(0.3)",
+                                " jitter(1)",
+                                " arrange(stack)",
+                                " arrange(swarm)"
+                            ]
+                        )
+                    ),
                     1 => format!("box{}", pick(u, &["", " whiskers(range)"])),
                     2 => format!(
                         "violin{}",
@@ -440,7 +452,14 @@ fn figure(u: &mut Unstructured, book: &Codebook, index: usize) -> String {
                         format!("mean{error}{bar}")
                     }
                     4 => format!("median{}", pick(u, &["", " error(boot(0.9))"])),
-                    _ => "lines by(p)".to_owned(),
+                    5 => "lines by(p)".to_owned(),
+                    _ => {
+                        let level = &x_factor.levels[below(u, x_factor.levels.len())];
+                        format!(
+                            "difference from(\"{level}\"){}",
+                            pick(u, &["", " dots", " error(ci(0.8))"])
+                        )
+                    }
                 };
                 layers.push(layer);
             }
@@ -454,7 +473,7 @@ fn figure(u: &mut Unstructured, book: &Codebook, index: usize) -> String {
                 .unwrap_or_else(|| factor(u));
             lines.push(format!("x {}", x_factor.name));
             lines.push(format!("y {}", y.name));
-            layers.push("median".to_owned());
+            layers.push(pick(u, &["median", "stack"]).to_owned());
         }
         Frame::Scatter => {
             let (mx, my) = (measure(u), measure(u));

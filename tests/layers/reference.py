@@ -21,9 +21,18 @@ sides read and write exactly):
                           at its sorted x, read at the points asked for with numpy.interp (exact
                           at the data's x); and the neighbours per local line, int(frac n + 1e-10)
   reference.py t_means    numpy mean, sd (ddof 1) and se, and scipy.stats.t.interval of each sample
+  reference.py paired     scipy.stats.ttest_rel(level, reference): the mean difference, df and
+                          confidence_interval(L)
+  reference.py welch      scipy.stats.ttest_ind(level, reference, equal_var=False): the
+                          difference of means, df and confidence_interval(L)
+  reference.py shares     numpy.unique(values, return_counts=True): each level's count and
+                          percent of the values
+  reference.py swarm      the swarm's sweep restated (module doc of src/stats/dotplot.rs): the
+                          offset of each dot at heights y (mm) with radius r
 """
 
 import json
+import math
 import sys
 
 import numpy as np
@@ -167,6 +176,22 @@ def mode_lowess(request):
     return out
 
 
+def mode_paired(request):
+    out = []
+    for level, reference, confidence in request:
+        res = stats.ttest_rel(np.array(level, dtype=float), np.array(reference, dtype=float))
+        ci = res.confidence_interval(confidence_level=confidence)
+        out.append(
+            {
+                "difference": float(np.mean(np.array(level) - np.array(reference))),
+                "df": float(res.df),
+                "ci": [float(ci.low), float(ci.high)],
+                "t": float(res.statistic),
+            }
+        )
+    return out
+
+
 def mode_t_means(request):
     level = request["level"]
     out = []
@@ -180,6 +205,60 @@ def mode_t_means(request):
     return out
 
 
+def mode_welch(request):
+    out = []
+    for level, reference, confidence in request:
+        a = np.array(level, dtype=float)
+        b = np.array(reference, dtype=float)
+        res = stats.ttest_ind(a, b, equal_var=False)
+        ci = res.confidence_interval(confidence_level=confidence)
+        out.append(
+            {
+                "difference": float(a.mean() - b.mean()),
+                "df": float(res.df),
+                "ci": [float(ci.low), float(ci.high)],
+            }
+        )
+    return out
+
+
+def mode_shares(request):
+    out = []
+    for values, levels in request:
+        names, counts = np.unique(np.array(values, dtype=str), return_counts=True)
+        found = dict(zip(names.tolist(), counts.tolist()))
+        n = len(values)
+        out.append(
+            {
+                "n": n,
+                "count": [found.get(l, 0) for l in levels],
+                "percent": [100.0 * found.get(l, 0) / n for l in levels],
+            }
+        )
+    return out
+
+
+def mode_swarm(request):
+    """Each dot, lowest first (ties in order), at the offset nearest zero where it keeps 2r from
+    every dot placed before it; of two equally near, the positive one."""
+    heights = request["heights"]
+    r = request["radius"]
+    order = sorted(range(len(heights)), key=lambda i: heights[i])
+    placed = []
+    offsets = [0.0] * len(heights)
+    for i in order:
+        y = heights[i]
+        near = [(o, math.sqrt(4 * r * r - (y - q) ** 2)) for q, o in placed if abs(y - q) < 2 * r]
+        candidates = [0.0] + [o + g for o, g in near] + [o - g for o, g in near]
+        candidates.sort(key=lambda c: (abs(c), -c))
+        for c in candidates:
+            if all(abs(c - o) >= g - 1e-9 * r for o, g in near):
+                offsets[i] = c
+                break
+        placed.append((y, offsets[i]))
+    return offsets
+
+
 MODES = {
     "ecdf": mode_ecdf,
     "ols": mode_ols,
@@ -190,6 +269,10 @@ MODES = {
     "reflected": mode_reflected,
     "lowess": mode_lowess,
     "t_means": mode_t_means,
+    "paired": mode_paired,
+    "welch": mode_welch,
+    "shares": mode_shares,
+    "swarm": mode_swarm,
 }
 
 if __name__ == "__main__":

@@ -18,6 +18,7 @@
 mod boxplot;
 mod counts;
 mod density;
+mod difference;
 mod ecdf;
 mod fit;
 mod flows;
@@ -31,6 +32,7 @@ pub(super) mod options;
 mod points;
 pub(super) mod shape;
 mod smooth;
+mod stack;
 mod violin;
 
 use crate::diag::{Diagnostic, Span};
@@ -43,6 +45,7 @@ use super::terms::{Accepts, Options};
 pub use boxplot::BoxOpts;
 pub use counts::CountsOpts;
 pub use density::DensityOpts;
+pub use difference::DifferenceOpts;
 pub use ecdf::EcdfOpts;
 pub use fit::FitOpts;
 pub use flows::FlowsOpts;
@@ -52,8 +55,9 @@ pub use key::{KeyContext, MarkKey};
 pub use lines::LinesOpts;
 pub use mean::MeanOpts;
 pub use median::MedianOpts;
-pub use points::PointsOpts;
+pub use points::{Arrange, PointsOpts};
 pub use smooth::{span_text, SmoothOpts};
+pub use stack::StackOpts;
 pub use violin::ViolinOpts;
 
 /// Every layer, in the order of the language reference.
@@ -64,7 +68,9 @@ pub static LAYERS: &[&LayerDecl] = &[
     &mean::DECL,
     &median::DECL,
     &lines::DECL,
+    &difference::DECL,
     &counts::DECL,
+    &stack::DECL,
     &histogram::DECL,
     &density::DECL,
     &ecdf::DECL,
@@ -88,7 +94,9 @@ pub enum Layer {
     Mean(MeanOpts),
     Median(MedianOpts),
     Lines(LinesOpts),
+    Difference(DifferenceOpts),
     Counts(CountsOpts),
+    Stack(StackOpts),
     Histogram(HistogramOpts),
     Density(DensityOpts),
     Ecdf(EcdfOpts),
@@ -109,7 +117,9 @@ impl Layer {
             Layer::Mean(o) => mean::key(o, ctx),
             Layer::Median(o) => median::key(o, ctx),
             Layer::Lines(o) => lines::key(o, ctx),
+            Layer::Difference(o) => difference::key(o, ctx),
             Layer::Counts(o) => counts::key(o, ctx),
+            Layer::Stack(o) => stack::key(o, ctx),
             Layer::Histogram(o) => histogram::key(o, ctx),
             Layer::Density(o) => density::key(o, ctx),
             Layer::Ecdf(o) => ecdf::key(o, ctx),
@@ -202,6 +212,9 @@ pub enum Shows {
     Counts,
     /// Nothing of the data: a reference from the spec (guides).
     Reference,
+    /// An estimate that compares levels, drawn on an axis of its own beside the data
+    /// (differences): never the figure's n, and never shown without the data it compares.
+    Comparison,
 }
 
 /// One option of a layer: `name(args)` or a bare flag word.

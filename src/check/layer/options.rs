@@ -1,7 +1,7 @@
 //! Readers for the option values several layers share: interval levels, error bars, bin rules,
 //! bandwidths, bar heights, jitter and subjects.
 
-use crate::diag::{Code, Diagnostic, Span};
+use crate::diag::{did_you_mean, Code, Diagnostic, Span};
 use crate::syntax::ast::{Call, Ident, Term};
 
 use super::super::codebook::resolve;
@@ -320,4 +320,45 @@ pub fn by_subject(
         );
     }
     Some((id, w.span))
+}
+
+/// The level a call's single argument names — a text, a number or a name, as `levels(...)`
+/// writes them — as its index among the declared `levels`, with the argument's span; an
+/// unknown level is reported as `unknown(name)` says, with the closest declared level offered.
+pub fn declared_level(
+    c: &Call,
+    levels: &[String],
+    shape: &str,
+    unknown: impl FnOnce(&str) -> String,
+    diags: &mut Vec<Diagnostic>,
+) -> Option<(usize, Span)> {
+    let (name, span) = match terms::single(c, shape, diags)? {
+        Term::Str(s) => (s.value.as_str(), s.span),
+        Term::Num(n) => (n.text.as_str(), n.span),
+        Term::Word(w) => (w.name.as_str(), w.span),
+        other => {
+            terms::expect_str(other, shape, diags);
+            return None;
+        }
+    };
+    if let Some(i) = levels.iter().position(|l| l == name) {
+        return Some((i, span));
+    }
+    let help = match did_you_mean(name, levels.iter().map(String::as_str)) {
+        Some(s) => format!("did you mean \"{s}\"?"),
+        None => format!(
+            "the declared levels are {}",
+            levels
+                .iter()
+                .map(|l| format!("\"{l}\""))
+                .collect::<Vec<_>>()
+                .join(", ")
+        ),
+    };
+    diags.push(
+        Diagnostic::new(Code::BadArgument, unknown(name))
+            .with_label(span, "not a declared level")
+            .with_help(help),
+    );
+    None
 }

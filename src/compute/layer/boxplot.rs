@@ -14,7 +14,7 @@ use super::super::cells::Values;
 use super::super::extent::Extent;
 use super::super::summary::{RowKey, SummaryRow};
 use super::super::ComputeError;
-use super::{At, LayerMarks, LayerOutput, Stat};
+use super::{few_values, At, LayerMarks, LayerOutput, Smallest, Stat};
 
 /// Most outliers a box lists one per row in the summary; beyond this, one `n_outliers` row
 /// counts them (the extremes are the box's `min` and `max`), unless the figure asks for the
@@ -57,7 +57,9 @@ pub fn compute(opts: &BoxOpts, at: &At, values: &Values) -> Result<LayerOutput, 
     let mut rows = Vec::new();
     let mut boxes = Vec::new();
     let mut y = Extent::default();
+    let mut smallest = Smallest::default();
     at.each_cell(values, &mut rows, |cell, sorted, k, rows| {
+        smallest.see(sorted.len(), k);
         let Ok(b) = stats::box_summary(sorted, rule) else {
             return;
         };
@@ -97,8 +99,10 @@ pub fn compute(opts: &BoxOpts, at: &At, values: &Values) -> Result<LayerOutput, 
             notch,
         });
     });
-    Ok(LayerOutput {
+    let mut out = LayerOutput {
         y,
         ..LayerOutput::new(LayerMarks::Box(boxes), rows)
-    })
+    };
+    out.warnings.extend(few_values(at, smallest, "a box"));
+    Ok(out)
 }

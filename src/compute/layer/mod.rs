@@ -8,6 +8,7 @@
 mod boxplot;
 mod counts;
 mod density;
+mod difference;
 mod ecdf;
 mod fit;
 mod flows;
@@ -18,9 +19,12 @@ mod mean;
 mod median;
 mod points;
 mod smooth;
+mod stack;
 mod violin;
 
+use crate::check::layer::Shows;
 use crate::check::plan::{Axes, AxisScale, BootMethod, Layer, LayerPlan};
+use crate::diag::{Code, Diagnostic, Span};
 use crate::stats;
 
 use super::cells::{Cell, Cells, Placed, Placement, Values};
@@ -29,6 +33,7 @@ use super::summary::{RowKey, SummaryRow};
 use super::{ComputeError, Legend};
 
 pub use boxplot::BoxMark;
+pub use difference::DifferenceMarks;
 pub use fit::{FitMark, FitModel};
 pub use flows::FlowMarks;
 pub use guide::GuideMark;
@@ -38,6 +43,7 @@ pub use mean::{MeanEstimates, MeanKind, MeanMarks};
 pub use median::LevelMark;
 pub use points::{CatPoint, PointMarks};
 pub use smooth::SmoothMark;
+pub use stack::{StackBar, StackMarks};
 pub use violin::{ViolinMark, VIOLIN_GRID};
 
 pub use density::Curve;
@@ -53,7 +59,10 @@ pub enum LayerMarks {
     Mean(MeanMarks),
     Median(MedianMarks),
     Lines(Vec<SubjectPath>),
+    /// Drawn under the panel, on the axis of differences.
+    Difference(DifferenceMarks),
     Counts(CountMarks),
+    Stack(StackMarks),
     Histogram(Vec<Bin>),
     Density(Vec<Curve>),
     Ecdf(Vec<EcdfMark>),
@@ -103,6 +112,9 @@ pub enum YUse {
     Data,
     /// The layer's own heights from zero (count, percent, density): the axis title.
     Heights(&'static str),
+    /// The layer's own heights stacked either side of zero (a diverging stack): the axis title;
+    /// the axis labels their sizes, unsigned.
+    Split(&'static str),
     /// No y axis: the layer draws its own vertical quantities (flows).
     Hidden,
 }
@@ -123,8 +135,13 @@ pub struct LayerOutput {
     pub width_peak: f64,
     /// A legend the layer brings (flows: its states), in place of the colour legend.
     pub legend: Option<Legend>,
-    /// Warnings found in the data (a smooth of too few pairs).
-    pub warnings: Vec<crate::diag::Diagnostic>,
+    /// The title and values of the axis of estimates under the panels (`difference`).
+    pub estimate_axis: Option<(String, Extent)>,
+    /// Words the key adds to the layer's sentence when the data call for them ("no interval
+    /// from fewer than 2 pairs").
+    pub note: Option<&'static str>,
+    /// Warnings about the data the layer draws (too few values).
+    pub warnings: Vec<Diagnostic>,
 }
 
 impl LayerOutput {
@@ -138,6 +155,8 @@ impl LayerOutput {
             y_use: YUse::Data,
             width_peak: 0.0,
             legend: None,
+            estimate_axis: None,
+            note: None,
             warnings: Vec::new(),
         }
     }
@@ -153,6 +172,7 @@ pub fn compute(
         cells,
         panel,
         layer: layer.decl.word,
+        head: layer.head,
     };
     match &layer.layer {
         Layer::Points(o) => points::compute(o, &at),
@@ -161,7 +181,9 @@ pub fn compute(
         Layer::Mean(o) => mean::compute(o, &at, layer.head),
         Layer::Median(o) => median::compute(o, &at),
         Layer::Lines(o) => lines::compute(o, &at),
+        Layer::Difference(o) => difference::compute(o, &at, at.values()?),
         Layer::Counts(o) => counts::compute(o, &at, at.rows()?),
+        Layer::Stack(o) => stack::compute(o, &at),
         Layer::Histogram(o) => histogram::compute(o, &at, at.values()?),
         Layer::Density(o) => density::compute(o, &at, at.values()?),
         Layer::Ecdf(o) => ecdf::compute(o, &at, at.values()?),
@@ -172,11 +194,13 @@ pub fn compute(
     }
 }
 
-/// Where a layer is computed: the figure's cells, one panel, the layer's word.
+/// Where a layer is computed: the figure's cells, one panel, the layer's word (and where it is
+/// written, for warnings).
 pub struct At<'c, 'a> {
     pub cells: &'c Cells<'a>,
     pub panel: usize,
     pub layer: &'static str,
+    pub head: Span,
 }
 
 impl At<'_, '_> {
@@ -330,6 +354,55 @@ fn boot_interval(
     }
 }
 
+/// Fewest values a box or violin describes a distribution from: below it, quartiles and a
+/// density rest on too few values to mean much, and a figure that does not show the values
+/// themselves warns (W0016; common practice, no single standard).
+pub const LEAST_FOR_SHAPE: usize = 5;
+
+/// Tracks the cell of a layer with the fewest values (at least one) for [`few_values`].
+#[derive(Debug, Default)]
+struct Smallest(Option<(usize, RowKey)>);
+
+impl Smallest {
+    fn see(&mut self, n: usize, key: &RowKey) {
+        if n > 0 && self.0.as_ref().is_none_or(|(m, _)| n < *m) {
+            self.0 = Some((n, key.clone()));
+        }
+    }
+}
+
+/// W0016: a shape (`what`: "a box", "a violin") drawn from fewer than [`LEAST_FOR_SHAPE`]
+/// values, naming its smallest cell, in a figure whose dots do not show the values.
+fn few_values(at: &At, smallest: Smallest, what: &str) -> Option<Diagnostic> {
+    let shows_values = at
+        .cells
+        .plan
+        .layers
+        .iter()
+        .any(|l| l.decl.shows == Shows::Values);
+    let (n, key) = smallest
+        .0
+        .filter(|(n, _)| *n < LEAST_FOR_SHAPE && !shows_values)?;
+    let mut place = vec![format!("x = \"{}\"", key.x)];
+    if !key.group.is_empty() {
+        place.push(format!("colour = \"{}\"", key.group));
+    }
+    if !key.panel.is_empty() {
+        place.push(format!("panel = \"{}\"", key.panel));
+    }
+    let values = if n == 1 { "value" } else { "values" };
+    Some(
+        Diagnostic::new(
+            Code::FewValues,
+            format!("{what} of {n} {values} ({}): too few to describe a distribution", place.join(", ")),
+        )
+        .with_label(at.head, format!("drawn from {n} {values}"))
+        .with_help(format!(
+            "add `points` to show so few values; {what} needs about {LEAST_FOR_SHAPE} values to mean much (common practice)"
+        )),
+    )
+}
+
 /// Pushes a cell's `n` and `n_missing` rows.
 fn n_rows(rows: &mut Vec<SummaryRow>, key: &RowKey, n: usize, n_missing: usize) {
     rows.push(key.count(Stat::N, n));
@@ -366,10 +439,10 @@ macro_rules! stat_table {
 }
 
 stat_table! {
-    N = "n", "Number of values used: per cell; per colour group (`x` empty) for `counts`, `histogram`, `density`, `ecdf`, scatter `points`, `fit`, `smooth` and `mean` over a numeric x (which also gives one per x value); for `lines`, the subjects drawn per group; for `flows`, subjects in the panel and at each occasion.";
-    NMissing = "n_missing", "Kept rows not shown because a needed value is missing (under `ci(L, within)`, also the cell's values of subjects missing another within cell); with every `n` except that of `lines` and the per-x-value `n` of `mean` over a numeric x (its group's row counts them).";
-    Count = "count", "Rows in a level or bin (`counts`, `histogram`); for `flows`, subjects in a state, or moving between two states of consecutive occasions (zeros included).";
-    Percent = "percent", "`100 · count / n` of the panel and colour group: `counts` and `histogram` with `heights(percent)` (no row for a group with no rows).";
+    N = "n", "Number of values used: per cell; per colour group (`x` empty) for `counts`, `histogram`, `density`, `ecdf`, scatter `points`, `fit`, `smooth` and `mean` over a numeric x (which also gives one per x value); for `lines`, the subjects drawn per group; for `flows`, subjects in the panel and at each occasion; for `difference`, the pairs (paired) or the level's values (Welch); for `stack`, the values at the x level.";
+    NMissing = "n_missing", "Kept rows not shown because a needed value is missing (under `ci(L, within)`, also the cell's values of subjects missing another within cell; under a paired `difference`, also the level's values whose subject has none at the reference); with every `n` except that of `lines` and the per-x-value `n` of `mean` over a numeric x (its group's row counts them).";
+    Count = "count", "Rows in a level or bin (`counts`, `histogram`); for `flows`, subjects in a state, or moving between two states of consecutive occasions (zeros included); for `stack`, the values at a level of y (`group`) and of x (zeros included).";
+    Percent = "percent", "`100 · count / n` of the panel and colour group: `counts` and `histogram` with `heights(percent)` (no row for a group with no rows); for `stack`, `100 · count / n` of the x level (no row for an x level without values).";
     Density = "density", "`count / (n · width)`: `histogram` with `heights(density)`; the kernel density at `x`: `density` and `violin` with `summary(full)`, one row per point drawn.";
     Proportion = "proportion", "The proportion of values at or below `x` (each distinct value): `ecdf`.";
     Bandwidth = "bandwidth", "The kernel bandwidth used: `density`, `violin`.";
@@ -395,7 +468,9 @@ stat_table! {
     GeometricSd = "geometric_sd", "`exp(sd of ln y)`, the factor the bar spans each side of the geometric mean (÷ and ×): `mean error(sd)` on a log axis.";
     Se = "se", "Standard error of the mean: `mean error(se)`.";
     GeometricSe = "geometric_se", "`exp(se of ln y)`, as `geometric_sd`: `mean error(se)` on a log axis.";
-    CiLow = "ci_low", "Lower end of the interval: `mean error(ci(L))`, `error(ci(L, within))`, `error(boot(L))`, `error(boot(L, bca))`; `median error(ci(L))` (an order statistic), `error(boot(L))`, `error(boot(L, bca))`; `counts heights(percent) error(ci(L))` (Wilson, in percent).";
+    Difference = "difference", "The level's mean minus the reference level's (Welch), or the mean of the subjects' differences level − reference (paired): `difference`.";
+    Df = "df", "Degrees of freedom of the difference's t interval: the Welch–Satterthwaite ν (not whole), or pairs − 1: `difference` with an interval.";
+    CiLow = "ci_low", "Lower end of the interval: `mean error(ci(L))`, `error(ci(L, within))`, `error(boot(L))`, `error(boot(L, bca))`; `median error(ci(L))` (an order statistic), `error(boot(L))`, `error(boot(L, bca))`; `counts heights(percent) error(ci(L))` (Wilson, in percent); `difference` (paired t or Welch).";
     CiHigh = "ci_high", "Upper end of the interval, as `ci_low`.";
     Coverage = "coverage", "The coverage the order-statistic interval achieves, at least `L`: `median error(ci(L))`.";
     Median = "median", "The median (a level name for an ordinal y): `box`, `violin`, `median`.";

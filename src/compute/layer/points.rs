@@ -1,9 +1,10 @@
 //! `points`: every value as a dot — over a categorical x, spread across its group's band by a
-//! deterministic jitter; over a numeric x, at (x, y).
+//! deterministic jitter, or left for the layout to arrange side by side (`arrange(...)`: where
+//! a dot goes depends on the dots' size in millimetres); over a numeric x, at (x, y).
 //!
 //! Summary rows: `n` and `n_missing` per cell (per colour group over a numeric x).
 
-use crate::check::layer::PointsOpts;
+use crate::check::layer::{Arrange, PointsOpts};
 use crate::stats;
 
 use super::super::cells::{Obs, Pair, Placed, Placement, Values};
@@ -19,6 +20,9 @@ const JITTER_SEED: u64 = 0x5eed_f16a;
 pub enum PointMarks {
     /// Over a categorical x, in data-row order.
     Categories(Vec<CatPoint>),
+    /// Over a categorical x, in data-row order, each at offset 0: the layout places them side
+    /// by side as `Arrange` says.
+    Arranged(Vec<CatPoint>, Arrange),
     /// (x, y, colour group), by group, then in data-row order.
     Numbers(Vec<(f64, f64, usize)>),
 }
@@ -55,9 +59,13 @@ fn over_categories(opts: &PointsOpts, at: &At, values: &Values) -> LayerOutput {
         .collect();
     let mut y = Extent::default();
     points.iter().for_each(|p| y.add(p.y));
+    let marks = match opts.arrange {
+        Some(how) => PointMarks::Arranged(points, how),
+        None => PointMarks::Categories(points),
+    };
     LayerOutput {
         y,
-        ..LayerOutput::new(LayerMarks::Points(PointMarks::Categories(points)), rows)
+        ..LayerOutput::new(LayerMarks::Points(marks), rows)
     }
 }
 

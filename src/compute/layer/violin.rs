@@ -27,7 +27,7 @@ use super::super::extent::Extent;
 use super::super::summary::format_number;
 use super::super::ComputeError;
 use super::density::{bandwidth_rule, boundary_of, density_rows};
-use super::{At, LayerMarks, LayerOutput, Stat};
+use super::{few_values, At, LayerMarks, LayerOutput, Smallest, Stat};
 
 /// Points at which each violin's density is evaluated.
 pub const VIOLIN_GRID: usize = 128;
@@ -48,7 +48,9 @@ pub fn compute(opts: &ViolinOpts, at: &At, values: &Values) -> Result<LayerOutpu
     let boundary = boundary_of(at);
     let mut rows = Vec::new();
     let mut marks = Vec::new();
+    let mut smallest = Smallest::default();
     at.each_cell(values, &mut rows, |cell, sorted, k, rows| {
+        smallest.see(sorted.len(), k);
         let Ok(q) = stats::quartiles_sorted(sorted) else {
             return;
         };
@@ -86,11 +88,13 @@ pub fn compute(opts: &ViolinOpts, at: &At, values: &Values) -> Result<LayerOutpu
         y.add(*v);
         width_peak = width_peak.max(*d);
     }
-    Ok(LayerOutput {
+    let mut out = LayerOutput {
         y,
         width_peak,
         ..LayerOutput::new(LayerMarks::Violin(marks), rows)
-    })
+    };
+    out.warnings.extend(few_values(at, smallest, "a violin"));
+    Ok(out)
 }
 
 /// The density at [`VIOLIN_GRID`] points from the smallest to the largest of the sorted

@@ -1,5 +1,6 @@
 //! Drawing each layer's marks inside a panel: one file per layer, and the one dispatch over
-//! [`LayerMarks`]. Shared here: dots, summary colours, estimates with intervals, and bars.
+//! [`LayerMarks`]. Shared here: dots, summary colours, estimates with intervals, bars, and
+//! dots arranged side by side.
 //!
 //! Invariant: layers are drawn in the order written; each draws only inside its panel (the
 //! caller clips to the panel's rectangle).
@@ -7,6 +8,7 @@
 mod boxplot;
 mod counts;
 mod density;
+mod difference;
 mod ecdf;
 mod fit;
 mod flows;
@@ -17,18 +19,30 @@ mod mean;
 mod median;
 mod points;
 mod smooth;
+mod stack;
 mod violin;
 
+use std::collections::BTreeMap;
+
+use crate::check::layer::Arrange;
 use crate::compute::layer::{Bar, Estimate};
 use crate::compute::{LayerMarks, PanelData};
 use crate::scene::{Colour, Fill, Mark, PathSegment, Point, Stroke};
+use crate::stats;
 
 use super::style::*;
 use super::PanelFrame;
 
-/// Every layer of a panel, in the order written; guides behind them all, their labels on top.
-pub fn draw(frame: &PanelFrame, panel: &PanelData) -> Vec<Mark> {
+/// Every layer of a panel, in the order written (guides behind them all, their labels on
+/// top): the marks inside the panel, and those in the strip of estimates under it (`strip`,
+/// when the figure has one).
+pub fn draw(
+    frame: &PanelFrame,
+    strip: Option<&PanelFrame>,
+    panel: &PanelData,
+) -> (Vec<Mark>, Vec<Mark>) {
     let mut out = Vec::new();
+    let mut under = Vec::new();
     for layer in &panel.layers {
         if let LayerMarks::Guide(g) = layer {
             guide::draw_behind(&mut out, frame, g);
@@ -43,7 +57,13 @@ pub fn draw(frame: &PanelFrame, panel: &PanelData) -> Vec<Mark> {
             LayerMarks::Mean(means) => mean::draw(&mut out, frame, means),
             LayerMarks::Median(medians) => median::draw(&mut out, frame, medians),
             LayerMarks::Lines(paths) => lines::draw(&mut out, frame, paths),
+            LayerMarks::Difference(marks) => {
+                if let Some(strip) = strip {
+                    difference::draw(&mut under, strip, marks);
+                }
+            }
             LayerMarks::Counts(counts) => counts::draw(&mut out, frame, counts),
+            LayerMarks::Stack(stack) => stack::draw(&mut out, frame, stack),
             LayerMarks::Histogram(bins) => histogram::draw(&mut out, frame, bins),
             LayerMarks::Density(curves) => density::draw(&mut out, frame, curves),
             LayerMarks::Ecdf(steps) => ecdf::draw(&mut out, frame, steps),
@@ -56,7 +76,69 @@ pub fn draw(frame: &PanelFrame, panel: &PanelData) -> Vec<Mark> {
     }
     let (labels, _) = guide::labels(frame, &panel.layers, &out[behind..]);
     out.extend(labels);
-    out
+    (out, under)
+}
+
+/// The places of dots arranged side by side in their cells, in the order given: `dots` are
+/// (x slot, colour group, value). Per cell, the dots' heights in millimetres are placed by
+/// Wilkinson's stacks (one row of dots per bin of one dot's width, centred on the group's
+/// band, at the bin's middle) or by the swarm ([`stats::swarm_offsets`]); a cell whose widest
+/// row would leave its group's band is narrowed to fit it, so its dots may overlap sideways.
+fn arrange(frame: &PanelFrame, how: Arrange, dots: &[(usize, usize, f64)]) -> Vec<Point> {
+    let mut cells: BTreeMap<(usize, usize), Vec<usize>> = BTreeMap::new();
+    for (i, (x, g, _)) in dots.iter().enumerate() {
+        cells.entry((*x, *g)).or_default().push(i);
+    }
+    let mut places = vec![Point::new(0.0, 0.0); dots.len()];
+    for ((x, g), members) in cells {
+        let (cx, gw) = frame.group_slot(x, g);
+        // Heights upwards from the panel's bottom, so ascending values ascend.
+        let heights: Vec<f64> = members
+            .iter()
+            .map(|&i| frame.rect.bottom() - frame.y(dots[i].2))
+            .collect();
+        let (mut offsets, heights) = match how {
+            Arrange::Swarm => (swarm(&heights), heights),
+            Arrange::Stack => stacked(&heights),
+        };
+        let widest = offsets.iter().fold(0.0_f64, |m, o| m.max(o.abs()));
+        let room = (gw / 2.0 - POINT_RADIUS_MM).max(0.0);
+        if widest > room {
+            offsets.iter_mut().for_each(|o| *o *= room / widest);
+        }
+        for ((&i, o), h) in members.iter().zip(offsets).zip(heights) {
+            places[i] = Point::new(cx + o, frame.rect.bottom() - h);
+        }
+    }
+    places
+}
+
+/// Offsets of a swarm of dots at `heights` (mm); all on the centre line if they cannot be
+/// placed (a height that is not finite).
+fn swarm(heights: &[f64]) -> Vec<f64> {
+    stats::swarm_offsets(heights, 1.0, POINT_RADIUS_MM).unwrap_or_else(|_| vec![0.0; heights.len()])
+}
+
+/// Wilkinson's stacks of dots at `heights` (mm), one dot wide: each dot's offset across the
+/// band (its stack's row centred) and its height (its stack's middle).
+fn stacked(heights: &[f64]) -> (Vec<f64>, Vec<f64>) {
+    let diameter = 2.0 * POINT_RADIUS_MM;
+    let Ok(stacks) = stats::dot_stacks(heights, diameter) else {
+        return (vec![0.0; heights.len()], heights.to_vec());
+    };
+    let mut sizes: BTreeMap<u64, usize> = BTreeMap::new();
+    for s in &stacks {
+        let size = sizes.entry(s.centre.to_bits()).or_default();
+        *size = (*size).max(s.height + 1);
+    }
+    stacks
+        .iter()
+        .map(|s| {
+            let size = sizes[&s.centre.to_bits()];
+            let offset = (s.height as f64 - (size - 1) as f64 / 2.0) * diameter;
+            (offset, s.centre)
+        })
+        .unzip()
 }
 
 /// Bars from zero on a categorical axis; pale under points, so the points stay visible.
